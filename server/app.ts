@@ -1,0 +1,94 @@
+import express, { type RequestHandler } from 'express';
+import helmet from 'helmet';
+import path from 'node:path';
+import fs from 'node:fs';
+import type { PassportStatic } from 'passport';
+import { mountRoutes, type AppDeps } from './lib/http';
+import { errorMiddleware } from './lib/error-middleware';
+import { AppError } from './lib/errors';
+import { apiRoutes } from './routes';
+import { healthRoutes } from './modules/health/health.routes';
+import { sessionLifetime, csrfProtection } from './modules/auth/session-middleware';
+import { verifyDisplayKey } from './modules/facility/display-links.service';
+import type { MailCatcher } from './lib/mail-catcher';
+
+export interface AppOptions {
+  session: RequestHandler;
+  passport: PassportStatic;
+  catcher: MailCatcher | null;
+  /** Built client to serve (absent in API-only tests and in `npm run dev`). */
+  distDir?: string;
+}
+
+/** Builds the Express app without listening, so tests run it on an ephemeral port. */
+export function createApp(deps: AppDeps, opts: AppOptions) {
+  const { config, log } = deps;
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', false);
+
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: true,
+        directives: {
+          'default-src': ["'self'"],
+          'script-src': ["'self'"],
+          'style-src': ["'self'", "'unsafe-inline'"],
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'connect-src': ["'self'", 'ws:', 'wss:'],
+          'font-src': ["'self'", 'data:'],
+          'object-src': ["'none'"],
+          'base-uri': ["'none'"],
+          'frame-ancestors': ["'none'"],
+          'form-action': ["'self'"],
+          'upgrade-insecure-requests': config.cookieSecure ? [] : null,
+        },
+      },
+      referrerPolicy: { policy: 'strict-origin-when-cross-origin' },
+      crossOriginEmbedderPolicy: false,
+      strictTransportSecurity: config.cookieSecure,
+    }),
+  );
+
+  const api = express.Router();
+  // API answers carry personal data: never cached by browsers or proxies.
+  api.use((_req, res, next) => {
+    res.setHeader('Cache-Control', 'no-store');
+    next();
+  });
+  // Health first: it must answer even when the session store (MariaDB) is down.
+  mountRoutes(api, '', healthRoutes(), deps);
+  api.use(express.json({ limit: '200kb' }));
+  api.use(opts.session);
+  api.use(opts.passport.initialize());
+  api.use(opts.passport.session());
+  api.use(sessionLifetime(config, log));
+  // A lobby display identifies itself with its key; it may read the board and nothing else.
+  api.use(async (req, _res, next) => {
+    const key = req.get('x-display-key');
+    if (!key || req.user) return next();
+    try {
+      const id = await verifyDisplayKey(key);
+      if (!id) return next(new AppError(401, 'display_revoked', 'This display link is not valid any more.'));
+      req.displayLinkId = id;
+      next();
+    } catch (error) {
+      next(error);
+    }
+  });
+  api.use(csrfProtection(config, log));
+  mountRoutes(api, '', apiRoutes({ log, catcher: opts.catcher }), deps);
+  api.use((_req, _res, next) => next(new AppError(404, 'not_found', 'There is no such API route.')));
+  app.use('/api', api);
+
+  if (opts.distDir && fs.existsSync(path.join(opts.distDir, 'index.html'))) {
+    const distDir = opts.distDir;
+    app.use(express.static(distDir, { index: false, maxAge: '1h' }));
+    // Client-side routes: every other GET gets the app shell.
+    app.get('/{*splat}', (_req, res) => res.sendFile('index.html', { root: distDir, maxAge: 0 }));
+  }
+
+  app.use(errorMiddleware(log));
+  return app;
+}

@@ -1,0 +1,17 @@
+import type { Sequelize } from 'sequelize';
+import { initUserModels } from '../modules/users/user.model';
+import { initSessionModels } from '../modules/auth/session.model';
+import { initOutboxModel } from '../modules/mail/outbox.model';
+import { initFacilityModels } from '../modules/facility/facility.model';
+import { initNoticeModel } from '../modules/notices/notice.model';
+import { initTicketModels } from '../modules/tickets/ticket.model';
+
+/** Binds every model to the one Sequelize instance of this process. Order matters for associations. */
+export function initModels(sequelize: Sequelize) {
+  initUserModels(sequelize);
+  initSessionModels(sequelize);
+  initOutboxModel(sequelize);
+  initFacilityModels(sequelize);
+  initNoticeModel(sequelize);
+  initTicketModels(sequelize);
+}

@@ -1,0 +1,18 @@
+import type { Sequelize } from 'sequelize';
+import { User } from '../../modules/users/user.model';
+import { seedUsers } from './users';
+
+/**
+ * The demo facility: invented people, tools and a year of history, generated from a fixed
+ * seed so every machine gets the same demo. Runs only on an empty database.
+ */
+export async function seedDemo(sequelize: Sequelize, now = new Date()): Promise<{ seeded: boolean }> {
+  if ((await User.count()) > 0) return { seeded: false };
+  await sequelize.transaction(async (transaction) => {
+    const people = await seedUsers(transaction);
+    // Later seed steps (facility, history, tickets) are added here, each given `people` and `now`.
+    void people;
+    void now;
+  });
+  return { seeded: true };
+}

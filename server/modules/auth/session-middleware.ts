@@ -1,0 +1,128 @@
+import session from 'express-session';
+import connectSessionSequelize from 'connect-session-sequelize';
+import passport from 'passport';
+import { Strategy as LocalStrategy } from 'passport-local';
+import crypto from 'node:crypto';
+import type { RequestHandler } from 'express';
+import type { Sequelize } from 'sequelize';
+import type { Config } from '../../config';
+import { User } from '../users/user.model';
+import type { AuthUser } from '../../lib/http';
+import { AppError } from '../../lib/errors';
+import { securityLog, type Logger } from '../../lib/logger';
+
+declare module 'express-session' {
+  interface SessionData {
+    csrfToken?: string;
+    /** When the user signed in: the absolute lifetime counts from here (express-session has none). */
+    signedInAt?: number;
+    lastSeenAt?: number;
+  }
+}
+
+export const SESSION_COOKIE = 'faultline.sid';
+
+export function toAuthUser(u: User): AuthUser {
+  return { id: u.id, email: u.email, name: u.name, role: u.role };
+}
+
+/** Sessions live in MariaDB (table sessions), never in process memory. */
+export function createSessionMiddleware(config: Config, sequelize: Sequelize) {
+  const SequelizeStore = connectSessionSequelize(session.Store);
+  const store = new SequelizeStore({
+    db: sequelize,
+    table: 'Session',
+    // user_id lets "end every session of this user" be a single DELETE.
+    extendDefaultFields: (defaults: { data: string; expires: Date }, s: { passport?: { user?: number } }) => ({
+      data: defaults.data,
+      expires: defaults.expires,
+      userId: s.passport?.user ?? null,
+    }),
+    checkExpirationInterval: 15 * 60 * 1000,
+    expiration: config.SESSION_IDLE_MINUTES * 60 * 1000,
+  });
+  const middleware = session({
+    name: SESSION_COOKIE,
+    secret: config.SESSION_SECRET,
+    store,
+    resave: false,
+    saveUninitialized: false,
+    rolling: true,
+    cookie: {
+      httpOnly: true,
+      sameSite: 'lax',
+      secure: config.cookieSecure,
+      maxAge: config.SESSION_IDLE_MINUTES * 60 * 1000,
+      path: '/',
+    },
+  });
+  return { middleware, store };
+}
+
+export function configurePassport() {
+  passport.use(
+    new LocalStrategy({ usernameField: 'email', passwordField: 'password', session: true }, (_e, _p, done) => {
+      // Sign-in runs through auth.service (throttling and logging need the request); this
+      // strategy exists so passport's session support has its usual shape.
+      done(null, false);
+    }),
+  );
+  passport.serializeUser((user, done) => done(null, (user as AuthUser).id));
+  passport.deserializeUser((id: number, done) => {
+    User.findByPk(id)
+      // A disabled or deleted user's session no longer signs anyone in.
+      .then((u) => done(null, u && u.active ? toAuthUser(u) : false))
+      .catch((error) => done(error));
+  });
+  return passport;
+}
+
+/** Idle and absolute lifetimes, checked on the server on every request. */
+export function sessionLifetime(config: Config, log: Logger): RequestHandler {
+  const idleMs = config.SESSION_IDLE_MINUTES * 60_000;
+  const absoluteMs = config.SESSION_ABSOLUTE_HOURS * 3_600_000;
+  return (req, _res, next) => {
+    const s = req.session;
+    if (!req.user || !s) return next();
+    const now = Date.now();
+    const expired = (s.signedInAt && now - s.signedInAt > absoluteMs) || (s.lastSeenAt && now - s.lastSeenAt > idleMs);
+    if (expired) {
+      securityLog(log, req, 'session_expired');
+      return s.destroy(() => next(new AppError(401, 'session_expired', 'Your session has ended. Please sign in again.')));
+    }
+    s.lastSeenAt = now;
+    next();
+  };
+}
+
+export function newCsrfToken() {
+  return crypto.randomBytes(32).toString('base64url');
+}
+
+function sameToken(a: string, b: string) {
+  const x = Buffer.from(a);
+  const y = Buffer.from(b);
+  return x.length === y.length && crypto.timingSafeEqual(x, y);
+}
+
+/**
+ * CSRF defence for every state-changing request: the synchroniser token from the session in
+ * the X-CSRF-Token header, plus Origin and Fetch-Metadata checks against cross-site calls.
+ */
+export function csrfProtection(config: Config, log: Logger): RequestHandler {
+  const allowedOrigin = new URL(config.publicUrl).origin;
+  return (req, _res, next) => {
+    if (req.method === 'GET' || req.method === 'HEAD' || req.method === 'OPTIONS') return next();
+    const refuse = (why: string) => {
+      securityLog(log, req, 'csrf_refused', { why });
+      next(new AppError(403, 'csrf_failed', 'This request could not be verified. Reload the page and try again.'));
+    };
+    if (req.get('sec-fetch-site') === 'cross-site') return refuse('fetch-metadata');
+    const origin = req.get('origin');
+    if (origin && origin !== allowedOrigin && origin !== `${req.protocol}://${req.get('host')}`) return refuse('origin');
+    const expected = req.session?.csrfToken;
+    const sent = req.get('x-csrf-token');
+    if (!expected || !sent || !sameToken(expected, sent)) return refuse('token');
+    next();
+  };
+}

@@ -1,0 +1,40 @@
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+
+/** Rows of express-session, kept by connect-session-sequelize. */
+export class SessionRow extends Model<InferAttributes<SessionRow>, InferCreationAttributes<SessionRow>> {
+  declare sid: string;
+  declare expires: Date | null;
+  declare data: string | null;
+  declare userId: number | null;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+}
+
+/** Fixed-window counters used by sign-in throttling and rate limits. */
+export class Throttle extends Model<InferAttributes<Throttle>, InferCreationAttributes<Throttle>> {
+  declare key: string;
+  declare hits: number;
+  declare windowStartedAt: Date;
+}
+
+export function initSessionModels(sequelize: Sequelize) {
+  SessionRow.init(
+    {
+      sid: { type: DataTypes.STRING(64), primaryKey: true },
+      expires: { type: DataTypes.DATE(3), allowNull: true },
+      data: { type: DataTypes.TEXT('medium'), allowNull: true },
+      userId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      createdAt: DataTypes.DATE(3),
+      updatedAt: DataTypes.DATE(3),
+    },
+    { sequelize, tableName: 'sessions', modelName: 'Session' },
+  );
+  Throttle.init(
+    {
+      key: { type: DataTypes.STRING(191), primaryKey: true },
+      hits: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
+      windowStartedAt: { type: DataTypes.DATE(3), allowNull: false },
+    },
+    { sequelize, tableName: 'throttles', modelName: 'Throttle', timestamps: false },
+  );
+}

@@ -1,0 +1,43 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { loadConfig, type Config } from '../../server/config';
+
+const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
+
+/** Reads .data/secrets.env (written by scripts/db.sh) so `npx vitest` works without npm test. */
+function localSecrets(): Record<string, string> {
+  const file = path.join(root, '.data/secrets.env');
+  if (!fs.existsSync(file)) return {};
+  return Object.fromEntries(
+    fs
+      .readFileSync(file, 'utf8')
+      .split('\n')
+      .filter((l) => l.includes('='))
+      .map((l) => [l.slice(0, l.indexOf('=')), l.slice(l.indexOf('=') + 1)]),
+  );
+}
+
+/** Configuration for tests: the separate test database, quiet logs, fast workers. */
+export function testConfig(overrides: Record<string, string> = {}): Config {
+  const secrets = localSecrets();
+  return loadConfig(
+    {},
+    {
+      NODE_ENV: 'test',
+      LOG_LEVEL: process.env.LOG_LEVEL ?? 'silent',
+      DB_HOST: process.env.DB_HOST ?? '127.0.0.1',
+      DB_PORT: process.env.DB_PORT ?? '3307',
+      DB_USER: process.env.DB_USER ?? 'faultline',
+      DB_PASSWORD: process.env.DB_PASSWORD ?? secrets.DB_PASSWORD ?? '',
+      DB_NAME: 'faultline_test',
+      SESSION_SECRET: 'test-secret-test-secret-test-secret-0123',
+      PORT: '0',
+      OUTBOX_POLL_MS: '200',
+      UPLOAD_DIR: path.join(root, 'test-results/uploads'),
+      ...overrides,
+    },
+  );
+}
+
+export const projectRoot = root;
