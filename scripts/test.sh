@@ -23,6 +23,7 @@ step lint npx eslint . --max-warnings=0
 step build node_modules/.bin/vite build --logLevel error
 
 echo "• vitest (unit, reference, integration, browser)…"
+node --import tsx scripts/reset-test-db.ts
 npx vitest run --reporter=default --reporter=json --outputFile=test-results/vitest.json "$@"
 vitest_exit=$?
 

@@ -3,7 +3,7 @@ import helmet from 'helmet';
 import path from 'node:path';
 import fs from 'node:fs';
 import type { PassportStatic } from 'passport';
-import { mountRoutes, type AppDeps } from './lib/http';
+import { mountRoutes, type AppDeps, type RegisteredRoute } from './lib/http';
 import { errorMiddleware } from './lib/error-middleware';
 import { AppError } from './lib/errors';
 import { apiRoutes } from './routes';
@@ -52,13 +52,15 @@ export function createApp(deps: AppDeps, opts: AppOptions) {
   );
 
   const api = express.Router();
+  const registry: RegisteredRoute[] = [];
+  app.locals.routeRegistry = registry;
   // API answers carry personal data: never cached by browsers or proxies.
   api.use((_req, res, next) => {
     res.setHeader('Cache-Control', 'no-store');
     next();
   });
   // Health first: it must answer even when the session store (MariaDB) is down.
-  mountRoutes(api, '', healthRoutes(), deps);
+  mountRoutes(api, '', healthRoutes(), deps, registry);
   api.use(express.json({ limit: '200kb' }));
   api.use(opts.session);
   api.use(opts.passport.initialize());
@@ -78,7 +80,7 @@ export function createApp(deps: AppDeps, opts: AppOptions) {
     }
   });
   api.use(csrfProtection(config, log));
-  mountRoutes(api, '', apiRoutes({ log, catcher: opts.catcher }), deps);
+  mountRoutes(api, '', apiRoutes({ log, catcher: opts.catcher }), deps, registry);
   api.use((_req, _res, next) => next(new AppError(404, 'not_found', 'There is no such API route.')));
   app.use('/api', api);
 

@@ -37,6 +37,7 @@ const configSchema = z.object({
   MAIL_FROM: z.string().default('Faultline <faultline@facility.invalid>'),
   MAIL_CATCHER: bool.default(false),
   OUTBOX_POLL_MS: z.coerce.number().int().positive().default(2000),
+  OUTBOX_BASE_BACKOFF_MS: z.coerce.number().int().positive().default(2000),
 
   UPLOAD_DIR: z.string().default('uploads'),
   FACILITY_TIME_ZONE: z.string().default('Europe/Berlin'),

@@ -1,20 +1,26 @@
 import type { RouteSpec } from './lib/http';
 import type { Logger } from './lib/logger';
 import type { MailCatcher } from './lib/mail-catcher';
-import { healthRoutes } from './modules/health/health.routes';
 import { authRoutes } from './modules/auth/auth.routes';
 import { mailRoutes } from './modules/mail/mail.routes';
+import { usersRoutes } from './modules/users/users.routes';
+import { facilityRoutes } from './modules/facility/facility.routes';
+import { noticesRoutes } from './modules/notices/notices.routes';
+import { ticketRoutes } from './modules/tickets/tickets.routes';
 
 export interface RouteOptions {
   log: Logger;
   catcher: MailCatcher | null;
 }
 
-/** Every API route of the app, mounted under /api. One line per module. */
+/** Every API route of the app (besides health, mounted first), under /api. One line per module. */
 export function apiRoutes(opts: RouteOptions): RouteSpec[] {
   return [
-    ...healthRoutes(),
     ...authRoutes(opts.log),
     ...mailRoutes(opts.catcher),
+    ...usersRoutes(),
+    ...facilityRoutes(opts),
+    ...noticesRoutes(),
+    ...ticketRoutes(opts.log),
   ];
 }

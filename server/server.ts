@@ -2,7 +2,7 @@ import http from 'node:http';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Config } from './config';
-import { createSequelize } from './db';
+import { acquireSequelize, releaseSequelize } from './db';
 import { createLogger } from './lib/logger';
 import { DomainEvents } from './lib/events';
 import { createApp } from './app';
@@ -21,12 +21,14 @@ export interface StartOptions {
   /** Run the outbox worker in this process (default true). */
   outboxWorker?: boolean;
   serveClient?: boolean;
+  /** Where log lines go (default stdout); tests capture them. */
+  logDestination?: import('pino').DestinationStream;
 }
 
 /** Wires the whole server: database, app, sockets, mail worker. `close()` shuts it all down. */
 export async function startServer(config: Config, opts: StartOptions = {}) {
-  const log = createLogger(config.LOG_LEVEL);
-  const sequelize = createSequelize(config);
+  const log = createLogger(config.LOG_LEVEL, opts.logDestination);
+  const sequelize = acquireSequelize(config);
   const events = new DomainEvents();
   const deps: AppDeps = { config, sequelize, log, events };
 
@@ -45,7 +47,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
   const allowedOrigins = [new URL(config.publicUrl).origin];
   const io = attachRealtime(server, { allowedOrigins, session, passport, events, log, verifyDisplayKey });
 
-  const worker = new OutboxWorker(createTransport(config), config, log, { pollMs: config.OUTBOX_POLL_MS });
+  const worker = new OutboxWorker(createTransport(config), config, log, { pollMs: config.OUTBOX_POLL_MS, baseBackoffMs: config.OUTBOX_BASE_BACKOFF_MS });
   if (opts.outboxWorker !== false) worker.start();
 
   await new Promise<void>((resolve) => server.listen(config.PORT, config.HOST, () => resolve()));
@@ -61,7 +63,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     server.closeAllConnections?.();
     await new Promise<void>((resolve) => server.close(() => resolve()));
     if (catcher) await catcher.stop();
-    await sequelize.close();
+    await releaseSequelize(sequelize);
   }
 
   return { app, server, io, deps, worker, catcher, port, url: `http://${config.HOST}:${port}`, close };

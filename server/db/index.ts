@@ -56,3 +56,34 @@ export function isDatabaseDown(error: unknown): boolean {
   const code = e.code ?? e.original?.code ?? e.parent?.code;
   return !!code && codes.includes(code);
 }
+
+/**
+ * Models are bound to one Sequelize instance per process (Model.init is static), so every
+ * server started in one process (tests start several) shares the instance for the same
+ * database; it is closed when the last user releases it.
+ */
+const shared = new Map<string, { sequelize: Sequelize; users: number }>();
+
+export function acquireSequelize(config: Parameters<typeof createSequelize>[0]): Sequelize {
+  const key = `${config.DB_USER}@${config.DB_HOST}:${config.DB_PORT}/${config.DB_NAME}`;
+  let entry = shared.get(key);
+  if (!entry) {
+    entry = { sequelize: createSequelize(config), users: 0 };
+    shared.set(key, entry);
+  }
+  entry.users++;
+  return entry.sequelize;
+}
+
+export async function releaseSequelize(sequelize: Sequelize) {
+  for (const [key, entry] of shared) {
+    if (entry.sequelize !== sequelize) continue;
+    entry.users--;
+    if (entry.users <= 0) {
+      shared.delete(key);
+      await sequelize.close();
+    }
+    return;
+  }
+  await sequelize.close();
+}

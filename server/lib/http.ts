@@ -85,8 +85,6 @@ export interface RegisteredRoute {
   hasParams: boolean;
 }
 
-/** Every declared route, for the access-rule test and the docs. */
-export const routeRegistry: RegisteredRoute[] = [];
 
 export function requireAccess(access: Access, log: Logger): RequestHandler {
   return (req, _res, next) => {
@@ -118,10 +116,11 @@ function parsePart(schema: ZodType | undefined, value: unknown, where: 'body' | 
   return result.data;
 }
 
-export function mountRoutes(router: Router, prefix: string, routes: RouteSpec[], deps: AppDeps) {
+/** Mounts declared routes and records each in `registry` (the access-rule test walks it). */
+export function mountRoutes(router: Router, prefix: string, routes: RouteSpec[], deps: AppDeps, registry: RegisteredRoute[]) {
   for (const spec of routes) {
     const full = `${prefix}${spec.path === '/' ? '' : spec.path}` || '/';
-    routeRegistry.push({ method: spec.method, path: full, access: spec.access, hasBody: !!spec.body, hasParams: !!spec.params });
+    registry.push({ method: spec.method, path: full, access: spec.access, hasBody: !!spec.body, hasParams: !!spec.params });
     const run: RequestHandler = async (req: Request, res: Response, next: NextFunction) => {
       try {
         const body = parsePart(spec.body, req.body, 'body');

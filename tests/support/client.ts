@@ -10,11 +10,11 @@ export class TestClient {
 
   async request(method: string, path: string, body?: unknown, headers: Record<string, string> = {}) {
     const h: Record<string, string> = { ...headers };
-    if (this.cookie) h.cookie = this.cookie;
     if (method !== 'GET' && method !== 'HEAD') {
       if (!this.csrfToken && !('x-csrf-token' in h)) await this.refreshCsrf();
       if (this.csrfToken && !('x-csrf-token' in h)) h['x-csrf-token'] = this.csrfToken;
     }
+    if (this.cookie) h.cookie = this.cookie;
     let payload: BodyInit | undefined;
     if (body instanceof FormData) payload = body;
     else if (body !== undefined) {

@@ -50,6 +50,8 @@ export class StateInterval extends Model<InferAttributes<StateInterval>, InferCr
   declare state: E10State;
   declare reason: CreationOptional<StateReason>;
   declare note: string | null;
+  /** A restriction in force while running (the board shows Limited); null when none. */
+  declare restriction: CreationOptional<string | null>;
   declare startedAt: Date;
   declare endedAt: Date | null;
   declare expectedReturnAt: Date | null;
@@ -131,6 +133,7 @@ export function initFacilityModels(sequelize: Sequelize) {
       state: { type: DataTypes.ENUM(...E10_STATES), allowNull: false },
       reason: { type: DataTypes.ENUM(...STATE_REASONS), allowNull: false, defaultValue: 'none' },
       note: { type: DataTypes.STRING(500), allowNull: true },
+      restriction: { type: DataTypes.STRING(200), allowNull: true, defaultValue: null },
       startedAt: { type: DataTypes.DATE(3), allowNull: false },
       endedAt: { type: DataTypes.DATE(3), allowNull: true },
       expectedReturnAt: { type: DataTypes.DATE(3), allowNull: true },

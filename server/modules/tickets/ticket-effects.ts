@@ -1,0 +1,98 @@
+import type { Transaction } from 'sequelize';
+import { Ticket, TicketEvent } from './ticket.model';
+import { StateInterval, type Tool } from '../facility/facility.model';
+import { changeState } from '../facility/state.service';
+import type { AppDeps } from '../../lib/http';
+import { E10_LABELS, type E10State, type StateReason } from '../../../shared/equipment-state';
+
+/** Appends one timeline entry; the timeline is never edited afterwards. */
+export function appendEvent(
+  ticketId: number,
+  actorId: number | null,
+  kind: string,
+  opts: { body?: string | null; data?: Record<string, unknown> | null; internal?: boolean; at?: Date },
+  transaction: Transaction,
+) {
+  return TicketEvent.create(
+    { ticketId, actorId, kind, internal: opts.internal ?? false, body: opts.body ?? null, data: opts.data ?? null, ...(opts.at ? { createdAt: opts.at } : {}) },
+    { transaction },
+  );
+}
+
+export async function openInterval(toolId: number, moduleId: number | null, transaction: Transaction) {
+  return StateInterval.findOne({ where: { toolId, moduleId, endedAt: null }, transaction });
+}
+
+export interface StateStep {
+  toolId: number;
+  moduleId: number | null;
+  state: E10State;
+  reason?: StateReason;
+  note?: string | null;
+  expectedReturnAt?: Date | null;
+  source?: 'staff' | 'user_report';
+  confirmed?: boolean;
+}
+
+/**
+ * Changes a tool or module state on behalf of a ticket (through the facility's changeState,
+ * which logs the interval and tells the board) and records the step in the ticket's timeline.
+ */
+export async function changeStateForTicket(deps: AppDeps, ticket: Ticket, actorId: number | null, step: StateStep, transaction: Transaction) {
+  const { previous, current } = await changeState(
+    deps,
+    {
+      toolId: step.toolId,
+      moduleId: step.moduleId,
+      state: step.state,
+      reason: step.reason,
+      note: step.note ?? null,
+      expectedReturnAt: step.expectedReturnAt ?? null,
+      ticketId: ticket.id,
+      source: step.source ?? 'staff',
+      confirmed: step.confirmed ?? true,
+      actorId,
+    },
+    transaction,
+  );
+  await appendEvent(
+    ticket.id,
+    actorId,
+    'tool_state',
+    {
+      body: step.note ?? null,
+      data: {
+        moduleId: step.moduleId,
+        from: previous ? { state: previous.state, reason: previous.reason } : null,
+        to: { state: current.state, reason: current.reason },
+        source: current.source,
+        confirmed: current.confirmed,
+        expectedReturnAt: current.expectedReturnAt ? current.expectedReturnAt.toISOString() : null,
+      },
+    },
+    transaction,
+  );
+  return { previous, current };
+}
+
+/**
+ * "Tool stopped" takes the tool (or the module) down at once, marked as a user's report and
+ * unconfirmed. If it is already down, nothing changes and the timeline says why.
+ */
+export async function applyStoppedReport(deps: AppDeps, ticket: Ticket, tool: Tool, moduleId: number | null, actorId: number, transaction: Transaction) {
+  const toolOpen = await openInterval(tool.id, null, transaction);
+  const targetOpen = moduleId === null ? toolOpen : await openInterval(tool.id, moduleId, transaction);
+  const alreadyDown = toolOpen?.state === 'unscheduled_downtime' || targetOpen?.state === 'unscheduled_downtime';
+  if (alreadyDown) {
+    const state = (toolOpen?.state === 'unscheduled_downtime' ? toolOpen : targetOpen)!;
+    await appendEvent(ticket.id, null, 'tool_state_unchanged', { data: { moduleId: state.moduleId, state: state.state, since: state.startedAt.toISOString(), byTicketId: state.ticketId }, body: `Already ${E10_LABELS[state.state].toLowerCase()}; the state was left as it is.` }, transaction);
+    return false;
+  }
+  await changeStateForTicket(deps, ticket, actorId, { toolId: tool.id, moduleId, state: 'unscheduled_downtime', reason: 'repair', note: `Reported by a user: ${ticket.title}`.slice(0, 500), source: 'user_report', confirmed: false }, transaction);
+  return true;
+}
+
+/** Open intervals this ticket holds down (tool and modules). */
+export async function intervalsHeldBy(ticketId: number, transaction: Transaction) {
+  return StateInterval.findAll({ where: { ticketId, endedAt: null, state: 'unscheduled_downtime' }, transaction });
+}

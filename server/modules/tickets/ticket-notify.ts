@@ -1,0 +1,89 @@
+import { Op, QueryTypes, type Transaction } from 'sequelize';
+import { User } from '../users/user.model';
+import { Notice } from '../notices/notice.model';
+import { queueMail } from '../../lib/mailer';
+import type { AppDeps } from '../../lib/http';
+import { HAZARD_CAUTIONS, HAZARD_LABELS, type Hazard } from '../../../shared/report-options';
+
+export const ticketLink = (deps: AppDeps, ticketId: number) => `${deps.config.publicUrl}/tickets/${ticketId}`;
+
+export interface Notification {
+  userIds: readonly (number | null | undefined)[];
+  /** Never notified: the person who caused the change already knows. */
+  exceptUserId?: number | null;
+  kind: string;
+  title: string;
+  text: string;
+  ticketId: number;
+}
+
+/**
+ * E-mail (through the outbox) plus an in-app notice for each recipient, written in the
+ * caller's transaction; the 'notice.created' event reaches their sockets after commit.
+ */
+export async function notifyUsers(deps: AppDeps, n: Notification, transaction: Transaction) {
+  const ids = [...new Set(n.userIds.filter((id): id is number => typeof id === 'number' && id !== n.exceptUserId))];
+  if (ids.length === 0) return [];
+  const users = await User.findAll({ where: { id: ids, active: true }, transaction });
+  if (users.length === 0) return [];
+  const link = ticketLink(deps, n.ticketId);
+  await queueMail(
+    users.map((u) => ({ to: u.email, subject: n.title, text: `Hello ${u.name},\n\n${n.text}\n\nOpen the ticket: ${link}\n\n— Faultline` })),
+    transaction,
+  );
+  await Notice.bulkCreate(
+    users.map((u) => ({ userId: u.id, kind: n.kind, title: n.title.slice(0, 200), body: n.text, link: `/tickets/${n.ticketId}`, readAt: null })),
+    { transaction },
+  );
+  deps.events.publish({ type: 'notice.created', audience: { users: users.map((u) => u.id) }, payload: { kind: n.kind, ticketId: n.ticketId } }, transaction);
+  return users.map((u) => u.id);
+}
+
+/** A hazard goes to everyone on call at once, with the usual cautions in the message. */
+export async function notifyOnCall(
+  deps: AppDeps,
+  input: { ticketId: number; toolName: string; toolCode: string; hazards: readonly Hazard[]; description: string; exceptUserId?: number | null },
+  transaction: Transaction,
+) {
+  const onCall = await User.findAll({ where: { onCall: true, active: true }, attributes: ['id'], transaction });
+  const hazards = input.hazards.map((h) => HAZARD_LABELS[h].toLowerCase()).join(', ');
+  return notifyUsers(
+    deps,
+    {
+      userIds: onCall.map((u) => u.id),
+      exceptUserId: input.exceptUserId,
+      kind: 'ticket.hazard',
+      title: `Safety report: ${hazards} at ${input.toolName} (${input.toolCode}) — #${input.ticketId}`,
+      text: [
+        `A report on ${input.toolName} (${input.toolCode}) names a hazard: ${hazards}.`,
+        '',
+        input.description,
+        '',
+        'The usual cautions:',
+        ...HAZARD_CAUTIONS.map((c) => `- ${c}`),
+      ].join('\n'),
+      ticketId: input.ticketId,
+    },
+    transaction,
+  );
+}
+
+/**
+ * The people who told us about a ticket: its reporter, everyone who added a report to it,
+ * and the same for every ticket merged into it.
+ */
+export async function ticketFollowers(deps: AppDeps, ticketId: number, transaction: Transaction): Promise<number[]> {
+  const rows = await deps.sequelize.query<{ userId: number }>(
+    `SELECT t.reporter_id AS userId FROM tickets t WHERE (t.id = :id OR t.merged_into_id = :id) AND t.reporter_id IS NOT NULL
+     UNION
+     SELECT e.actor_id AS userId FROM ticket_events e JOIN tickets t ON t.id = e.ticket_id
+      WHERE (t.id = :id OR t.merged_into_id = :id) AND e.kind = 'added_report' AND e.actor_id IS NOT NULL`,
+    { replacements: { id: ticketId }, type: QueryTypes.SELECT, transaction },
+  );
+  return rows.map((r) => Number(r.userId));
+}
+
+export async function activeStaffIds(ids: readonly number[], transaction: Transaction) {
+  const users = await User.findAll({ where: { id: ids, active: true, role: { [Op.ne]: 'member' } }, attributes: ['id'], transaction });
+  return users.map((u) => u.id);
+}

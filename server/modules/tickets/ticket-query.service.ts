@@ -1,0 +1,285 @@
+import { Op, literal, type Transaction, type WhereOptions, type Includeable } from 'sequelize';
+import { Ticket, TicketEvent, Photo, ServiceTarget } from './ticket.model';
+import { Tool, ToolModule, Area, StateInterval } from '../facility/facility.model';
+import { User } from '../users/user.model';
+import { notFound } from '../../lib/errors';
+import type { AppDeps, AuthUser } from '../../lib/http';
+import { isStaff } from '../../../shared/roles';
+import { OPEN_STATUSES, RESOLVED_STATUSES, allowedActions, isOpenStatus } from '../../../shared/ticket-workflow';
+import { PRIORITIES, SERVICE_TARGET_DEFAULTS, computePriority, targetStatus, type Priority, type ServiceTarget as Target } from '../../../shared/priority';
+import type { TicketCategory } from '../../../shared/report-options';
+import type { TicketDetail, TicketEventView, TicketList, TicketSummary, TicketTargets, TargetClock, PhotoView, ServiceTargetView, ToolStateView, ticketListQuerySchema } from '../../../shared/schemas/tickets';
+import type { z } from 'zod';
+
+const person = (u: User | null | undefined) => (u ? { id: u.id, name: u.name } : null);
+const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
+
+export const summaryIncludes = (): Includeable[] => [
+  { model: Tool, as: 'tool', attributes: ['id', 'code', 'name', 'areaId', 'criticality', 'primaryEngineerId', 'backupEngineerId'], include: [{ model: Area, as: 'area', attributes: ['id', 'name'] }] },
+  { model: ToolModule, as: 'module', attributes: ['id', 'code', 'name'] },
+  { model: User, as: 'reporter', attributes: ['id', 'name'] },
+  { model: User, as: 'assignee', attributes: ['id', 'name'] },
+];
+
+type WithIncludes = Ticket & { tool?: Tool & { area?: Area }; module?: ToolModule | null; reporter?: User | null; assignee?: User | null };
+
+export type TargetTable = Record<Priority, Target>;
+
+export async function loadServiceTargets(transaction?: Transaction): Promise<TargetTable> {
+  const rows = await ServiceTarget.findAll({ transaction });
+  const table = { ...SERVICE_TARGET_DEFAULTS };
+  for (const row of rows) table[row.priority] = { acknowledgeMinutes: row.acknowledgeMinutes, restoreMinutes: row.restoreMinutes };
+  return table;
+}
+
+export async function listServiceTargets(): Promise<ServiceTargetView[]> {
+  const rows = await ServiceTarget.findAll({ order: [['priority', 'ASC']] });
+  const byPriority = new Map(rows.map((r) => [r.priority, r]));
+  return PRIORITIES.map((p) => {
+    const row = byPriority.get(p);
+    const values = row ?? SERVICE_TARGET_DEFAULTS[p];
+    return { priority: p, acknowledgeMinutes: values.acknowledgeMinutes, restoreMinutes: values.restoreMinutes, updatedAt: iso(row?.updatedAt) ?? new Date(0).toISOString() };
+  });
+}
+
+function clock(createdAt: Date, minutes: number, doneAt: Date | null, now: Date): TargetClock {
+  const end = doneAt ?? now;
+  const elapsed = (end.getTime() - createdAt.getTime()) / 60_000;
+  return { targetMinutes: minutes, dueAt: new Date(createdAt.getTime() + minutes * 60_000).toISOString(), doneAt: iso(doneAt), status: targetStatus(Math.max(0, elapsed), minutes) };
+}
+
+/**
+ * Time to acknowledge runs until someone acknowledges (or the ticket ends otherwise); time to
+ * restore until the fix. Both count clock time from the report.
+ */
+export function targetsFor(t: Ticket, table: TargetTable, now = new Date()): TicketTargets {
+  const target = table[t.priority];
+  const ended = t.status === 'merged' ? t.updatedAt : null;
+  return {
+    acknowledge: clock(t.createdAt, target.acknowledgeMinutes, t.acknowledgedAt ?? t.resolvedAt ?? ended, now),
+    restore: clock(t.createdAt, target.restoreMinutes, t.fixedAt ?? t.resolvedAt ?? ended, now),
+  };
+}
+
+export function toSummary(t: WithIncludes, table: TargetTable, now = new Date()): TicketSummary {
+  return {
+    id: t.id,
+    title: t.title,
+    status: t.status,
+    priority: t.priority,
+    category: t.category as TicketCategory,
+    impact: t.impact,
+    hazards: t.hazards ?? [],
+    waitReason: t.waitReason,
+    tool: { id: t.toolId, code: t.tool?.code ?? '', name: t.tool?.name ?? '', areaId: t.tool?.areaId ?? 0, areaName: t.tool?.area?.name ?? null },
+    module: t.module ? { id: t.module.id, code: t.module.code, name: t.module.name } : null,
+    reporter: person(t.reporter),
+    assignee: person(t.assignee),
+    wafersCount: t.wafersCount,
+    mergedIntoId: t.mergedIntoId,
+    createdAt: t.createdAt.toISOString(),
+    updatedAt: t.updatedAt.toISOString(),
+    acknowledgedAt: iso(t.acknowledgedAt),
+    resolvedAt: iso(t.resolvedAt),
+    targets: targetsFor(t, table, now),
+    version: t.version,
+  };
+}
+
+type ListQuery = z.output<typeof ticketListQuerySchema>;
+
+export async function listTickets(deps: AppDeps, user: AuthUser, q: ListQuery): Promise<TicketList> {
+  const and: WhereOptions[] = [];
+  if (q.status === 'open') and.push({ status: [...OPEN_STATUSES] });
+  else if (q.status === 'resolved') and.push({ status: [...RESOLVED_STATUSES] });
+  else if (q.status !== 'all') and.push({ status: q.status });
+  if (q.waiting) and.push({ status: 'waiting' });
+  if (q.mine) and.push({ assigneeId: user.id });
+  if (q.unassigned) and.push({ assigneeId: null });
+  if (q.toolId) and.push({ toolId: q.toolId });
+  if (q.areaId) and.push({ '$tool.area_id$': q.areaId });
+  if (q.hazard) and.push(literal('JSON_LENGTH(`Ticket`.`hazards`) > 0'));
+  if (q.myTools) and.push({ [Op.or]: [{ '$tool.primary_engineer_id$': user.id }, { '$tool.backup_engineer_id$': user.id }] });
+  if (q.reportedByMe) {
+    const me = deps.sequelize.escape(user.id);
+    and.push({
+      [Op.or]: [
+        { reporterId: user.id },
+        literal(`\`Ticket\`.\`id\` IN (SELECT e.ticket_id FROM ticket_events e WHERE e.kind = 'added_report' AND e.actor_id = ${me})`),
+      ],
+    });
+  }
+  const order: [string, string][] =
+    q.sort === 'queue'
+      ? [
+          ['priority', 'ASC'],
+          ['createdAt', 'ASC'],
+          ['id', 'ASC'],
+        ]
+      : [
+          ['createdAt', 'DESC'],
+          ['id', 'DESC'],
+        ];
+  const { rows, count } = await Ticket.findAndCountAll({ where: { [Op.and]: and }, include: summaryIncludes(), order, limit: q.limit, offset: q.offset });
+  const table = await loadServiceTargets();
+  const now = new Date();
+  return { items: rows.map((r) => toSummary(r as WithIncludes, table, now)), total: count, limit: q.limit, offset: q.offset };
+}
+
+export async function findTicket(id: number, transaction?: Transaction, lock = false): Promise<WithIncludes> {
+  // FOR UPDATE cannot be combined with outer joins on the nullable side, so lock the bare row first.
+  if (lock && transaction) {
+    const row = await Ticket.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
+    if (!row) throw notFound('That ticket');
+  }
+  const t = await Ticket.findByPk(id, { include: summaryIncludes(), transaction });
+  if (!t) throw notFound('That ticket');
+  return t as WithIncludes;
+}
+
+function photoView(p: Photo & { uploader?: User | null }): PhotoView {
+  return { id: p.id, url: `/api/photos/${p.id}`, thumbUrl: `/api/photos/${p.id}/thumb`, width: p.width, height: p.height, uploader: person(p.uploader) };
+}
+
+export async function openToolStates(toolId: number, transaction?: Transaction): Promise<ToolStateView[]> {
+  const open = await StateInterval.findAll({ where: { toolId, endedAt: null }, order: [['moduleId', 'ASC']], transaction });
+  return open.map((s) => ({
+    moduleId: s.moduleId,
+    state: s.state,
+    reason: s.reason,
+    since: s.startedAt.toISOString(),
+    source: s.source,
+    confirmed: s.confirmed,
+    ticketId: s.ticketId,
+    expectedReturnAt: iso(s.expectedReturnAt),
+  }));
+}
+
+export async function getTicketDetail(deps: AppDeps, user: AuthUser, id: number): Promise<TicketDetail> {
+  const t = await findTicket(id);
+  const staff = isStaff(user.role);
+  const merged = await Ticket.findAll({ where: { mergedIntoId: t.id }, attributes: ['id', 'title'], order: [['id', 'ASC']] });
+  const ticketIds = [t.id, ...merged.map((m) => m.id)];
+  // Members never receive internal notes: they are filtered here, in the query, not on screen.
+  const events = await TicketEvent.findAll({
+    where: { ticketId: ticketIds, ...(staff ? {} : { internal: false }) },
+    include: [{ model: User, as: 'actor', attributes: ['id', 'name'] }],
+    order: [
+      ['createdAt', 'ASC'],
+      ['id', 'ASC'],
+    ],
+  });
+  const photos = await Photo.findAll({
+    where: { ticketId: ticketIds, eventId: events.map((e) => e.id) },
+    include: [{ model: User, as: 'uploader', attributes: ['id', 'name'] }],
+    order: [['id', 'ASC']],
+  });
+  const photosByEvent = new Map<number, PhotoView[]>();
+  for (const p of photos) {
+    const list = photosByEvent.get(Number(p.eventId)) ?? [];
+    list.push(photoView(p as Photo & { uploader?: User | null }));
+    photosByEvent.set(Number(p.eventId), list);
+  }
+  const eventViews: TicketEventView[] = events.map((e) => {
+    const ev = e as TicketEvent & { actor?: User | null };
+    return {
+      id: Number(ev.id),
+      kind: ev.kind,
+      internal: ev.internal,
+      actor: person(ev.actor),
+      body: ev.body,
+      data: ev.data,
+      createdAt: ev.createdAt.toISOString(),
+      photos: photosByEvent.get(Number(ev.id)) ?? [],
+      fromTicketId: ev.ticketId === t.id ? null : ev.ticketId,
+    };
+  });
+
+  const modules = await ToolModule.findAll({ where: { toolId: t.toolId, retiredAt: null }, order: [['sortOrder', 'ASC'], ['id', 'ASC']], attributes: ['id', 'code', 'name'] });
+  const toolStates = await openToolStates(t.toolId);
+  const table = await loadServiceTargets();
+  const isReporter = t.reporterId === user.id;
+  const ctx = { role: user.role, isReporter, now: new Date(), resolvedAt: t.resolvedAt };
+  const actions: TicketDetail['allowedActions'] = allowedActions(t.status, ctx);
+  if (t.status !== 'merged') actions.push('comment');
+  if (isOpenStatus(t.status)) actions.push('add_report');
+  if (staff) {
+    actions.push('note');
+    if (isOpenStatus(t.status)) actions.push('assign', 'set_priority');
+    if (t.status !== 'merged') actions.push('set_state');
+    if (toolStates.some((s) => s.ticketId === t.id && s.source === 'user_report' && !s.confirmed)) actions.push('confirm_down', 'revert_down');
+  }
+  const priority = computePriority({ impact: t.impact, hazards: t.hazards ?? [], wafersAtRisk: t.wafersCount, wafersKnownSafe: t.wafersRecoverable === 'yes', criticality: t.tool?.criticality ?? 'normal' });
+
+  return {
+    ...toSummary(t, table),
+    description: t.description,
+    alarmText: t.alarmText,
+    wafersOwner: t.wafersOwner,
+    wafersRecoverable: t.wafersRecoverable,
+    priorityOverridden: t.priorityOverridden,
+    fixKind: t.fixKind,
+    failureMode: t.failureMode,
+    cause: t.cause,
+    workDone: t.workDone,
+    partsUsed: t.partsUsed,
+    handsOnMinutes: t.handsOnMinutes,
+    wafersRecovered: t.wafersRecovered,
+    wafersReturned: t.wafersReturned,
+    fixedAt: iso(t.fixedAt),
+    closedAt: iso(t.closedAt),
+    priorityReasons: t.priorityOverridden ? [] : priority.reasons,
+    modules: modules.map((m) => ({ id: m.id, code: m.code, name: m.name })),
+    toolStates,
+    events: eventViews,
+    mergedFrom: merged.map((m) => ({ id: m.id, title: m.title })),
+    allowedActions: actions,
+    viewer: { id: user.id, role: user.role, isReporter },
+  };
+}
+
+/** A photo the viewer may see: any signed-in user, unless it hangs on a staff-only event. */
+export async function findVisiblePhoto(user: AuthUser, id: number) {
+  const photo = await Photo.findByPk(id);
+  if (!photo) throw notFound('That photo');
+  if (photo.eventId && !isStaff(user.role)) {
+    const event = await TicketEvent.findByPk(photo.eventId, { attributes: ['internal'] });
+    if (event?.internal) throw notFound('That photo');
+  }
+  return photo;
+}
+
+/** Staff who can be assigned, for the assignee picker. */
+export async function listStaff(q: { search?: string; limit: number }) {
+  const users = await User.findAll({
+    where: { active: true, role: { [Op.ne]: 'member' }, ...(q.search ? { name: { [Op.like]: `%${q.search.replace(/[%_\\]/g, (c) => `\\${c}`)}%` } } : {}) },
+    attributes: ['id', 'name', 'role'],
+    order: [['name', 'ASC']],
+    limit: q.limit,
+  });
+  return users.map((u) => ({ id: u.id, name: u.name, role: u.role }));
+}
+
+/** Tools to pick on the report form (by search text, exact code from a QR label, or id). */
+export async function listToolChoices(query: { q?: string; code?: string; id?: number; limit: number }) {
+  const like = (s: string) => `%${s.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+  const where = {
+    retiredAt: null,
+    ...(query.id ? { id: query.id } : {}),
+    ...(query.code ? { code: query.code.toUpperCase() } : {}),
+    ...(query.q ? { [Op.or]: [{ name: { [Op.like]: like(query.q) } }, { code: { [Op.like]: like(query.q) } }] } : {}),
+  };
+  const tools = await Tool.findAll({ where, include: [{ model: Area, as: 'area', attributes: ['id', 'name'] }], attributes: ['id', 'code', 'name', 'areaId'], order: [['name', 'ASC']], limit: query.limit });
+  const modules = tools.length
+    ? await ToolModule.findAll({ where: { toolId: tools.map((t) => t.id), retiredAt: null }, order: [['sortOrder', 'ASC'], ['id', 'ASC']], attributes: ['id', 'toolId', 'code', 'name'] })
+    : [];
+  return {
+    items: tools.map((t) => ({
+      id: t.id,
+      code: t.code,
+      name: t.name,
+      areaName: (t as Tool & { area?: Area }).area?.name ?? null,
+      modules: modules.filter((m) => m.toolId === t.id).map((m) => ({ id: m.id, code: m.code, name: m.name })),
+    })),
+  };
+}

@@ -1,0 +1,182 @@
+import { z } from 'zod';
+import { route, idParams, type RouteSpec } from '../../lib/http';
+import { rateLimit } from '../../lib/throttle';
+import { photoUploadMiddleware, readPhoto, type IncomingFile } from '../../lib/uploads';
+import type { Logger } from '../../lib/logger';
+import { addComment, addReport, createReport } from './report.service';
+import { performAction, StaleTicketError } from './workflow.service';
+import { findVisiblePhoto, getTicketDetail, listServiceTargets, listStaff, listTickets, listToolChoices } from './ticket-query.service';
+import { updateServiceTarget } from './service-targets.service';
+import {
+  addReportInputSchema,
+  commentInputSchema,
+  priorityParams,
+  reportInputSchema,
+  serviceTargetInputSchema,
+  ticketActionSchema,
+  ticketListQuerySchema,
+  unwrapReportField,
+} from '../../../shared/schemas/tickets';
+
+const files = (req: { files?: unknown }): IncomingFile[] => (Array.isArray(req.files) ? (req.files as IncomingFile[]) : []);
+
+const photoParams = z.strictObject({ id: z.coerce.number().int().positive() });
+
+const toolChoicesQuery = z.strictObject({
+  q: z.string().trim().max(80).optional(),
+  code: z.string().trim().max(32).optional(),
+  id: z.coerce.number().int().positive().optional(),
+  limit: z.coerce.number().int().min(1).max(50).default(20),
+});
+
+const staffQuery = z.strictObject({ q: z.string().trim().max(80).optional(), limit: z.coerce.number().int().min(1).max(100).default(50) });
+
+/**
+ * Tickets API. Every change to an existing ticket goes through POST /tickets/:id/actions with
+ * a body discriminated by `action` (see shared/schemas/tickets.ts); appends (added reports,
+ * replies, notes) have their own routes because they never overwrite anything.
+ */
+export function ticketRoutes(log: Logger): RouteSpec[] {
+  // A person files a handful of reports an hour at most; these stop scripts and floods.
+  const reportLimit = rateLimit({ name: 'report-create', limit: 20, windowMs: 10 * 60_000, log });
+  const uploadLimit = rateLimit({ name: 'photo-upload', limit: 40, windowMs: 10 * 60_000, log });
+  const commentLimit = rateLimit({ name: 'ticket-comment', limit: 60, windowMs: 10 * 60_000, log });
+  const upload = photoUploadMiddleware();
+
+  return [
+    route({
+      method: 'get',
+      path: '/tickets',
+      access: 'member',
+      summary: 'Tickets, filtered and paginated in SQL (the queue, my reports, a tool’s tickets)',
+      query: ticketListQuerySchema,
+      handle: ({ deps, user, query }) => listTickets(deps, user!, query),
+    }),
+    route({
+      method: 'post',
+      path: '/tickets',
+      access: 'member',
+      summary: 'File a fault report (JSON, or multipart with a `report` JSON field and up to 6 `photos`)',
+      before: [reportLimit, uploadLimit, upload],
+      body: z.preprocess(unwrapReportField, reportInputSchema),
+      status: 201,
+      handle: ({ deps, user, body, req }) => createReport(deps, user!, body, files(req)),
+    }),
+    route({
+      method: 'get',
+      path: '/tickets/:id',
+      access: 'member',
+      summary: 'One ticket with its timeline (internal notes only for staff)',
+      params: idParams,
+      handle: ({ deps, user, params }) => getTicketDetail(deps, user!, params.id),
+    }),
+    route({
+      method: 'post',
+      path: '/tickets/:id/reports',
+      access: 'member',
+      summary: '“I see it too”: add a report (text, facts, photos) to an open ticket',
+      params: idParams,
+      before: [uploadLimit, upload],
+      body: z.preprocess(unwrapReportField, addReportInputSchema),
+      status: 201,
+      handle: ({ deps, user, params, body, req }) => addReport(deps, user!, params.id, body, files(req)),
+    }),
+    route({
+      method: 'post',
+      path: '/tickets/:id/comments',
+      access: 'member',
+      summary: 'A public reply (anyone) or an internal note (staff only)',
+      params: idParams,
+      before: [commentLimit],
+      body: commentInputSchema,
+      status: 201,
+      handle: ({ deps, user, params, body }) => addComment(deps, user!, params.id, body),
+    }),
+    route({
+      method: 'post',
+      path: '/tickets/:id/actions',
+      access: 'member',
+      summary: 'Change a ticket: one action per request, each with the version the client read',
+      params: idParams,
+      body: ticketActionSchema,
+      handle: async ({ deps, user, params, body, res }) => {
+        try {
+          return await performAction(deps, user!, params.id, body);
+        } catch (error) {
+          if (!(error instanceof StaleTicketError)) throw error;
+          // The current ticket travels with the refusal, so the page can show what changed.
+          const current = await getTicketDetail(deps, user!, params.id);
+          res.status(409).json({ error: { code: error.code, message: error.message }, current });
+          return undefined;
+        }
+      },
+    }),
+    route({
+      method: 'get',
+      path: '/photos/:id',
+      access: 'member',
+      summary: 'A ticket photo (re-encoded JPEG) for signed-in users',
+      params: photoParams,
+      handle: async ({ deps, user, params, res }) => {
+        const photo = await findVisiblePhoto(user!, params.id);
+        sendPhoto(res, await readPhoto(deps.config, photo.storedName), photo.id);
+        return undefined;
+      },
+    }),
+    route({
+      method: 'get',
+      path: '/photos/:id/thumb',
+      access: 'member',
+      summary: 'A ticket photo’s thumbnail',
+      params: photoParams,
+      handle: async ({ deps, user, params, res }) => {
+        const photo = await findVisiblePhoto(user!, params.id);
+        sendPhoto(res, await readPhoto(deps.config, photo.thumbName), photo.id);
+        return undefined;
+      },
+    }),
+    route({
+      method: 'get',
+      path: '/service-targets',
+      access: 'member',
+      summary: 'Time-to-acknowledge and time-to-restore targets per priority',
+      handle: () => listServiceTargets(),
+    }),
+    route({
+      method: 'put',
+      path: '/service-targets/:priority',
+      access: 'manager',
+      summary: 'Change the targets of one priority',
+      params: priorityParams,
+      body: serviceTargetInputSchema,
+      handle: ({ deps, user, params, body }) => updateServiceTarget(deps, user!, params.priority, body),
+    }),
+    route({
+      method: 'get',
+      path: '/assignees',
+      access: 'technician',
+      summary: 'Staff a ticket can be assigned to',
+      query: staffQuery,
+      handle: ({ query }) => listStaff({ search: query.q, limit: query.limit }),
+    }),
+    route({
+      method: 'get',
+      path: '/report-tools',
+      access: 'member',
+      summary: 'Tools (with their modules) to pick on the report form, by search text, code or id',
+      query: toolChoicesQuery,
+      handle: ({ query }) => listToolChoices(query),
+    }),
+  ];
+}
+
+function sendPhoto(res: import('express').Response, data: Buffer, id: number) {
+  res.status(200);
+  res.setHeader('Content-Type', 'image/jpeg');
+  res.setHeader('X-Content-Type-Options', 'nosniff');
+  res.setHeader('Content-Disposition', `inline; filename="photo-${id}.jpg"`);
+  // Even if someone opens it directly, the response can run nothing.
+  res.setHeader('Content-Security-Policy', "default-src 'none'; img-src 'self'; sandbox");
+  res.setHeader('Cache-Control', 'private, no-store');
+  res.end(data);
+}

@@ -1,0 +1,58 @@
+import crypto from 'node:crypto';
+import { Op, type WhereOptions } from 'sequelize';
+import { User, PasswordReset } from './user.model';
+import { SessionRow } from '../auth/session.model';
+import { queueMail } from '../../lib/mailer';
+import { disconnectUser } from '../../lib/realtime';
+import { AppError, notFound } from '../../lib/errors';
+import type { AppDeps } from '../../lib/http';
+import type { InviteUserInput, UpdateUserInput } from '../../../shared/schemas/users';
+import type { Role } from '../../../shared/roles';
+
+export function presentUser(u: User) {
+  return { id: u.id, email: u.email, name: u.name, role: u.role, active: u.active, onCall: u.onCall, invited: !u.passwordHash, lastSignInAt: u.lastSignInAt?.toISOString() ?? null, createdAt: u.createdAt.toISOString() };
+}
+
+export async function listUsers(query: { q?: string; role?: Role; limit: number; offset: number }) {
+  const where: WhereOptions<User> = {};
+  if (query.role) Object.assign(where, { role: query.role });
+  if (query.q) Object.assign(where, { [Op.or]: [{ name: { [Op.like]: `%${query.q}%` } }, { email: { [Op.like]: `%${query.q}%` } }] });
+  const { rows, count } = await User.findAndCountAll({ where, order: [['name', 'ASC']], limit: query.limit, offset: query.offset });
+  return { items: rows.map(presentUser), total: count };
+}
+
+const INVITE_TTL_MS = 7 * 24 * 3600 * 1000;
+
+/** Creates the account without a password and e-mails a link to choose one (valid 7 days). */
+export async function inviteUser(deps: AppDeps, input: InviteUserInput, invitedBy: { name: string }) {
+  const token = crypto.randomBytes(32).toString('base64url');
+  const tokenHash = crypto.createHash('sha256').update(token).digest('hex');
+  return deps.sequelize.transaction(async (transaction) => {
+    const user = await User.create({ email: input.email.toLowerCase(), name: input.name, role: input.role, onCall: input.onCall ?? false, passwordHash: null, lastSignInAt: null }, { transaction });
+    await PasswordReset.create({ userId: user.id, tokenHash, expiresAt: new Date(Date.now() + INVITE_TTL_MS), usedAt: null }, { transaction });
+    await queueMail(
+      {
+        to: user.email,
+        subject: 'You are invited to Faultline',
+        text: `Hello ${user.name},\n\n${invitedBy.name} invited you to Faultline, the fault and maintenance desk of the cleanroom.\nChoose your password here (the link works for 7 days):\n\n${deps.config.publicUrl}/reset-password/${token}\n`,
+      },
+      transaction,
+    );
+    return presentUser(user);
+  });
+}
+
+/** Changes a user; disabling ends every session and socket of that user at once. */
+export async function updateUser(deps: AppDeps, id: number, input: UpdateUserInput, actorId: number) {
+  const user = await User.findByPk(id);
+  if (!user) throw notFound('User');
+  if (id === actorId && (input.active === false || (input.role && input.role !== 'admin'))) {
+    throw new AppError(409, 'cannot_demote_self', 'You cannot disable yourself or take away your own admin role.');
+  }
+  await deps.sequelize.transaction(async (transaction) => {
+    await user.update(input, { transaction });
+    if (input.active === false || input.role) await SessionRow.destroy({ where: { userId: id }, transaction });
+  });
+  if (input.active === false || input.role) disconnectUser(id);
+  return presentUser(user);
+}
