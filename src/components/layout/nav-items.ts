@@ -1,0 +1,35 @@
+import { hasRole, type Role } from '@shared/roles';
+
+export interface NavItem {
+  to: string;
+  label: string;
+  /** The least role that sees the item; higher roles see it too. */
+  minimumRole: Role;
+  /**
+   * Whether the page exists. Items are listed ahead of their pages so the menu's order is
+   * settled in one place; whoever adds a page flips its item to `ready: true`.
+   */
+  ready: boolean;
+}
+
+export const NAV_ITEMS: readonly NavItem[] = [
+  { to: '/', label: 'Home', minimumRole: 'member', ready: true },
+  { to: '/board', label: 'Status board', minimumRole: 'member', ready: false },
+  { to: '/report', label: 'Report a problem', minimumRole: 'member', ready: false },
+  { to: '/my-reports', label: 'My reports', minimumRole: 'member', ready: false },
+  { to: '/queue', label: 'Queue', minimumRole: 'technician', ready: false },
+  { to: '/analytics', label: 'Analytics', minimumRole: 'manager', ready: false },
+  { to: '/admin', label: 'Admin', minimumRole: 'admin', ready: false },
+  { to: '/admin/mail', label: 'Caught mail', minimumRole: 'admin', ready: true },
+];
+
+/** The items a person with `role` sees in the menu: ready pages they may open. */
+export function navItemsFor(role: Role): NavItem[] {
+  return NAV_ITEMS.filter((item) => item.ready && hasRole(role, item.minimumRole));
+}
+
+/** The path of a ready page `role` may open, or null; lets other screens link only to what exists. */
+export function readyPath(to: string, role: Role): string | null {
+  const item = NAV_ITEMS.find((candidate) => candidate.to === to);
+  return item && item.ready && hasRole(role, item.minimumRole) ? item.to : null;
+}
