@@ -31,7 +31,7 @@ ensure_secrets() {
   fi
 }
 
-ping_db() { mariadb-admin --no-defaults -S "$SOCK" -uroot --connect-timeout=1 ping >/dev/null 2>&1; }
+ping_db() { mariadb-admin --no-defaults -S "$SOCK" -u"$(id -un)" --connect-timeout=1 ping >/dev/null 2>&1; }
 
 start_db() {
   install_mariadb
@@ -59,9 +59,10 @@ start_db() {
 
 create_databases() {
   ensure_secrets
+  # The database superuser is the OS user who initialised it (unix_socket authentication).
   # shellcheck disable=SC1090
   . "$SECRETS"
-  mariadb --no-defaults -S "$SOCK" -uroot <<SQL
+  mariadb --no-defaults -S "$SOCK" -u"$(id -un)" <<SQL
 CREATE DATABASE IF NOT EXISTS faultline CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;
 CREATE DATABASE IF NOT EXISTS faultline_test CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;
 CREATE USER IF NOT EXISTS 'faultline'@'127.0.0.1' IDENTIFIED BY '$DB_PASSWORD';
@@ -70,14 +71,15 @@ ALTER USER 'faultline'@'127.0.0.1' IDENTIFIED BY '$DB_PASSWORD';
 ALTER USER 'faultline'@'localhost' IDENTIFIED BY '$DB_PASSWORD';
 GRANT ALL PRIVILEGES ON faultline.* TO 'faultline'@'127.0.0.1', 'faultline'@'localhost';
 GRANT ALL PRIVILEGES ON faultline_test.* TO 'faultline'@'127.0.0.1', 'faultline'@'localhost';
-GRANT ALL PRIVILEGES ON \`faultline_bench\`.* TO 'faultline'@'127.0.0.1', 'faultline'@'localhost';
+-- Scratch databases named faultline_* (benchmarks, fresh-install checks) belong to the app user too.
+GRANT ALL PRIVILEGES ON \`faultline\\_%\`.* TO 'faultline'@'127.0.0.1', 'faultline'@'localhost';
 FLUSH PRIVILEGES;
 SQL
 }
 
 stop_db() {
   if ping_db; then
-    mariadb-admin --no-defaults -S "$SOCK" -uroot shutdown
+    mariadb-admin --no-defaults -S "$SOCK" -u"$(id -un)" shutdown
     echo "• MariaDB stopped."
   else
     echo "• MariaDB is not running."

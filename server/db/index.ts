@@ -5,7 +5,8 @@ import path from 'node:path';
 import type { Config } from '../config';
 import { initModels } from './models';
 
-export function createSequelize(config: Pick<Config, 'DB_HOST' | 'DB_PORT' | 'DB_NAME' | 'DB_USER' | 'DB_PASSWORD' | 'DB_POOL_MAX'>) {
+/** A Sequelize instance; `bindModels: false` for side connections (admin, scratch databases). */
+export function createSequelize(config: Pick<Config, 'DB_HOST' | 'DB_PORT' | 'DB_NAME' | 'DB_USER' | 'DB_PASSWORD' | 'DB_POOL_MAX'>, opts: { bindModels?: boolean } = {}) {
   const sequelize = new Sequelize(config.DB_NAME, config.DB_USER, config.DB_PASSWORD, {
     dialect: 'mariadb',
     host: config.DB_HOST,
@@ -23,7 +24,7 @@ export function createSequelize(config: Pick<Config, 'DB_HOST' | 'DB_PORT' | 'DB
     pool: { max: config.DB_POOL_MAX, min: 0, acquire: 4000, idle: 10_000, evict: 5_000 },
     define: { underscored: true, timestamps: true },
   });
-  initModels(sequelize);
+  if (opts.bindModels !== false) initModels(sequelize);
   return sequelize;
 }
 

@@ -8,7 +8,7 @@ import { testConfig } from './env';
  */
 export default async function setup() {
   const config = testConfig();
-  const admin = createSequelize({ ...config, DB_NAME: 'information_schema' });
+  const admin = createSequelize({ ...config, DB_NAME: 'information_schema' }, { bindModels: false });
   await admin.query('CREATE DATABASE IF NOT EXISTS faultline_test CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci');
   await admin.close();
   const sequelize = createSequelize(config);

@@ -1,0 +1,17 @@
+import { createSequelize, createMigrator } from '../server/db';
+import { testConfig } from '../tests/support/env';
+import { seedDemo } from '../server/db/seed';
+const config = testConfig({ DB_NAME: 'faultline_scratch_tk' });
+const s = createSequelize(config);
+await createMigrator(s).up();
+const t0 = Date.now();
+const now = new Date('2026-12-01T12:00:00Z');
+await seedDemo(s, now);
+console.log('seed ms', Date.now() - t0);
+const q = async (sql: string) => (await s.query(sql))[0];
+console.log(await q(`SELECT status, fix_kind, COUNT(*) n FROM tickets GROUP BY status, fix_kind`));
+console.log(await q(`SELECT COUNT(*) n FROM ticket_events`));
+console.log('udt tool-level unlinked', await q(`SELECT COUNT(*) n FROM state_intervals WHERE state='unscheduled_downtime' AND module_id IS NULL AND ticket_id IS NULL`));
+console.log('open down tools w/o open ticket', await q(`SELECT t.code FROM state_intervals si JOIN tools t ON t.id=si.tool_id WHERE si.ended_at IS NULL AND si.state='unscheduled_downtime' AND NOT EXISTS (SELECT 1 FROM tickets k WHERE k.tool_id=si.tool_id AND k.status IN ('reported','acknowledged','in_repair','waiting'))`));
+console.log(await q(`SELECT id, title, status, priority, created_at FROM tickets WHERE status IN ('reported','acknowledged','in_repair','waiting') ORDER BY priority, created_at`));
+await s.close();
