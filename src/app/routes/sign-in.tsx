@@ -1,4 +1,4 @@
-import { Navigate, useNavigate, useSearchParams } from 'react-router';
+import { Link, Navigate, useNavigate, useSearchParams } from 'react-router';
 import { Wordmark } from '@/components/layout/wordmark';
 import { PageSpinner } from '@/components/ui/spinner';
 import { useSession } from '@/features/auth/api/get-session';
@@ -29,9 +29,14 @@ export function SignInPage() {
           ) : (
             <SignInForm onSuccess={() => navigate(next, { replace: true })} />
           )}
+          <p className="mt-4 text-center text-sm">
+            <Link to="/forgot-password" className="inline-flex min-h-11 items-center font-semibold">
+              Forgot your password?
+            </Link>
+          </p>
         </div>
         <p className="mt-6 text-center text-xs leading-relaxed text-muted">
-          No account yet, or forgot your password? Ask a facility administrator for an invitation or a reset link.
+          No account yet? Ask a facility administrator for an invitation.
         </p>
         <p className="mt-3 text-center text-xs leading-relaxed text-muted">
           For fire, gas, a major spill or an injury, raise the facility alarm and follow the emergency procedures first.
