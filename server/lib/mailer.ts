@@ -82,13 +82,23 @@ export class OutboxWorker {
     await this.running;
   }
 
-  /** One pass over the due mail; returns how many were sent. Safe to call concurrently. */
-  async runOnce(): Promise<number> {
-    if (this.running) {
-      await this.running;
-    }
+  /** One pass over the due mail; returns how many were sent. Calls are queued, never overlapped. */
+  runOnce(): Promise<number> {
+    const pass = (this.running ?? Promise.resolve()).then(() => this.sendDue());
+    const settled = pass.then(
+      () => undefined,
+      () => undefined,
+    );
+    this.running = settled;
+    void settled.finally(() => {
+      if (this.running === settled) this.running = null;
+    });
+    return pass;
+  }
+
+  private async sendDue(): Promise<number> {
     let sent = 0;
-    this.running = (async () => {
+    try {
       const sequelize = OutboxMail.sequelize!;
       const due = await sequelize.transaction(async (transaction) => {
         const rows = await OutboxMail.findAll({
@@ -99,7 +109,7 @@ export class OutboxWorker {
           skipLocked: true,
           transaction,
         });
-        // Push the claimed rows' next attempt out so another worker leaves them alone.
+        // Push the claimed rows' next attempt out so another process's worker leaves them alone.
         const claimUntil = new Date(Date.now() + 60_000);
         if (rows.length) await OutboxMail.update({ nextAttemptAt: claimUntil }, { where: { id: rows.map((r) => r.id) }, transaction });
         return rows;
@@ -121,12 +131,9 @@ export class OutboxWorker {
           this.log.warn({ mailId: mail.id, attempts, err: message }, 'mail send failed; will retry');
         }
       }
-    })()
-      .catch((error) => this.log.warn({ err: String(error) }, 'outbox pass failed'))
-      .finally(() => {
-        this.running = null;
-      });
-    await this.running;
+    } catch (error) {
+      this.log.warn({ err: String(error) }, 'outbox pass failed');
+    }
     return sent;
   }
 }

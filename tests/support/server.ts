@@ -15,3 +15,8 @@ export async function startTestServer(overrides: Record<string, string> = {}, op
   const running = await startServer(config, { catcher, serveClient: opts.serveClient ?? false, outboxWorker: opts.outboxWorker, logDestination: opts.logDestination });
   return { ...running, config, catcher, url: `http://127.0.0.1:${running.port}` };
 }
+
+/** Sends every due outbox row now (the shared test database may hold other tests' mail too). */
+export async function drainOutbox(server: { worker: { runOnce(): Promise<number> } }) {
+  for (let i = 0; i < 100; i++) if ((await server.worker.runOnce()) === 0) return;
+}
