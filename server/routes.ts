@@ -7,6 +7,7 @@ import { usersRoutes } from './modules/users/users.routes';
 import { facilityRoutes } from './modules/facility/facility.routes';
 import { noticesRoutes } from './modules/notices/notices.routes';
 import { ticketRoutes } from './modules/tickets/tickets.routes';
+import { analyticsRoutes } from './modules/analytics/analytics.routes';
 
 export interface RouteOptions {
   log: Logger;
@@ -22,5 +23,6 @@ export function apiRoutes(opts: RouteOptions): RouteSpec[] {
     ...facilityRoutes(opts),
     ...noticesRoutes(),
     ...ticketRoutes(opts.log),
+    ...analyticsRoutes(),
   ];
 }

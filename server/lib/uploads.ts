@@ -77,8 +77,8 @@ async function reencode(file: IncomingFile, index: number): Promise<{ full: Buff
   let format: string | undefined;
   try {
     format = (await input().metadata()).format;
-  } catch {
-    throw unsupported(index);
+  } catch (error) {
+    throw refusal(error, index);
   }
   const expected = kind === 'heif' ? 'heif' : kind;
   if (format !== expected) throw unsupported(index);
@@ -93,12 +93,16 @@ async function reencode(file: IncomingFile, index: number): Promise<{ full: Buff
     const thumb = await sharp(full).resize({ width: THUMB_EDGE, height: THUMB_EDGE, fit: 'inside', withoutEnlargement: true }).jpeg({ quality: 72 }).toBuffer();
     return { full, thumb, width: info.width, height: info.height };
   } catch (error) {
-    const message = error instanceof Error ? error.message : '';
-    if (/pixel limit/i.test(message)) {
-      throw new AppError(413, 'upload_too_large', `Photo ${index + 1} has too many pixels.`, { photos: ['The picture is too large in pixels.'] });
-    }
-    throw unsupported(index);
+    throw refusal(error, index);
   }
+}
+
+function refusal(error: unknown, index: number): AppError {
+  const message = error instanceof Error ? error.message : '';
+  if (/pixel limit/i.test(message)) {
+    return new AppError(413, 'upload_too_large', `Photo ${index + 1} has too many pixels.`, { photos: ['The picture is too large in pixels.'] });
+  }
+  return unsupported(index);
 }
 
 const randomName = (suffix: string) => `${crypto.randomBytes(18).toString('base64url')}${suffix}.jpg`;

@@ -16,6 +16,12 @@ export const router = createBrowserRouter([
     hydrateFallbackElement: <PageSpinner />,
     children: [
       { path: 'sign-in', lazy: () => import('@/app/routes/sign-in') },
+      { path: 'forgot-password', lazy: () => import('@/app/routes/forgot-password') },
+      // Reset links and invitations share this page.
+      { path: 'reset-password/:token', lazy: () => import('@/app/routes/reset-password') },
+      // A lobby display signs in with its key; the unfollow link in an e-mail needs no sign-in.
+      { path: 'display/:key', lazy: () => import('@/app/routes/display') },
+      { path: 'unfollow/:token', lazy: () => import('@/app/routes/unfollow') },
       {
         id: 'protected',
         loader: protectedLoader,
@@ -30,16 +36,29 @@ export const router = createBrowserRouter([
               // ---- Feature routes: one line each, lazy-loaded; add the page's NAV_ITEMS entry as ready ----
               // Open to every signed-in user. Example shape:
               //   { path: 'board', lazy: () => import('@/app/routes/board') },
+              { path: 'board', lazy: () => import('@/app/routes/board') },
+              { path: 'tools/:code', lazy: () => import('@/app/routes/tools/tool-page') },
+              { path: 'report', lazy: () => import('@/app/routes/report') },
+              { path: 'tickets/:id', lazy: () => import('@/app/routes/tickets') },
+              { path: 'my-reports', lazy: () => import('@/app/routes/my-reports') },
 
               // ---- Admin only ----
               {
                 element: <RoleGate minimum="admin" />,
                 children: [
+                  { path: 'admin', lazy: () => import('@/app/routes/admin/index') },
+                  { path: 'admin/users', lazy: () => import('@/app/routes/admin/users') },
                   { path: 'admin/mail', lazy: () => import('@/app/routes/admin/mail') },
+                  { path: 'admin/facility', lazy: () => import('@/app/routes/admin/facility') },
+                  { path: 'admin/displays', lazy: () => import('@/app/routes/admin/displays') },
                 ],
               },
               // Pages for technicians or managers go in their own group, like the admin one:
               //   { element: <RoleGate minimum="technician" />, children: [ ...one line per page... ] },
+              { element: <RoleGate minimum="technician" />, children: [{ path: 'labels', lazy: () => import('@/app/routes/tools/labels') }] },
+              { element: <RoleGate minimum="technician" />, children: [{ path: 'queue', lazy: () => import('@/app/routes/queue') }] },
+              { element: <RoleGate minimum="manager" />, children: [{ path: 'admin/service-targets', lazy: () => import('@/app/routes/admin-service-targets') }] },
+              { element: <RoleGate minimum="manager" />, children: [{ path: 'analytics', lazy: () => import('@/app/routes/analytics') }] },
 
               { path: '*', element: <NotFoundPage /> },
             ],

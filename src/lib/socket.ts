@@ -2,6 +2,11 @@ import { useEffect, useSyncExternalStore } from 'react';
 import { io, type Socket } from 'socket.io-client';
 import { useQueryClient, type QueryClient, type QueryKey } from '@tanstack/react-query';
 import { reportSessionMayHaveEnded } from '@/lib/api-client';
+import { boardKeys } from '@/features/board/api/get-board';
+import { toolKeys } from '@/features/tools/api/tool-keys';
+import { adminKeys } from '@/features/facility-admin/api/admin-keys';
+import { noticeKeys } from '@/features/notices/api/notice-keys';
+import { ticketKeys } from '@/features/tickets/api/ticket-keys';
 
 // The socket only announces that something changed; screens refetch what they show.
 // That keeps permission checks in one place (the API) and avoids a second data path.
@@ -18,6 +23,12 @@ type Invalidation = (payload: RealtimePayload) => QueryKey[];
  */
 export const REALTIME_INVALIDATIONS: Record<string, Invalidation> = {
   'notice.created': () => [['notices']],
+  'notice.read': () => [noticeKeys.all],
+  'tool.state_changed': () => [boardKeys.all, toolKeys.all],
+  'facility.updated': () => [boardKeys.all, toolKeys.all, adminKeys.all],
+  'ticket.created': () => [ticketKeys.lists()],
+  'ticket.updated': (p) => [ticketKeys.detail(Number(p.id)), ticketKeys.lists()],
+  'service_targets.updated': () => [ticketKeys.all],
 };
 
 export type RealtimeStatus = 'off' | 'connecting' | 'live' | 'reconnecting';

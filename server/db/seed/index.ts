@@ -1,6 +1,8 @@
 import type { Sequelize } from 'sequelize';
 import { User } from '../../modules/users/user.model';
 import { seedUsers } from './users';
+import { seedFacility } from './facility';
+import { seedTickets } from './tickets';
 
 /**
  * The demo facility: invented people, tools and a year of history, generated from a fixed
@@ -10,9 +12,11 @@ export async function seedDemo(sequelize: Sequelize, now = new Date()): Promise<
   if ((await User.count()) > 0) return { seeded: false };
   await sequelize.transaction(async (transaction) => {
     const people = await seedUsers(transaction);
-    // Later seed steps (facility, history, tickets) are added here, each given `people` and `now`.
-    void people;
-    void now;
+    const facility = await seedFacility(transaction, people, now);
+    // Later seed steps (tickets) are added here, each given `people`, `facility` and `now`.
+    void facility;
+    // Tickets last: they follow the state history the facility step wrote.
+    await seedTickets(transaction, people, now);
   });
   return { seeded: true };
 }

@@ -56,10 +56,9 @@ export function facilityRoutes(opts: { log: Logger }): RouteSpec[] {
       access: 'display',
       summary: 'The status board: every active tool by area, rolled up, with open-ticket counts',
       query: boardQuery,
-      handle: async ({ deps, query, req }) => {
-        if (req.displayLinkId) await describeDisplay(req.displayLinkId);
-        return getBoard(deps.sequelize, query);
-      },
+      // A display's "last seen" is kept by /display-link, which the screen re-checks every few
+      // minutes; the board itself stays two queries.
+      handle: ({ deps, query }) => getBoard(deps.sequelize, query),
     }),
     route({
       method: 'get',

@@ -1,4 +1,4 @@
-import type { Transaction } from 'sequelize';
+import { QueryTypes, type Transaction } from 'sequelize';
 import { Ticket, Photo } from './ticket.model';
 import { Tool, ToolModule } from '../facility/facility.model';
 import { User } from '../users/user.model';
@@ -42,12 +42,20 @@ async function validateToolAndModule(toolId: number, moduleId: number | null) {
  * Photos are checked and written before the transaction; if the transaction then fails, the
  * files go again. So a failed report leaves neither rows nor files.
  */
-async function withStoredPhotos<T>(deps: AppDeps, files: readonly IncomingFile[], work: (stored: StoredPhoto[]) => Promise<T>): Promise<T> {
+/** Thrown inside the transaction to roll it back when the same draft was filed before. */
+class AlreadySent extends Error {
+  constructor(readonly ticketId: number) {
+    super('already sent');
+  }
+}
+
+async function withStoredPhotos<T>(deps: AppDeps, files: readonly IncomingFile[], work: (stored: StoredPhoto[]) => Promise<T>): Promise<T | { id: number; duplicate: true }> {
   const stored = await storePhotos(deps.config, files);
   try {
     return await work(stored);
   } catch (error) {
     await removePhotos(deps.config, stored);
+    if (error instanceof AlreadySent) return { id: error.ticketId, duplicate: true };
     throw error;
   }
 }
@@ -60,8 +68,22 @@ async function savePhotos(ticketId: number, eventId: number, uploaderId: number,
   );
 }
 
-function reportFacts(input: { alarmText: string | null; impact: Impact | null; hazards: string[]; wafersCount: number; wafersOwner: string | null; wafersRecoverable: string | null }, photos: number) {
-  return { alarmText: input.alarmText, impact: input.impact, hazards: input.hazards, wafersCount: input.wafersCount, wafersOwner: input.wafersOwner, wafersRecoverable: input.wafersRecoverable, photos };
+function reportFacts(input: { alarmText: string | null; impact: Impact | null; hazards: string[]; wafersCount: number; wafersOwner: string | null; wafersRecoverable: string | null; clientKey: string | null }, photos: number) {
+  return { alarmText: input.alarmText, impact: input.impact, hazards: input.hazards, wafersCount: input.wafersCount, wafersOwner: input.wafersOwner, wafersRecoverable: input.wafersRecoverable, photos, ...(input.clientKey ? { clientKey: input.clientKey } : {}) };
+}
+
+const RESEND_WINDOW_MS = 3 * 24 * 60 * 60_000;
+
+/** The ticket this user already filed (or added to) with the same draft key, if any. */
+async function alreadySent(deps: AppDeps, userId: number, clientKey: string | null, kind: 'reported' | 'added_report', transaction: Transaction): Promise<number | null> {
+  if (!clientKey) return null;
+  const rows = await deps.sequelize.query<{ ticketId: number }>(
+    `SELECT e.ticket_id AS ticketId FROM ticket_events e
+      WHERE e.actor_id = :userId AND e.kind = :kind AND e.created_at > :since AND JSON_VALUE(e.data, '$.clientKey') = :clientKey
+      LIMIT 1`,
+    { replacements: { userId, kind, since: new Date(Date.now() - RESEND_WINDOW_MS), clientKey }, type: QueryTypes.SELECT, transaction },
+  );
+  return rows.length ? Number(rows[0].ticketId) : null;
 }
 
 export async function createReport(deps: AppDeps, user: AuthUser, input: ReportData, files: readonly IncomingFile[]) {
@@ -72,6 +94,8 @@ export async function createReport(deps: AppDeps, user: AuthUser, input: ReportD
       // instead of deadlocking between the ticket insert and the state change.
       const locked = await Tool.findByPk(tool.id, { transaction, lock: transaction.LOCK.UPDATE });
       if (!locked || locked.retiredAt) throw badRequest('That tool cannot take reports.', { toolId: ['Unknown or retired tool.'] });
+      const earlier = await alreadySent(deps, user.id, input.clientKey, 'reported', transaction);
+      if (earlier) throw new AlreadySent(earlier);
       const priority = computePriority({ impact: input.impact, hazards: input.hazards, wafersAtRisk: input.wafersCount, wafersKnownSafe: input.wafersRecoverable === 'yes', criticality: locked.criticality });
       const engineers = await User.findAll({ where: { id: [locked.primaryEngineerId, locked.backupEngineerId].filter((x): x is number => x !== null), active: true }, transaction });
       const assignee = engineers.find((u) => u.id === locked.primaryEngineerId && isStaff(u.role)) ?? engineers.find((u) => u.id === locked.backupEngineerId && isStaff(u.role)) ?? null;
@@ -163,6 +187,8 @@ export async function addReport(deps: AppDeps, user: AuthUser, ticketId: number,
     deps.sequelize.transaction(async (transaction) => {
       const tool = await Tool.findByPk(existing.toolId, { transaction, lock: transaction.LOCK.UPDATE });
       const ticket = await Ticket.findByPk(ticketId, { transaction, lock: transaction.LOCK.UPDATE });
+      const earlier = await alreadySent(deps, user.id, input.clientKey, 'added_report', transaction);
+      if (earlier) throw new AlreadySent(earlier);
       if (!tool || !ticket || !isOpenStatus(ticket.status)) throw new AppError(409, 'ticket_not_open', 'This ticket closed in the meantime. Report the problem as a new one.');
 
       const event = await appendEvent(ticket.id, user.id, 'added_report', { body: input.description, data: reportFacts(input, stored.length) }, transaction);

@@ -126,12 +126,7 @@ export async function listTickets(deps: AppDeps, user: AuthUser, q: ListQuery): 
   return { items: rows.map((r) => toSummary(r as WithIncludes, table, now)), total: count, limit: q.limit, offset: q.offset };
 }
 
-export async function findTicket(id: number, transaction?: Transaction, lock = false): Promise<WithIncludes> {
-  // FOR UPDATE cannot be combined with outer joins on the nullable side, so lock the bare row first.
-  if (lock && transaction) {
-    const row = await Ticket.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
-    if (!row) throw notFound('That ticket');
-  }
+export async function findTicket(id: number, transaction?: Transaction): Promise<WithIncludes> {
   const t = await Ticket.findByPk(id, { include: summaryIncludes(), transaction });
   if (!t) throw notFound('That ticket');
   return t as WithIncludes;

@@ -176,5 +176,6 @@ export function initTicketModels(sequelize: Sequelize) {
   Ticket.hasMany(TicketEvent, { as: 'events', foreignKey: 'ticketId' });
   Ticket.hasMany(Photo, { as: 'photos', foreignKey: 'ticketId' });
   TicketEvent.belongsTo(User, { as: 'actor', foreignKey: 'actorId' });
+  Photo.belongsTo(User, { as: 'uploader', foreignKey: 'uploaderId' });
   Tool.hasMany(Ticket, { as: 'tickets', foreignKey: 'toolId' });
 }

@@ -7,6 +7,7 @@ import { Wordmark } from '@/components/layout/wordmark';
 import { useAmberRoom } from '@/lib/amber-room';
 import { cx } from '@/lib/cx';
 import type { RealtimeStatus } from '@/lib/socket';
+import { NoticeBell } from '@/features/notices/components/notice-bell';
 
 export interface AppLayoutUser {
   name: string;
@@ -50,8 +51,11 @@ export function AppLayout({ user, onSignOut, signingOut = false, signOutError, r
             <Wordmark />
           </Link>
           <RealtimeIndicator status={realtime} />
+          <div className="ml-auto">
+            <NoticeBell />
+          </div>
 
-          <div className="ml-auto hidden items-center gap-3 lg:flex">
+          <div className="hidden items-center gap-3 lg:flex">
             <AmberRoomToggle />
             <UserLabel user={user} />
             <Button variant="secondary" onClick={onSignOut} busy={signingOut}>
@@ -62,7 +66,7 @@ export function AppLayout({ user, onSignOut, signingOut = false, signOutError, r
           <button
             ref={menuButton}
             type="button"
-            className="ml-auto inline-flex min-h-11 min-w-11 items-center gap-2 rounded-lg border border-control px-3 text-sm font-semibold text-ink lg:hidden amber:border-2"
+            className="inline-flex min-h-11 min-w-11 items-center gap-2 rounded-lg border border-control px-3 text-sm font-semibold text-ink lg:hidden amber:border-2"
             aria-expanded={menuOpen}
             aria-controls={menuId}
             onClick={() => (menuOpen ? closeMenu(false) : setMenuOpenAt(location.pathname))}

@@ -1,0 +1,6 @@
+/** Query keys of the lobby display; the key is part of each, so two links never share data. */
+export const displayKeys = {
+  all: ['display'] as const,
+  link: (key: string) => [...displayKeys.all, 'link', key] as const,
+  board: (key: string) => [...displayKeys.all, 'board', key] as const,
+};

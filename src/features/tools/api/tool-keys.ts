@@ -1,0 +1,9 @@
+/** Query keys of the tools feature, from general to specific. */
+export const toolKeys = {
+  all: ['tools'] as const,
+  details: () => [...toolKeys.all, 'detail'] as const,
+  detail: (code: string) => [...toolKeys.details(), code] as const,
+  histories: () => [...toolKeys.all, 'history'] as const,
+  history: (toolId: number, page: { limit: number; offset: number }) => [...toolKeys.histories(), toolId, page] as const,
+  labels: (areaId: number | null) => [...toolKeys.all, 'labels', areaId] as const,
+};
