@@ -24,10 +24,12 @@ type Invalidation = (payload: RealtimePayload) => QueryKey[];
 export const REALTIME_INVALIDATIONS: Record<string, Invalidation> = {
   'notice.created': () => [['notices']],
   'notice.read': () => [noticeKeys.all],
-  'tool.state_changed': () => [boardKeys.all, toolKeys.all],
+  // Ticket pages show the tool's state too.
+  'tool.state_changed': () => [boardKeys.all, toolKeys.all, ticketKeys.details()],
   'facility.updated': () => [boardKeys.all, toolKeys.all, adminKeys.all],
-  'ticket.created': () => [ticketKeys.lists()],
-  'ticket.updated': (p) => [ticketKeys.detail(Number(p.id)), ticketKeys.lists()],
+  // The board and tool pages count open tickets.
+  'ticket.created': () => [ticketKeys.lists(), boardKeys.all, toolKeys.all],
+  'ticket.updated': (p) => [ticketKeys.detail(Number(p.id)), ticketKeys.lists(), boardKeys.all, toolKeys.all],
   'service_targets.updated': () => [ticketKeys.all],
 };
 
