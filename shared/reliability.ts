@@ -145,14 +145,28 @@ export function requiredTestHours({ mtbf, confidence, failures }: RequiredTestHo
 // SEMI E10 time-state metrics
 // ---------------------------------------------------------------------------------------
 
-/** Hours in each E10 state, hours of the downtime sub-states, and event counts for a period. */
-export interface E10Totals {
+/** Hours in each of the six SEMI E10 basic states. */
+export interface E10StateHours {
   productive: number;
   standby: number;
   engineering: number;
   scheduledDowntime: number;
   unscheduledDowntime: number;
   nonScheduled: number;
+}
+
+/** The six basic states in E10's order (the order of report columns). */
+export const E10_STATE_HOURS_KEYS = [
+  'productive',
+  'standby',
+  'engineering',
+  'scheduledDowntime',
+  'unscheduledDowntime',
+  'nonScheduled',
+] as const satisfies readonly (keyof E10StateHours)[];
+
+/** Hours in each E10 state, hours of the downtime sub-states, and event counts for a period. */
+export interface E10Totals extends E10StateHours {
   /** Maintenance delay on the user's (facility's) side, in scheduled and unscheduled downtime. */
   maintenanceDelayUser: number;
   /** Maintenance delay on the supplier's side (vendor, parts from the supplier). */
@@ -186,12 +200,7 @@ export interface E10Metrics {
 }
 
 const E10_HOUR_KEYS = [
-  'productive',
-  'standby',
-  'engineering',
-  'scheduledDowntime',
-  'unscheduledDowntime',
-  'nonScheduled',
+  ...E10_STATE_HOURS_KEYS,
   'maintenanceDelayUser',
   'maintenanceDelaySupplier',
   'outOfSpecInput',

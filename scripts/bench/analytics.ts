@@ -18,6 +18,7 @@ import { hashPassword } from '../../server/modules/users/password';
 import { startServer } from '../../server/server';
 import { TICKET_CATEGORIES } from '../../shared/report-options';
 import type { E10State, StateReason } from '../../shared/equipment-state';
+import { localSecrets } from '../lib/local-secrets';
 
 // BENCH_DB_NAME lets a developer keep a second copy while another benchmark uses the default.
 const DB_NAME = process.env.BENCH_DB_NAME ?? 'faultline_bench';
@@ -227,8 +228,11 @@ export async function generate(sequelize: Sequelize, now: number) {
 }
 
 function benchConfig() {
+  // Run alone (not through run.ts), the local secrets are not in the environment yet.
+  const secrets = localSecrets();
   return loadConfig(process.env, {
-    SESSION_SECRET: process.env.SESSION_SECRET ?? 'bench-secret-bench-secret-bench-secret-0',
+    DB_PASSWORD: process.env.DB_PASSWORD ?? secrets.DB_PASSWORD ?? '',
+    SESSION_SECRET: process.env.SESSION_SECRET ?? secrets.SESSION_SECRET ?? 'bench-secret-bench-secret-bench-secret-0',
     DB_NAME,
     PORT: '0',
     LOG_LEVEL: 'silent',

@@ -4,17 +4,14 @@
 //   npm run bench            (all benchmarks)      npm run bench -- board   (this one)
 //   BENCH_SECONDS=20 BENCH_CONNECTIONS=20 npm run bench -- board
 import crypto from 'node:crypto';
-import fs from 'node:fs';
-import path from 'node:path';
-import { fileURLToPath } from 'node:url';
 import autocannon from 'autocannon';
 import { loadConfig } from '../../server/config';
 import { createSequelize, createMigrator } from '../../server/db';
 import { startServer } from '../../server/server';
 import { hashPassword } from '../../server/modules/users/password';
 import { createRandom } from '../../server/db/seed/random';
+import { localSecrets } from '../lib/local-secrets';
 
-const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
 const TOOLS = 300;
 const AREAS = 10;
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 10);
@@ -22,22 +19,11 @@ const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 10);
 const HISTORY_PER_TOOL = 300;
 const PASSWORD = 'bench-password-not-secret';
 
-function secrets(): Record<string, string> {
-  const file = path.join(root, '.data/secrets.env');
-  if (!fs.existsSync(file)) return {};
-  return Object.fromEntries(
-    fs
-      .readFileSync(file, 'utf8')
-      .split('\n')
-      .filter((l) => l.includes('='))
-      .map((l) => [l.slice(0, l.indexOf('=')), l.slice(l.indexOf('=') + 1)]),
-  );
-}
-
+const secrets = localSecrets();
 const config = loadConfig(process.env, {
   DB_NAME: 'faultline_bench',
-  DB_PASSWORD: process.env.DB_PASSWORD ?? secrets().DB_PASSWORD ?? '',
-  SESSION_SECRET: process.env.SESSION_SECRET ?? secrets().SESSION_SECRET ?? 'bench-session-secret-bench-session-secret',
+  DB_PASSWORD: process.env.DB_PASSWORD ?? secrets.DB_PASSWORD ?? '',
+  SESSION_SECRET: process.env.SESSION_SECRET ?? secrets.SESSION_SECRET ?? 'bench-session-secret-bench-session-secret',
   PORT: '0',
   LOG_LEVEL: 'silent',
   NODE_ENV: 'production',

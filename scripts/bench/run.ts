@@ -4,20 +4,14 @@ import { spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { localSecrets } from '../lib/local-secrets';
 
 const dir = path.dirname(fileURLToPath(import.meta.url));
-const root = path.resolve(dir, '../..');
 
 // The local database password and session secret (written by scripts/db.sh), unless the
 // environment already names them, so `npm run bench` works like `npm test` on a dev machine.
 const env = { ...process.env };
-const secretsFile = path.join(root, '.data/secrets.env');
-if (fs.existsSync(secretsFile)) {
-  for (const line of fs.readFileSync(secretsFile, 'utf8').split('\n')) {
-    const at = line.indexOf('=');
-    if (at > 0) env[line.slice(0, at)] ??= line.slice(at + 1);
-  }
-}
+for (const [name, value] of Object.entries(localSecrets())) env[name] ??= value;
 const only = process.argv.slice(2);
 const benches = fs
   .readdirSync(dir)

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import type { Priority } from '../priority';
-import type { ReliabilityTrend } from '../reliability';
+import type { E10StateHours, ReliabilityTrend } from '../reliability';
 
 // Inputs and answers of the analytics API, shared by the manager pages and the server.
 
@@ -49,24 +49,8 @@ export type AnalyticsQuery = z.output<typeof analyticsQuerySchema>;
 
 // ---- Answers -----------------------------------------------------------------------------
 
-/** Hours in each SEMI E10 state. */
-export interface StateHours {
-  productive: number;
-  standby: number;
-  engineering: number;
-  scheduledDowntime: number;
-  unscheduledDowntime: number;
-  nonScheduled: number;
-}
-
-export const STATE_HOURS_KEYS = [
-  'productive',
-  'standby',
-  'engineering',
-  'scheduledDowntime',
-  'unscheduledDowntime',
-  'nonScheduled',
-] as const satisfies readonly (keyof StateHours)[];
+/** Hours in each SEMI E10 state, as the answers carry them. */
+export type StateHours = E10StateHours;
 
 /** Hours of the downtime sub-reasons the E10 figures need. */
 export interface DowntimeDetail {

@@ -1,13 +1,12 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
-import net from 'node:net';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { Area, StateInterval, Tool } from '../../server/modules/facility/facility.model';
-import { Ticket } from '../../server/modules/tickets/ticket.model';
+import { Ticket, UNWORKED_TICKET_FIELDS } from '../../server/modules/tickets/ticket.model';
 import { createRandom } from '../../server/db/seed/random';
 import type { E10State, StateReason } from '../../shared/equipment-state';
 import { TICKET_CATEGORIES } from '../../shared/report-options';
-import { startTestServer, type TestServer } from '../support/server';
+import { freePort, startTestServer, type TestServer } from '../support/server';
 import { launchBrowser, screenshot, signInThroughPage, VIEWPORTS } from '../support/browser';
 import { createUser, TEST_PASSWORD, unique } from '../support/factories';
 
@@ -23,17 +22,6 @@ let managerEmail: string;
 let areaId: number;
 const toolCodes: string[] = [];
 const contexts: BrowserContext[] = [];
-
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const probe = net.createServer();
-    probe.once('error', reject);
-    probe.listen(0, '127.0.0.1', () => {
-      const { port } = probe.address() as net.AddressInfo;
-      probe.close(() => resolve(port));
-    });
-  });
-}
 
 /** About 400 days of plausible history per tool: running, failures with tickets, PM, engineering. */
 async function buildHistory() {
@@ -63,9 +51,8 @@ async function buildHistory() {
         const created = t + 5 * 60_000;
         const ticket = await Ticket.create({
           toolId: tool.id, moduleId: null, category: rnd.pick(TICKET_CATEGORIES), title: 'Invented fault for the analytics test', description: null, alarmText: null,
-          impact: 'tool_stopped', hazards: [], wafersOwner: null, wafersRecoverable: null, status: 'closed', waitReason: null, priority: rnd.pick(['P1', 'P2', 'P2', 'P3'] as const),
-          reporterId: null, assigneeId: null, mergedIntoId: null, fixKind: 'failure', failureMode: rnd.pick(MODES), cause: null, workDone: null, partsUsed: null,
-          handsOnMinutes: null, wafersRecovered: null, wafersReturned: null, acknowledgedAt: new Date(created + rnd.exp(40) * 60_000), fixedAt: null, closedAt: null, resolvedAt: null,
+          impact: 'tool_stopped', hazards: [], wafersOwner: null, wafersRecoverable: null, status: 'closed', priority: rnd.pick(['P1', 'P2', 'P2', 'P3'] as const),
+          reporterId: null, assigneeId: null, ...UNWORKED_TICKET_FIELDS, fixKind: 'failure', failureMode: rnd.pick(MODES), acknowledgedAt: new Date(created + rnd.exp(40) * 60_000),
         });
         push('unscheduled_downtime', 'repair', rnd.exp(3), ticket.id);
         if (rnd.chance(0.4) && t < now) push('unscheduled_downtime', 'waiting_parts', rnd.exp(20), ticket.id);

@@ -1,10 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { startTestServer, type TestServer } from '../support/server';
+import { freePort, startTestServer, type TestServer } from '../support/server';
 import { launchBrowser, screenshot, signInThroughPage, VIEWPORTS } from '../support/browser';
 import { createUser, TEST_PASSWORD, unique } from '../support/factories';
 import { Area, DisplayLink, Tool, ToolModule } from '../../server/modules/facility/facility.model';
-import { freePort } from './board-fixtures';
 
 // The admin pages that feed the board: tools and areas, and lobby display links.
 

@@ -1,25 +1,9 @@
-import net from 'node:net';
 import type { Sequelize } from 'sequelize';
 import { Area, Tool, ToolModule } from '../../server/modules/facility/facility.model';
 import { changeState, openInitialState } from '../../server/modules/facility/state.service';
 import type { AppDeps } from '../../server/lib/http';
 import type { E10State, StateReason } from '../../shared/equipment-state';
 import { unique } from '../support/factories';
-
-/**
- * A free loopback port, so the server can be told its own public address: the browser's
- * socket then upgrades to a WebSocket (the server accepts sockets from its own origin only).
- */
-export function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const s = net.createServer();
-    s.once('error', reject);
-    s.listen(0, '127.0.0.1', () => {
-      const { port } = s.address() as net.AddressInfo;
-      s.close(() => resolve(port));
-    });
-  });
-}
 
 interface ToolPlan {
   name: string;

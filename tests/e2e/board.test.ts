@@ -1,10 +1,10 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { startTestServer, type TestServer } from '../support/server';
+import { freePort, startTestServer, type TestServer } from '../support/server';
 import { launchBrowser, screenshot, signInThroughPage, VIEWPORTS } from '../support/browser';
 import { createUser, TEST_PASSWORD } from '../support/factories';
 import { changeState } from '../../server/modules/facility/state.service';
-import { buildFacility, freePort, type BuiltTool } from './board-fixtures';
+import { buildFacility, type BuiltTool } from './board-fixtures';
 
 let server: TestServer;
 let browser: Browser;

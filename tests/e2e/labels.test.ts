@@ -2,10 +2,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import sharp from 'sharp';
 import jsQR from 'jsqr';
-import { startTestServer, type TestServer } from '../support/server';
+import { freePort, startTestServer, type TestServer } from '../support/server';
 import { launchBrowser, screenshot, signInThroughPage, VIEWPORTS } from '../support/browser';
 import { createUser, TEST_PASSWORD } from '../support/factories';
-import { buildFacility, freePort, type BuiltTool } from './board-fixtures';
+import { buildFacility, type BuiltTool } from './board-fixtures';
 
 let server: TestServer;
 let browser: Browser;

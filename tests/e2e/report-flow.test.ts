@@ -1,9 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { startTestServer, type TestServer } from '../support/server';
+import { freePort, startTestServer, type TestServer } from '../support/server';
 import { createUser, TEST_PASSWORD } from '../support/factories';
 import { launchBrowser, screenshot, signInThroughPage, VIEWPORTS } from '../support/browser';
-import { freePort } from './board-fixtures';
 import { createTool, drainOutbox, jpegBytes } from '../integration/tickets-fixtures';
 import { TestClient } from '../support/client';
 import { Ticket, Photo } from '../../server/modules/tickets/ticket.model';

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { QueryTypes } from 'sequelize';
 import { Area, StateInterval, Tool, ToolModule } from '../../server/modules/facility/facility.model';
 import { changeState, openInitialState } from '../../server/modules/facility/state.service';
-import { ServiceTarget, Ticket } from '../../server/modules/tickets/ticket.model';
+import { ServiceTarget, Ticket, UNWORKED_TICKET_FIELDS } from '../../server/modules/tickets/ticket.model';
 import type { E10State, StateReason } from '../../shared/equipment-state';
 import { PRIORITIES, SERVICE_TARGET_DEFAULTS, type Priority } from '../../shared/priority';
 import type { AnalyticsReport, ToolReliability } from '../../shared/schemas/analytics';
@@ -61,22 +61,14 @@ async function makeTicket(toolId: number, fields: Partial<{ category: string; fa
     wafersOwner: null,
     wafersRecoverable: null,
     status: fields.status ?? 'closed',
-    waitReason: null,
     priority: fields.priority ?? 'P3',
     reporterId: null,
     assigneeId: null,
-    mergedIntoId: null,
+    ...UNWORKED_TICKET_FIELDS,
     fixKind: fields.fixKind ?? null,
     failureMode: fields.failureMode ?? null,
-    cause: null,
-    workDone: null,
-    partsUsed: null,
-    handsOnMinutes: null,
-    wafersRecovered: null,
-    wafersReturned: null,
     acknowledgedAt: fields.acknowledgedAt ?? null,
     fixedAt: fields.fixedAt ?? null,
-    closedAt: null,
     resolvedAt: fields.resolvedAt ?? null,
   });
   // createdAt is set by Sequelize on insert; the response figures need a chosen one.

@@ -1,10 +1,11 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { io as connect, type Socket } from 'socket.io-client';
 import { startTestServer, type TestServer } from '../support/server';
+import { DAY_MS, HOUR_MS } from '../support/time';
 import { createUser, signedInClient } from '../support/factories';
 import { changeState } from '../../server/modules/facility/state.service';
 import { availabilityForPeriod, stateTimeInPeriod } from '../../server/modules/facility/availability.service';
-import { Ticket } from '../../server/modules/tickets/ticket.model';
+import { Ticket, UNWORKED_TICKET_FIELDS } from '../../server/modules/tickets/ticket.model';
 import type { BoardData, BoardTool } from '../../shared/schemas/facility';
 import { makeArea, makeTool } from './facility-fixtures';
 
@@ -15,15 +16,12 @@ beforeAll(async () => {
 });
 afterAll(() => server.close());
 
-const HOUR = 3_600_000;
-const DAY = 24 * HOUR;
-
 function findTool(board: BoardData, id: number): BoardTool | undefined {
   return board.areas.flatMap((a) => a.tools).find((t) => t.id === id);
 }
 
 async function addTicket(toolId: number, status: Ticket['status']) {
-  return Ticket.create({ toolId, moduleId: null, category: 'other', title: `Ticket ${status}`, description: null, alarmText: null, impact: 'still_usable', hazards: [], wafersOwner: null, wafersRecoverable: null, status, waitReason: null, priority: 'P3', reporterId: null, assigneeId: null, mergedIntoId: null, fixKind: null, failureMode: null, cause: null, workDone: null, partsUsed: null, handsOnMinutes: null, wafersRecovered: null, wafersReturned: null, acknowledgedAt: null, fixedAt: null, closedAt: null, resolvedAt: null });
+  return Ticket.create({ toolId, moduleId: null, category: 'other', title: `Ticket ${status}`, description: null, alarmText: null, impact: 'still_usable', hazards: [], wafersOwner: null, wafersRecoverable: null, status, priority: 'P3', reporterId: null, assigneeId: null, ...UNWORKED_TICKET_FIELDS });
 }
 
 describe('the status board', () => {
@@ -32,7 +30,7 @@ describe('the status board', () => {
     const area = await makeArea();
     const down = await makeTool(server.deps.sequelize, { areaId: area.id, name: 'Board test down' });
     const limited = await makeTool(server.deps.sequelize, { areaId: area.id, name: 'Board test limited', modules: ['A', 'B'] });
-    const back = new Date(Date.now() + 5 * HOUR);
+    const back = new Date(Date.now() + 5 * HOUR_MS);
     const d = await changeState(server.deps, { toolId: down.tool.id, state: 'unscheduled_downtime', reason: 'repair', note: 'Heater zone 3 open', expectedReturnAt: back, actorId: null });
     const m = await changeState(server.deps, { toolId: limited.tool.id, moduleId: limited.modules[1].id, state: 'scheduled_downtime', note: 'Shield swap', actorId: null });
     for (const status of ['reported', 'acknowledged', 'in_repair', 'waiting', 'fixed', 'closed', 'no_fault_found'] as const) await addTicket(down.tool.id, status);
@@ -125,14 +123,14 @@ describe('the tool page', () => {
     const { client, user } = await signedInClient(server.url, 'member');
     const primary = await createUser('technician', { name: 'Primary Person' });
     const backup = await createUser('technician', { name: 'Backup Person' });
-    const created = new Date(Date.now() - 20 * DAY);
+    const created = new Date(Date.now() - 20 * DAY_MS);
     const { tool } = await makeTool(server.deps.sequelize, { modules: ['PM1'], since: created, primaryEngineerId: primary.id, backupEngineerId: backup.id });
     // 20 days: 3 days down in all (1 unscheduled, 0.5 scheduled, 1.5 non-scheduled).
-    await changeState(server.deps, { toolId: tool.id, state: 'unscheduled_downtime', note: 'x', actorId: null, at: new Date(created.getTime() + 2 * DAY) });
-    await changeState(server.deps, { toolId: tool.id, state: 'productive', actorId: null, at: new Date(created.getTime() + 3 * DAY) });
-    await changeState(server.deps, { toolId: tool.id, state: 'scheduled_downtime', note: 'PM', actorId: null, at: new Date(created.getTime() + 7 * DAY) });
-    await changeState(server.deps, { toolId: tool.id, state: 'non_scheduled', note: 'Holiday', actorId: null, at: new Date(created.getTime() + 7.5 * DAY) });
-    await changeState(server.deps, { toolId: tool.id, state: 'standby', actorId: user.id, at: new Date(created.getTime() + 9 * DAY) });
+    await changeState(server.deps, { toolId: tool.id, state: 'unscheduled_downtime', note: 'x', actorId: null, at: new Date(created.getTime() + 2 * DAY_MS) });
+    await changeState(server.deps, { toolId: tool.id, state: 'productive', actorId: null, at: new Date(created.getTime() + 3 * DAY_MS) });
+    await changeState(server.deps, { toolId: tool.id, state: 'scheduled_downtime', note: 'PM', actorId: null, at: new Date(created.getTime() + 7 * DAY_MS) });
+    await changeState(server.deps, { toolId: tool.id, state: 'non_scheduled', note: 'Holiday', actorId: null, at: new Date(created.getTime() + 7.5 * DAY_MS) });
+    await changeState(server.deps, { toolId: tool.id, state: 'standby', actorId: user.id, at: new Date(created.getTime() + 9 * DAY_MS) });
 
     const r = await client.get(`/api/tools/by-code/${tool.code}`);
     expect(r.status).toBe(200);
@@ -147,7 +145,7 @@ describe('the tool page', () => {
     });
     expect(r.body.modules).toHaveLength(1);
     expect(r.body.availability30d.availability).toBeCloseTo(17 / 20, 4);
-    expect(r.body.availability30d.downMs).toBe(3 * DAY);
+    expect(r.body.availability30d.downMs).toBe(3 * DAY_MS);
 
     expect((await client.get('/api/tools/by-code/NO-SUCH-TOOL')).status).toBe(404);
     expect((await client.get('/api/tools/by-code/has%20space')).status).toBe(400);
@@ -155,10 +153,10 @@ describe('the tool page', () => {
 
   it('when the history is paged, then newest first, with from → to, pages that do not overlap, and a total', async () => {
     const { client } = await signedInClient(server.url, 'member');
-    const { tool, modules } = await makeTool(server.deps.sequelize, { modules: ['A'], since: new Date(Date.now() - 10 * HOUR) });
+    const { tool, modules } = await makeTool(server.deps.sequelize, { modules: ['A'], since: new Date(Date.now() - 10 * HOUR_MS) });
     const states = ['productive', 'standby', 'engineering', 'productive', 'standby'] as const;
     for (const [i, state] of states.entries()) {
-      await changeState(server.deps, { toolId: tool.id, state, note: state === 'engineering' ? 'Qual' : null, actorId: null, at: new Date(Date.now() - (9 - i) * HOUR) });
+      await changeState(server.deps, { toolId: tool.id, state, note: state === 'engineering' ? 'Qual' : null, actorId: null, at: new Date(Date.now() - (9 - i) * HOUR_MS) });
     }
     await changeState(server.deps, { toolId: tool.id, moduleId: modules[0].id, state: 'unscheduled_downtime', note: 'Arc', actorId: null, at: new Date(Date.now() - 30 * 60_000) });
 
@@ -181,9 +179,9 @@ describe('the tool page', () => {
 
 describe('availability over a period (computed in SQL by clipping intervals)', () => {
   it('when intervals straddle the period edges, then only their parts inside count', async () => {
-    const base = new Date(Date.now() - 40 * DAY);
+    const base = new Date(Date.now() - 40 * DAY_MS);
     const { tool } = await makeTool(server.deps.sequelize, { since: base });
-    const at = (days: number) => new Date(base.getTime() + days * DAY);
+    const at = (days: number) => new Date(base.getTime() + days * DAY_MS);
     // Days 0–2 standby, 2–3 unscheduled, 3–7 productive, 7–7.5 scheduled, 7.5–9 non-scheduled, 9– standby.
     await changeState(server.deps, { toolId: tool.id, state: 'unscheduled_downtime', note: 'x', actorId: null, at: at(2) });
     await changeState(server.deps, { toolId: tool.id, state: 'productive', actorId: null, at: at(3) });
@@ -193,15 +191,15 @@ describe('availability over a period (computed in SQL by clipping intervals)', (
 
     // Period days 1–8: standby 1, unscheduled 1, productive 4, scheduled 0.5, non-scheduled 0.5.
     const times = await stateTimeInPeriod(server.deps.sequelize, { from: at(1), to: at(8), toolIds: [tool.id] });
-    expect(times.get(tool.id)).toEqual({ productive: 4 * DAY, standby: 1 * DAY, engineering: 0, scheduled_downtime: 0.5 * DAY, unscheduled_downtime: 1 * DAY, non_scheduled: 0.5 * DAY });
+    expect(times.get(tool.id)).toEqual({ productive: 4 * DAY_MS, standby: 1 * DAY_MS, engineering: 0, scheduled_downtime: 0.5 * DAY_MS, unscheduled_downtime: 1 * DAY_MS, non_scheduled: 0.5 * DAY_MS });
 
     const figure = (await availabilityForPeriod(server.deps.sequelize, { from: at(1), to: at(8), toolIds: [tool.id] })).get(tool.id)!;
-    expect(figure.coveredMs).toBe(7 * DAY);
-    expect(figure.downMs).toBe(2 * DAY);
+    expect(figure.coveredMs).toBe(7 * DAY_MS);
+    expect(figure.downMs).toBe(2 * DAY_MS);
     expect(figure.availability).toBeCloseTo(5 / 7, 10);
 
     // Before the tool existed there is nothing to measure.
-    const before = (await availabilityForPeriod(server.deps.sequelize, { from: new Date(base.getTime() - 5 * DAY), to: base, toolIds: [tool.id] })).get(tool.id)!;
+    const before = (await availabilityForPeriod(server.deps.sequelize, { from: new Date(base.getTime() - 5 * DAY_MS), to: base, toolIds: [tool.id] })).get(tool.id)!;
     expect(before).toMatchObject({ coveredMs: 0, availability: null });
   });
 });

@@ -2,6 +2,7 @@ import type { Sequelize } from 'sequelize';
 import { Area, StateInterval, Tool, ToolModule } from '../../server/modules/facility/facility.model';
 import { openInitialState } from '../../server/modules/facility/state.service';
 import { unique } from '../support/factories';
+import type { Criticality } from '../../shared/priority';
 
 // Rows for the facility tests: each call makes its own area and tool with unique codes.
 
@@ -13,7 +14,7 @@ export async function makeArea(name?: string) {
 
 export async function makeTool(
   sequelize: Sequelize,
-  opts: { areaId?: number; name?: string; modules?: string[]; since?: Date; primaryEngineerId?: number | null; backupEngineerId?: number | null } = {},
+  opts: { areaId?: number; name?: string; criticality?: Criticality; modules?: string[]; since?: Date; primaryEngineerId?: number | null; backupEngineerId?: number | null } = {},
 ) {
   const areaId = opts.areaId ?? (await makeArea()).id;
   const since = opts.since ?? new Date(Date.now() - 60_000);
@@ -24,6 +25,7 @@ export async function makeTool(
         name: opts.name ?? unique('Test etcher'),
         code: uniqueCode('T'),
         description: null,
+        criticality: opts.criticality ?? 'normal',
         primaryEngineerId: opts.primaryEngineerId ?? null,
         backupEngineerId: opts.backupEngineerId ?? null,
         retiredAt: null,

@@ -1,8 +1,8 @@
 import sharp from 'sharp';
 import type { Sequelize } from 'sequelize';
-import { Area, Tool, ToolModule, StateInterval } from '../../server/modules/facility/facility.model';
-import { openInitialState } from '../../server/modules/facility/state.service';
-import { unique } from '../support/factories';
+import { StateInterval, type Tool, type ToolModule } from '../../server/modules/facility/facility.model';
+import { makeTool } from './facility-fixtures';
+import type { Criticality } from '../../shared/priority';
 import type { TestClient } from '../support/client';
 
 // Helpers for the ticket tests: tools made directly with the models (the facility API is
@@ -14,35 +14,13 @@ export interface ToolFixture {
   modules: ToolModule[];
 }
 
+/** A tool in a new area of its own, up since an hour ago (its tickets come later). */
 export async function createTool(
   sequelize: Sequelize,
-  opts: { criticality?: 'high' | 'normal' | 'low'; primaryEngineerId?: number | null; backupEngineerId?: number | null; modules?: string[]; name?: string } = {},
+  opts: { criticality?: Criticality; primaryEngineerId?: number | null; backupEngineerId?: number | null; modules?: string[]; name?: string } = {},
 ): Promise<ToolFixture> {
-  return sequelize.transaction(async (transaction) => {
-    const area = await Area.create({ name: unique('Bay'), code: unique('A').toUpperCase(), description: null, retiredAt: null }, { transaction });
-    const tool = await Tool.create(
-      {
-        areaId: area.id,
-        name: opts.name ?? unique('Test etcher'),
-        code: unique('T').toUpperCase(),
-        description: null,
-        criticality: opts.criticality ?? 'normal',
-        primaryEngineerId: opts.primaryEngineerId ?? null,
-        backupEngineerId: opts.backupEngineerId ?? null,
-        retiredAt: null,
-      },
-      { transaction },
-    );
-    const at = new Date(Date.now() - 60 * 60_000);
-    await openInitialState(tool.id, null, at, null, transaction);
-    const modules: ToolModule[] = [];
-    for (const [i, code] of (opts.modules ?? []).entries()) {
-      const m = await ToolModule.create({ toolId: tool.id, name: `Chamber ${code}`, code, sortOrder: i, retiredAt: null }, { transaction });
-      await openInitialState(tool.id, m.id, at, null, transaction);
-      modules.push(m);
-    }
-    return { tool, modules };
-  });
+  const { tool, modules } = await makeTool(sequelize, { ...opts, since: new Date(Date.now() - 60 * 60_000) });
+  return { tool, modules };
 }
 
 export async function openState(toolId: number, moduleId: number | null = null) {

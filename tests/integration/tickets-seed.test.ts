@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startTestServer, type TestServer } from '../support/server';
+import { DAY_MS, HOUR_MS } from '../support/time';
 import { createUser } from '../support/factories';
 import { StateInterval } from '../../server/modules/facility/facility.model';
 import { Ticket, TicketEvent } from '../../server/modules/tickets/ticket.model';
@@ -12,10 +13,8 @@ beforeAll(async () => {
 });
 afterAll(() => server.close());
 
-const HOUR = 3_600_000;
-const DAY = 24 * HOUR;
 const NOW = new Date('2025-06-01T12:00:00Z');
-const at = (days: number) => new Date(NOW.getTime() - days * DAY);
+const at = (days: number) => new Date(NOW.getTime() - days * DAY_MS);
 
 /** A tool with 120 days of invented history: two repaired failures, a Down now, a module down now. */
 async function toolWithHistory(engineerId: number) {
@@ -26,13 +25,13 @@ async function toolWithHistory(engineerId: number) {
   });
   const rows = [
     iv('standby', 'none', at(120), at(100)),
-    iv('unscheduled_downtime', 'repair', at(100), new Date(at(100).getTime() + 6 * HOUR)),
-    iv('unscheduled_downtime', 'waiting_parts', new Date(at(100).getTime() + 6 * HOUR), at(98)),
-    iv('unscheduled_downtime', 'repair', at(98), new Date(at(98).getTime() + 3 * HOUR)),
-    iv('productive', 'none', new Date(at(98).getTime() + 3 * HOUR), at(40)),
-    iv('unscheduled_downtime', 'repair', at(40), new Date(at(40).getTime() + 4 * HOUR)),
-    iv('standby', 'none', new Date(at(40).getTime() + 4 * HOUR), new Date(NOW.getTime() - 2 * HOUR)),
-    iv('unscheduled_downtime', 'repair', new Date(NOW.getTime() - 2 * HOUR), null),
+    iv('unscheduled_downtime', 'repair', at(100), new Date(at(100).getTime() + 6 * HOUR_MS)),
+    iv('unscheduled_downtime', 'waiting_parts', new Date(at(100).getTime() + 6 * HOUR_MS), at(98)),
+    iv('unscheduled_downtime', 'repair', at(98), new Date(at(98).getTime() + 3 * HOUR_MS)),
+    iv('productive', 'none', new Date(at(98).getTime() + 3 * HOUR_MS), at(40)),
+    iv('unscheduled_downtime', 'repair', at(40), new Date(at(40).getTime() + 4 * HOUR_MS)),
+    iv('standby', 'none', new Date(at(40).getTime() + 4 * HOUR_MS), new Date(NOW.getTime() - 2 * HOUR_MS)),
+    iv('unscheduled_downtime', 'repair', new Date(NOW.getTime() - 2 * HOUR_MS), null),
     iv('standby', 'none', at(120), at(3), modules[0].id),
     iv('unscheduled_downtime', 'repair', at(3), null, modules[0].id),
   ];
@@ -52,7 +51,7 @@ describe('demo tickets', () => {
     const tickets = await Ticket.findAll({ where: { toolId: tool.id }, order: [['id', 'ASC']] });
     const failures = tickets.filter((t) => t.fixKind === 'failure');
     expect(failures.map((t) => t.createdAt.toISOString())).toEqual([at(100).toISOString(), at(40).toISOString()]);
-    expect(failures.map((t) => t.fixedAt!.toISOString())).toEqual([new Date(at(98).getTime() + 3 * HOUR).toISOString(), new Date(at(40).getTime() + 4 * HOUR).toISOString()]);
+    expect(failures.map((t) => t.fixedAt!.toISOString())).toEqual([new Date(at(98).getTime() + 3 * HOUR_MS).toISOString(), new Date(at(40).getTime() + 4 * HOUR_MS).toISOString()]);
     for (const f of failures) {
       expect(f.status).toBe('closed');
       expect(f.failureMode).toBeTruthy();
@@ -77,7 +76,7 @@ describe('demo tickets', () => {
 
     const assists = tickets.filter((t) => t.fixKind === 'assist');
     for (const a of assists) {
-      expect(a.fixedAt!.getTime() - a.createdAt.getTime()).toBeLessThan(HOUR);
+      expect(a.fixedAt!.getTime() - a.createdAt.getTime()).toBeLessThan(HOUR_MS);
       expect(await StateInterval.count({ where: { ticketId: a.id } })).toBe(0);
     }
   });

@@ -1,22 +1,9 @@
-import fs from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { loadConfig, type Config } from '../../server/config';
+import { localSecrets } from '../../scripts/lib/local-secrets';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
-
-/** Reads .data/secrets.env (written by scripts/db.sh) so `npx vitest` works without npm test. */
-function localSecrets(): Record<string, string> {
-  const file = path.join(root, '.data/secrets.env');
-  if (!fs.existsSync(file)) return {};
-  return Object.fromEntries(
-    fs
-      .readFileSync(file, 'utf8')
-      .split('\n')
-      .filter((l) => l.includes('='))
-      .map((l) => [l.slice(0, l.indexOf('=')), l.slice(l.indexOf('=') + 1)]),
-  );
-}
 
 /** Configuration for tests: the separate test database, quiet logs, fast workers. */
 export function testConfig(overrides: Record<string, string> = {}): Config {

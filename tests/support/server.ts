@@ -1,3 +1,4 @@
+import net from 'node:net';
 import { startServer } from '../../server/server';
 import { MailCatcher } from '../../server/lib/mail-catcher';
 import { testConfig } from './env';
@@ -19,4 +20,19 @@ export async function startTestServer(overrides: Record<string, string> = {}, op
 /** Sends every due outbox row now (the shared test database may hold other tests' mail too). */
 export async function drainOutbox(server: { worker: { runOnce(): Promise<number> } }) {
   for (let i = 0; i < 100; i++) if ((await server.worker.runOnce()) === 0) return;
+}
+
+/**
+ * A free loopback port, so the server can be told its own public address: the browser's
+ * socket then upgrades to a WebSocket (the server accepts sockets from its own origin only).
+ */
+export function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const s = net.createServer();
+    s.once('error', reject);
+    s.listen(0, '127.0.0.1', () => {
+      const { port } = s.address() as net.AddressInfo;
+      s.close(() => resolve(port));
+    });
+  });
 }

@@ -12,9 +12,7 @@ export async function seedDemo(sequelize: Sequelize, now = new Date()): Promise<
   if ((await User.count()) > 0) return { seeded: false };
   await sequelize.transaction(async (transaction) => {
     const people = await seedUsers(transaction);
-    const facility = await seedFacility(transaction, people, now);
-    // Later seed steps (tickets) are added here, each given `people`, `facility` and `now`.
-    void facility;
+    await seedFacility(transaction, people, now);
     // Tickets last: they follow the state history the facility step wrote.
     await seedTickets(transaction, people, now);
   });

@@ -1,6 +1,6 @@
 import { Op, QueryTypes, type InferCreationAttributes, type Transaction } from 'sequelize';
 import { Tool, ToolModule, StateInterval } from '../../modules/facility/facility.model';
-import { Ticket, TicketEvent } from '../../modules/tickets/ticket.model';
+import { Ticket, TicketEvent, UNWORKED_TICKET_FIELDS } from '../../modules/tickets/ticket.model';
 import { User } from '../../modules/users/user.model';
 import { createRandom, type Random } from './random';
 import { computePriority, type Priority } from '../../../shared/priority';
@@ -136,24 +136,11 @@ export async function seedTickets(transaction: Transaction, people: SeedPeople, 
       wafersOwner: fields.wafers ? `${reporter.name.split(' ')[1] ?? reporter.name} group (invented)` : null,
       wafersRecoverable: fields.wafers ? rng.pick(['yes', 'unknown', 'no'] as const) : null,
       status: 'reported',
-      waitReason: null,
       priority,
       priorityOverridden: false,
       reporterId: reporter.id,
       assigneeId: engineer.id,
-      mergedIntoId: null,
-      fixKind: null,
-      failureMode: null,
-      cause: null,
-      workDone: null,
-      partsUsed: null,
-      handsOnMinutes: null,
-      wafersRecovered: null,
-      wafersReturned: null,
-      acknowledgedAt: null,
-      fixedAt: null,
-      closedAt: null,
-      resolvedAt: null,
+      ...UNWORKED_TICKET_FIELDS,
       version: 0,
       createdAt: at,
       updatedAt: at,

@@ -2,7 +2,8 @@
 // spreadsheet programs read the names as UTF-8. Text that a spreadsheet would take for a
 // formula (=, +, -, @ at the start) gets a leading apostrophe (OWASP's CSV-injection advice).
 
-import { STATE_HOURS_KEYS, type AnalyticsReport, type StateHours } from '../../../shared/schemas/analytics';
+import type { AnalyticsReport, StateHours } from '../../../shared/schemas/analytics';
+import { E10_STATE_HOURS_KEYS } from '../../../shared/reliability';
 
 type Cell = string | number | boolean | null | undefined;
 
@@ -38,7 +39,7 @@ export function toolsCsv(report: AnalyticsReport): string {
     'Area',
     'Availability %',
     'Uptime h',
-    ...STATE_HOURS_KEYS.map((k) => STATE_COLUMN[k]),
+    ...E10_STATE_HOURS_KEYS.map((k) => STATE_COLUMN[k]),
     'Failures',
     'Assists',
     'MTBF over uptime h',
@@ -56,7 +57,7 @@ export function toolsCsv(report: AnalyticsReport): string {
     t.areaName,
     round(t.figures.availabilityPct),
     round(t.figures.uptimeHours),
-    ...STATE_HOURS_KEYS.map((k) => round(t.figures.hours[k])),
+    ...E10_STATE_HOURS_KEYS.map((k) => round(t.figures.hours[k])),
     t.figures.failures,
     t.figures.assists,
     round(t.figures.mtbf.point),
@@ -72,13 +73,13 @@ export function toolsCsv(report: AnalyticsReport): string {
 }
 
 export function monthsCsv(report: AnalyticsReport): string {
-  const header = ['Month (UTC)', 'From', 'To', 'Partial month', ...STATE_HOURS_KEYS.map((k) => STATE_COLUMN[k]), 'Availability %', 'Failures'];
+  const header = ['Month (UTC)', 'From', 'To', 'Partial month', ...E10_STATE_HOURS_KEYS.map((k) => STATE_COLUMN[k]), 'Availability %', 'Failures'];
   const rows = report.months.map((m) => [
     m.month.slice(0, 7),
     m.from,
     m.to,
     m.partial,
-    ...STATE_HOURS_KEYS.map((k) => round(m.hours[k])),
+    ...E10_STATE_HOURS_KEYS.map((k) => round(m.hours[k])),
     round(m.availabilityPct),
     m.failures,
   ]);

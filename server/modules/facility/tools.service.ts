@@ -25,7 +25,6 @@ import type {
   engineerListQuery,
 } from '../../../shared/schemas/facility';
 import type { z } from 'zod';
-import type { E10State, StateReason } from '../../../shared/equipment-state';
 
 type AdminListQuery = z.infer<typeof adminListQuery>;
 type HistoryQuery = z.infer<typeof historyQuery>;
@@ -309,24 +308,16 @@ export async function getToolDetail(deps: AppDeps, code: string, viewerId: numbe
   };
 }
 
-interface HistoryRow {
-  id: number;
-  moduleId: number | null;
-  moduleName: string | null;
-  state: E10State;
-  previousState: E10State | null;
-  reason: StateReason;
-  note: string | null;
-  restriction: string | null;
+/** A state log entry as SQL returns it, before dates become ISO strings and the setter a reference. */
+type HistoryRow = Omit<HistoryEntry, 'startedAt' | 'endedAt' | 'expectedReturnAt' | 'confirmed' | 'setBy'> & {
   startedAt: Date;
   endedAt: Date | null;
   expectedReturnAt: Date | null;
-  ticketId: number | null;
-  source: string;
+  /** MariaDB's BOOLEAN is a TINYINT. */
   confirmed: number;
   setById: number | null;
   setByName: string | null;
-}
+};
 
 /**
  * The state log of a tool and its modules, newest first, a page at a time. Each entry names

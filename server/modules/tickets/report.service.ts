@@ -1,5 +1,5 @@
 import { QueryTypes, type Transaction } from 'sequelize';
-import { Ticket, Photo } from './ticket.model';
+import { Ticket, Photo, UNWORKED_TICKET_FIELDS } from './ticket.model';
 import { Tool, ToolModule } from '../facility/facility.model';
 import { User } from '../users/user.model';
 import { AppError, badRequest, forbidden } from '../../lib/errors';
@@ -116,20 +116,7 @@ export async function createReport(deps: AppDeps, user: AuthUser, input: ReportD
           priority: priority.priority,
           reporterId: user.id,
           assigneeId: assignee?.id ?? null,
-          mergedIntoId: null,
-          waitReason: null,
-          fixKind: null,
-          failureMode: null,
-          cause: null,
-          workDone: null,
-          partsUsed: null,
-          handsOnMinutes: null,
-          wafersRecovered: null,
-          wafersReturned: null,
-          acknowledgedAt: null,
-          fixedAt: null,
-          closedAt: null,
-          resolvedAt: null,
+          ...UNWORKED_TICKET_FIELDS,
         },
         { transaction },
       );

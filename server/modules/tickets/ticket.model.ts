@@ -42,6 +42,27 @@ export class Ticket extends Model<InferAttributes<Ticket>, InferCreationAttribut
   declare updatedAt: CreationOptional<Date>;
 }
 
+/**
+ * The fields a ticket fills in only as people work on it (waiting, merging, the repair record
+ * and its milestones): every new ticket starts with all of them empty.
+ */
+export const UNWORKED_TICKET_FIELDS = {
+  waitReason: null,
+  mergedIntoId: null,
+  fixKind: null,
+  failureMode: null,
+  cause: null,
+  workDone: null,
+  partsUsed: null,
+  handsOnMinutes: null,
+  wafersRecovered: null,
+  wafersReturned: null,
+  acknowledgedAt: null,
+  fixedAt: null,
+  closedAt: null,
+  resolvedAt: null,
+} as const satisfies Partial<InferCreationAttributes<Ticket>>;
+
 /** Append-only timeline entry: who did what, when, and before -> after in `data`. */
 export class TicketEvent extends Model<InferAttributes<TicketEvent>, InferCreationAttributes<TicketEvent>> {
   declare id: CreationOptional<number>;

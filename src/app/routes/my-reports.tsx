@@ -6,6 +6,7 @@ import { Button, buttonClasses } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { PageSpinner } from '@/components/ui/spinner';
 import { useTickets } from '@/features/tickets/api/get-tickets';
+import { TicketPager } from '@/features/tickets/components/ticket-pager';
 import { TicketTable } from '@/features/tickets/components/ticket-table';
 
 const PAGE = 20;
@@ -37,21 +38,7 @@ export function MyReportsPage() {
       {list.data && list.data.items.length > 0 && (
         <Card flush>
           <TicketTable items={list.data.items} caption="My reports, newest first" />
-          {total > PAGE && (
-            <div className="flex items-center justify-between gap-2 border-t border-line px-4 py-2 text-sm text-muted">
-              <span>
-                {offset + 1}–{Math.min(offset + PAGE, total)} of {total}
-              </span>
-              <span className="flex gap-2">
-                <Button variant="secondary" disabled={offset === 0} onClick={() => setOffset(Math.max(0, offset - PAGE))}>
-                  Newer
-                </Button>
-                <Button variant="secondary" disabled={offset + PAGE >= total} onClick={() => setOffset(offset + PAGE)}>
-                  Older
-                </Button>
-              </span>
-            </div>
-          )}
+          <TicketPager offset={offset} total={total} pageSize={PAGE} onOffsetChange={setOffset} />
         </Card>
       )}
     </>

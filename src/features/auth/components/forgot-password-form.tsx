@@ -3,7 +3,7 @@ import { z } from 'zod';
 import { passwordResetRequestSchema } from '@shared/schemas/password';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
-import { TextField } from '@/components/ui/text-field';
+import { EmailField } from '@/components/ui/email-field';
 import { isApiError } from '@/lib/api-client';
 import { useRequestPasswordReset } from '@/features/auth/api/request-password-reset';
 
@@ -89,16 +89,10 @@ export function ForgotPasswordForm({ after }: ForgotPasswordFormProps) {
         </Alert>
       )}
 
-      <TextField
+      <EmailField
         ref={emailInput}
-        label="E-mail address"
         name="email"
-        type="email"
-        inputMode="email"
         autoComplete="username"
-        autoCapitalize="none"
-        autoCorrect="off"
-        spellCheck={false}
         required
         value={email}
         errors={emailErrors}

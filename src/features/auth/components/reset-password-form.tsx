@@ -4,14 +4,12 @@ import { z } from 'zod';
 import { newPasswordSchema, passwordResetParams, PASSWORD_MIN, PASSWORD_RECOMMENDED } from '@shared/schemas/password';
 import { Alert } from '@/components/ui/alert';
 import { Button, buttonClasses } from '@/components/ui/button';
-import { TextField } from '@/components/ui/text-field';
+import { PasswordField } from '@/components/ui/password-field';
 import { isApiError } from '@/lib/api-client';
+import { useFieldErrors, type FieldErrors } from '@/lib/use-field-errors';
 import { useResetPassword } from '@/features/auth/api/reset-password';
 
-interface FieldErrors {
-  password?: string[];
-  repeat?: string[];
-}
+type FieldName = 'password' | 'repeat';
 
 /** A link that is malformed, expired or already used; a new one is the only way on. */
 function isDeadLink(error: unknown): boolean {
@@ -49,7 +47,7 @@ export function ResetPasswordForm({ token }: { token: string }) {
   const [password, setPassword] = useState('');
   const [repeat, setRepeat] = useState('');
   const [show, setShow] = useState(false);
-  const [fieldErrors, setFieldErrors] = useState<FieldErrors>({});
+  const { fieldErrors, setFieldErrors, clearFieldError } = useFieldErrors<FieldName>();
   const passwordInput = useRef<HTMLInputElement>(null);
   const repeatInput = useRef<HTMLInputElement>(null);
 
@@ -72,7 +70,7 @@ export function ResetPasswordForm({ token }: { token: string }) {
 
   const onSubmit = (event: FormEvent<HTMLFormElement>) => {
     event.preventDefault();
-    const errors: FieldErrors = {};
+    const errors: FieldErrors<FieldName> = {};
     const parsed = newPasswordSchema.safeParse(password);
     if (!parsed.success) errors.password = z.flattenError(parsed.error).formErrors;
     else if (repeat !== password) errors.repeat = ['The two entries differ. Type the same password twice.'];
@@ -107,11 +105,13 @@ export function ResetPasswordForm({ token }: { token: string }) {
         </Alert>
       )}
 
-      <TextField
+      <PasswordField
         ref={passwordInput}
         label="New password"
         name="password"
-        type={show ? 'text' : 'password'}
+        shown={show}
+        onShownChange={setShow}
+        toggleTarget="passwords"
         autoComplete="new-password"
         required
         hint={`At least ${PASSWORD_MIN} characters, ${PASSWORD_RECOMMENDED} or more is better. A few unrelated words are strong and easy to remember.`}
@@ -119,27 +119,22 @@ export function ResetPasswordForm({ token }: { token: string }) {
         errors={fieldErrors.password}
         onChange={(event) => {
           setPassword(event.target.value);
-          if (fieldErrors.password) setFieldErrors((errors) => ({ ...errors, password: undefined }));
+          clearFieldError('password');
         }}
-        trailing={
-          <Button variant="secondary" aria-label={show ? 'Hide passwords' : 'Show passwords'} onClick={() => setShow((shown) => !shown)} className="w-20">
-            {show ? 'Hide' : 'Show'}
-          </Button>
-        }
       />
 
-      <TextField
+      <PasswordField
         ref={repeatInput}
         label="Repeat the password"
         name="repeat"
-        type={show ? 'text' : 'password'}
+        shown={show}
         autoComplete="new-password"
         required
         value={repeat}
         errors={fieldErrors.repeat}
         onChange={(event) => {
           setRepeat(event.target.value);
-          if (fieldErrors.repeat) setFieldErrors((errors) => ({ ...errors, repeat: undefined }));
+          clearFieldError('repeat');
         }}
       />
 

@@ -3,13 +3,14 @@ import { z } from 'zod';
 import { signInSchema, type SignInInput } from '@shared/schemas/session';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
-import { TextField } from '@/components/ui/text-field';
+import { EmailField } from '@/components/ui/email-field';
+import { PasswordField } from '@/components/ui/password-field';
 import { isApiError } from '@/lib/api-client';
+import { useFieldErrors, type FieldErrors } from '@/lib/use-field-errors';
 import type { Session } from '@/features/auth/api/get-session';
 import { useSignIn } from '@/features/auth/api/sign-in';
 
 type FieldName = keyof SignInInput;
-type FieldErrors = Partial<Record<FieldName, string[]>>;
 
 export interface SignInFormProps {
   onSuccess: (session: Session) => void;
@@ -25,9 +26,9 @@ function describeFailure(error: unknown): string {
   return error.message;
 }
 
-function pickFields(fields: Record<string, string[]> | undefined): FieldErrors {
+function pickFields(fields: Record<string, string[]> | undefined): FieldErrors<FieldName> {
   if (!fields) return {};
-  const picked: FieldErrors = {};
+  const picked: FieldErrors<FieldName> = {};
   if (fields.email?.length) picked.email = fields.email;
   if (fields.password?.length) picked.password = fields.password;
   return picked;
@@ -38,17 +39,13 @@ export function SignInForm({ onSuccess }: SignInFormProps) {
   const [email, setEmail] = useState('');
   const [password, setPassword] = useState('');
   const [showPassword, setShowPassword] = useState(false);
-  const [fieldErrors, setFieldErrors] = useState<FieldErrors>({});
+  const { fieldErrors, setFieldErrors, clearFieldError } = useFieldErrors<FieldName>();
   const emailInput = useRef<HTMLInputElement>(null);
   const passwordInput = useRef<HTMLInputElement>(null);
 
-  const focusFirstInvalid = (errors: FieldErrors) => {
+  const focusFirstInvalid = (errors: FieldErrors<FieldName>) => {
     if (errors.email) emailInput.current?.focus();
     else if (errors.password) passwordInput.current?.focus();
-  };
-
-  const clearFieldError = (name: FieldName) => {
-    if (fieldErrors[name]) setFieldErrors((errors) => ({ ...errors, [name]: undefined }));
   };
 
   const onSubmit = (event: FormEvent<HTMLFormElement>) => {
@@ -56,7 +53,7 @@ export function SignInForm({ onSuccess }: SignInFormProps) {
     // Phones' autofill often leaves a trailing space after the address.
     const parsed = signInSchema.safeParse({ email: email.trim(), password });
     if (!parsed.success) {
-      const errors = z.flattenError(parsed.error).fieldErrors as FieldErrors;
+      const errors = z.flattenError(parsed.error).fieldErrors as FieldErrors<FieldName>;
       setFieldErrors(errors);
       focusFirstInvalid(errors);
       return;
@@ -85,16 +82,10 @@ export function SignInForm({ onSuccess }: SignInFormProps) {
         </Alert>
       )}
 
-      <TextField
+      <EmailField
         ref={emailInput}
-        label="E-mail address"
         name="email"
-        type="email"
-        inputMode="email"
         autoComplete="username"
-        autoCapitalize="none"
-        autoCorrect="off"
-        spellCheck={false}
         required
         value={email}
         errors={fieldErrors.email}
@@ -104,11 +95,12 @@ export function SignInForm({ onSuccess }: SignInFormProps) {
         }}
       />
 
-      <TextField
+      <PasswordField
         ref={passwordInput}
         label="Password"
         name="password"
-        type={showPassword ? 'text' : 'password'}
+        shown={showPassword}
+        onShownChange={setShowPassword}
         autoComplete="current-password"
         required
         value={password}
@@ -117,16 +109,6 @@ export function SignInForm({ onSuccess }: SignInFormProps) {
           setPassword(event.target.value);
           clearFieldError('password');
         }}
-        trailing={
-          <Button
-            variant="secondary"
-            aria-label={showPassword ? 'Hide password' : 'Show password'}
-            onClick={() => setShowPassword((shown) => !shown)}
-            className="w-20"
-          >
-            {showPassword ? 'Hide' : 'Show'}
-          </Button>
-        }
       />
 
       <Button type="submit" size="lg" busy={signIn.isPending} className="w-full">

@@ -68,6 +68,18 @@ function ToolForm({ tool, onDone, onCancel }: ToolFormProps) {
     }
   };
 
+  // The same people can be primary or backup engineer.
+  const engineerChoices = (
+    <>
+      <option value="">Nobody yet</option>
+      {engineers.data?.items.map((u) => (
+        <option key={u.id} value={u.id}>
+          {u.name}
+        </option>
+      ))}
+    </>
+  );
+
   return (
     <form onSubmit={submit} noValidate className="grid gap-4 sm:grid-cols-2" aria-label={tool ? `Edit ${tool.name}` : 'New tool'}>
       <TextField label="Name" required value={name} onChange={(e) => setName(e.target.value)} errors={errors.name} maxLength={120} hint="A plain description, e.g. “ICP etcher 2”." />
@@ -88,20 +100,10 @@ function ToolForm({ tool, onDone, onCancel }: ToolFormProps) {
         ))}
       </FieldSelect>
       <FieldSelect label="Primary engineer" value={primary} onChange={(e) => setPrimary(e.target.value)} errors={errors.primaryEngineerId}>
-        <option value="">Nobody yet</option>
-        {engineers.data?.items.map((u) => (
-          <option key={u.id} value={u.id}>
-            {u.name}
-          </option>
-        ))}
+        {engineerChoices}
       </FieldSelect>
       <FieldSelect label="Backup engineer" value={backup} onChange={(e) => setBackup(e.target.value)} errors={errors.backupEngineerId}>
-        <option value="">Nobody yet</option>
-        {engineers.data?.items.map((u) => (
-          <option key={u.id} value={u.id}>
-            {u.name}
-          </option>
-        ))}
+        {engineerChoices}
       </FieldSelect>
       <TextField label="Description (optional)" value={description} onChange={(e) => setDescription(e.target.value)} errors={errors.description} className="sm:col-span-2" />
 

@@ -30,16 +30,8 @@ function StateWord({ state, reason }: { state: E10State; reason?: StateReason })
   );
 }
 
-function Facts({ data }: { data: Data }) {
-  const rows: [string, ReactNode][] = [];
-  if (data.category) rows.push(['Category', CATEGORY_LABELS[data.category as TicketCategory] ?? data.category]);
-  if (data.impact) rows.push(['Impact', IMPACT_LABELS[data.impact as Impact]]);
-  if (data.alarmText) rows.push(['Alarm text', <code key="a" className="rounded bg-sunken px-1.5 py-0.5 text-sm break-all">{data.alarmText}</code>]);
-  if (Array.isArray(data.hazards) && data.hazards.length) rows.push(['Hazard', data.hazards.map((h: Hazard) => HAZARD_LABELS[h]).join(', ')]);
-  if (data.wafersCount > 0) {
-    const extra = [data.wafersOwner, data.wafersRecoverable ? WAFER_RECOVERABLE_LABELS[data.wafersRecoverable as WaferRecoverable] : null].filter(Boolean).join(' · ');
-    rows.push(['Wafers left inside', `${data.wafersCount}${extra ? ` (${extra})` : ''}`]);
-  }
+/** Label–value pairs under an event; nothing when there are none. */
+function FactList({ rows }: { rows: [string, ReactNode][] }) {
   if (rows.length === 0) return null;
   return (
     <dl className="mt-2 grid grid-cols-[auto_1fr] gap-x-3 gap-y-1 text-sm">
@@ -53,6 +45,19 @@ function Facts({ data }: { data: Data }) {
   );
 }
 
+function Facts({ data }: { data: Data }) {
+  const rows: [string, ReactNode][] = [];
+  if (data.category) rows.push(['Category', CATEGORY_LABELS[data.category as TicketCategory] ?? data.category]);
+  if (data.impact) rows.push(['Impact', IMPACT_LABELS[data.impact as Impact]]);
+  if (data.alarmText) rows.push(['Alarm text', <code key="a" className="rounded bg-sunken px-1.5 py-0.5 text-sm break-all">{data.alarmText}</code>]);
+  if (Array.isArray(data.hazards) && data.hazards.length) rows.push(['Hazard', data.hazards.map((h: Hazard) => HAZARD_LABELS[h]).join(', ')]);
+  if (data.wafersCount > 0) {
+    const extra = [data.wafersOwner, data.wafersRecoverable ? WAFER_RECOVERABLE_LABELS[data.wafersRecoverable as WaferRecoverable] : null].filter(Boolean).join(' · ');
+    rows.push(['Wafers left inside', `${data.wafersCount}${extra ? ` (${extra})` : ''}`]);
+  }
+  return <FactList rows={rows} />;
+}
+
 function FixFacts({ data }: { data: Data }) {
   const rows: [string, ReactNode][] = [];
   if (data.fixKind) rows.push(['Recorded as', FIX_KIND_LABELS[data.fixKind as FixKind]]);
@@ -62,17 +67,7 @@ function FixFacts({ data }: { data: Data }) {
   if (data.handsOnMinutes != null) rows.push(['Hands-on time', `${data.handsOnMinutes} min`]);
   if (data.wafersRecovered != null) rows.push(['Wafers recovered', String(data.wafersRecovered)]);
   if (data.wafersReturned != null) rows.push(['Wafers returned', String(data.wafersReturned)]);
-  if (rows.length === 0) return null;
-  return (
-    <dl className="mt-2 grid grid-cols-[auto_1fr] gap-x-3 gap-y-1 text-sm">
-      {rows.map(([k, v]) => (
-        <div key={k} className="contents">
-          <dt className="text-muted">{k}</dt>
-          <dd className="text-ink">{v}</dd>
-        </div>
-      ))}
-    </dl>
-  );
+  return <FactList rows={rows} />;
 }
 
 function headline(e: TicketEventView, modules: ModuleName[]): ReactNode {

@@ -5,6 +5,7 @@ import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
 import { Spinner } from '@/components/ui/spinner';
 import { useTickets } from '@/features/tickets/api/get-tickets';
+import { TicketPager } from '@/features/tickets/components/ticket-pager';
 import { TicketTable } from '@/features/tickets/components/ticket-table';
 
 const PAGE = 10;
@@ -53,21 +54,7 @@ export function ToolTickets({ toolId, toolCode }: { toolId: number; toolCode?: s
       {list.data && list.data.items.length > 0 && (
         <>
           <TicketTable items={list.data.items} caption="Tickets on this tool" showTool={false} showTargets={status === 'open'} />
-          {total > PAGE && (
-            <div className="flex items-center justify-between gap-2 border-t border-line px-4 py-2 text-sm text-muted">
-              <span>
-                {offset + 1}–{Math.min(offset + PAGE, total)} of {total}
-              </span>
-              <span className="flex gap-2">
-                <Button variant="secondary" disabled={offset === 0} onClick={() => setOffset(Math.max(0, offset - PAGE))}>
-                  Newer
-                </Button>
-                <Button variant="secondary" disabled={offset + PAGE >= total} onClick={() => setOffset(offset + PAGE)}>
-                  Older
-                </Button>
-              </span>
-            </div>
-          )}
+          <TicketPager offset={offset} total={total} pageSize={PAGE} onOffsetChange={setOffset} />
         </>
       )}
     </Card>

@@ -4,14 +4,16 @@ import type { Role } from '@shared/roles';
 import { inviteUserSchema, type InviteUserInput } from '@shared/schemas/users';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
+import { EmailField } from '@/components/ui/email-field';
 import { TextField } from '@/components/ui/text-field';
 import { isApiError } from '@/lib/api-client';
+import { useFieldErrors, type FieldErrors } from '@/lib/use-field-errors';
 import type { AdminUser } from '@/features/users/api/list-users';
 import { useInviteUser } from '@/features/users/api/invite-user';
 import { CheckboxField, SelectField } from '@/features/users/components/form-controls';
 import { isRole, ON_CALL_HINT, ROLE_HINT, ROLE_OPTIONS } from '@/features/users/components/role-options';
 
-type FieldErrors = Partial<Record<'name' | 'email', string[]>>;
+type FieldName = 'name' | 'email';
 
 function describeFailure(error: unknown): string {
   if (!isApiError(error)) return 'The invitation could not be sent. Try again.';
@@ -33,11 +35,11 @@ export function InviteUserForm({ onInvited, onCancel }: InviteUserFormProps) {
   const [email, setEmail] = useState('');
   const [role, setRole] = useState<Role>('member');
   const [onCall, setOnCall] = useState(false);
-  const [fieldErrors, setFieldErrors] = useState<FieldErrors>({});
+  const { fieldErrors, setFieldErrors, clearFieldError } = useFieldErrors<FieldName>();
   const nameInput = useRef<HTMLInputElement>(null);
   const emailInput = useRef<HTMLInputElement>(null);
 
-  const focusFirstInvalid = (errors: FieldErrors) => {
+  const focusFirstInvalid = (errors: FieldErrors<FieldName>) => {
     if (errors.name) nameInput.current?.focus();
     else if (errors.email) emailInput.current?.focus();
   };
@@ -46,7 +48,7 @@ export function InviteUserForm({ onInvited, onCancel }: InviteUserFormProps) {
     event.preventDefault();
     const parsed = inviteUserSchema.safeParse({ name, email: email.trim(), role, onCall });
     if (!parsed.success) {
-      const errors = z.flattenError(parsed.error).fieldErrors as FieldErrors;
+      const errors = z.flattenError(parsed.error).fieldErrors as FieldErrors<FieldName>;
       setFieldErrors(errors);
       focusFirstInvalid(errors);
       return;
@@ -57,7 +59,7 @@ export function InviteUserForm({ onInvited, onCancel }: InviteUserFormProps) {
       onSuccess: (user) => onInvited(user),
       onError: (error) => {
         if (!isApiError(error)) return;
-        const errors: FieldErrors =
+        const errors: FieldErrors<FieldName> =
           error.code === 'already_exists'
             ? { email: ['This address already has an account.'] }
             : { name: error.fields?.name, email: error.fields?.email };
@@ -86,26 +88,20 @@ export function InviteUserForm({ onInvited, onCancel }: InviteUserFormProps) {
           errors={fieldErrors.name}
           onChange={(event) => {
             setName(event.target.value);
-            if (fieldErrors.name) setFieldErrors((errors) => ({ ...errors, name: undefined }));
+            clearFieldError('name');
           }}
         />
-        <TextField
+        <EmailField
           ref={emailInput}
-          label="E-mail address"
           name="email"
-          type="email"
-          inputMode="email"
           autoComplete="off"
-          autoCapitalize="none"
-          autoCorrect="off"
-          spellCheck={false}
           required
           hint="The invitation goes here; its link works for 7 days."
           value={email}
           errors={fieldErrors.email}
           onChange={(event) => {
             setEmail(event.target.value);
-            if (fieldErrors.email) setFieldErrors((errors) => ({ ...errors, email: undefined }));
+            clearFieldError('email');
           }}
         />
       </div>
