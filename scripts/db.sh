@@ -90,6 +90,15 @@ case "${1:-ensure}" in
   ensure) start_db; create_databases ;;
   start) start_db ;;
   stop) stop_db ;;
-  status) if ping_db; then echo "running on 127.0.0.1:$PORT"; else echo "stopped"; exit 1; fi ;;
+  status)
+    if ping_db; then
+      # Ask the server itself: DB_PORT in the environment may not be the port it was started on.
+      actual=$(mariadb --no-defaults -S "$SOCK" -u"$(id -un)" -N -B -e 'SELECT @@port')
+      echo "running on 127.0.0.1:$actual"
+    else
+      echo "stopped"
+      exit 1
+    fi
+    ;;
   *) echo "usage: $0 ensure|start|stop|status" >&2; exit 2 ;;
 esac

@@ -4,9 +4,11 @@
 set -euo pipefail
 source "$(dirname "$0")/lib/bootstrap.sh"
 ensure_node_modules
+export PORT="${PORT:-3000}" SMTP_PORT="${SMTP_PORT:-2525}"
+node --import tsx scripts/check-ports.ts PORT="$PORT" SMTP_PORT="$SMTP_PORT"
 load_local_env
 export DB_NAME=faultline NODE_ENV=development DEMO=true MAIL_CATCHER=true
-export PORT="${PORT:-3000}" SMTP_PORT="${SMTP_PORT:-2525}" PUBLIC_URL="${PUBLIC_URL:-http://localhost:5173}"
+export PUBLIC_URL="${PUBLIC_URL:-http://localhost:5173}"
 node --import tsx scripts/migrate.ts
 node --import tsx scripts/seed.ts
 node_modules/.bin/tsx watch --clear-screen=false server/index.ts &

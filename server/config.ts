@@ -12,6 +12,8 @@ const configSchema = z.object({
   HOST: z.string().default('127.0.0.1'),
   PUBLIC_URL: z.url().optional(),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+  /** When set, the server writes its pid here once it listens (npm start waits for it). */
+  READY_FILE: z.string().optional(),
 
   DB_HOST: z.string().default('127.0.0.1'),
   DB_PORT: z.coerce.number().int().default(3307),

@@ -50,7 +50,22 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
   const worker = new OutboxWorker(createTransport(config), config, log, { pollMs: config.OUTBOX_POLL_MS, baseBackoffMs: config.OUTBOX_BASE_BACKOFF_MS });
   if (opts.outboxWorker !== false) worker.start();
 
-  await new Promise<void>((resolve) => server.listen(config.PORT, config.HOST, () => resolve()));
+  try {
+    await new Promise<void>((resolve, reject) => {
+      server.once('error', reject);
+      server.listen(config.PORT, config.HOST, () => {
+        server.off('error', reject);
+        resolve();
+      });
+    });
+  } catch (error) {
+    // The port is taken (or not ours to use): undo what was started, and let the caller say so.
+    await worker.stop();
+    await new Promise<void>((resolve) => io.close(() => resolve()));
+    if (catcher) await catcher.stop();
+    await releaseSequelize(sequelize);
+    throw error;
+  }
   const address = server.address();
   const port = typeof address === 'object' && address ? address.port : config.PORT;
 

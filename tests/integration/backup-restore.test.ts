@@ -38,4 +38,32 @@ describe('backup and restore', () => {
     expect(rows).toEqual([{ name: 'Zoë Überprüfung' }]);
     expect(Number(migrations[0].n)).toBeGreaterThanOrEqual(3);
   });
+
+  it('when a backup is written to the default folder, then the file is 600 and its folder 700 (it holds password hashes and sessions)', () => {
+    const dir = path.join(projectRoot, 'test-results', `backups-${process.pid}`, 'backups');
+    fs.rmSync(path.dirname(dir), { recursive: true, force: true });
+    const written = execFileSync('bash', [path.join(projectRoot, 'scripts/db-backup.sh'), 'faultline_test'], { env: { ...process.env, BACKUP_DIR: dir } })
+      .toString()
+      .trim();
+    try {
+      const target = path.resolve(projectRoot, written);
+      expect(path.dirname(target)).toBe(dir);
+      expect(fs.statSync(target).mode & 0o777).toBe(0o600);
+      expect(fs.statSync(dir).mode & 0o777).toBe(0o700);
+    } finally {
+      fs.rmSync(path.dirname(dir), { recursive: true, force: true });
+    }
+  });
+
+  it('when an explicit file is given, then it is 600 and no default backups folder is created', () => {
+    const dir = path.join(projectRoot, 'test-results', `unused-backups-${process.pid}`);
+    const explicit = path.join(projectRoot, 'test-results', `explicit-${process.pid}.sql.gz`);
+    execFileSync('bash', [path.join(projectRoot, 'scripts/db-backup.sh'), 'faultline_test', explicit], { env: { ...process.env, BACKUP_DIR: dir } });
+    try {
+      expect(fs.statSync(explicit).mode & 0o777).toBe(0o600);
+      expect(fs.existsSync(dir)).toBe(false);
+    } finally {
+      fs.rmSync(explicit, { force: true });
+    }
+  });
 });

@@ -4,13 +4,15 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startTestServer, type TestServer } from '../support/server';
 import { signedInClient, unique } from '../support/factories';
 import { projectRoot } from '../support/env';
-import { startDatabase, stopDatabase } from '../support/database';
+import { startScratchDatabase, type ScratchDatabase } from '../support/database';
 import { Ticket, TicketEvent } from '../../server/modules/tickets/ticket.model';
-import { createTool, jpegBytes, multipartReport, reportBody, drainOutbox } from './tickets-fixtures';
+import { createTool, jpegBytes, multipartReport, reportBody } from './tickets-fixtures';
 
 // A report sent while MariaDB is away must fail clearly (503), keep nothing half-written and
 // leave no photo behind, so the client can keep its draft and send it again later.
 
+// The outage happens on a throw-away MariaDB of this file's own (tests/support/database.ts).
+let db: ScratchDatabase;
 let server: TestServer;
 let dir: string;
 const TRIGGER = 'test_slow_ticket_event';
@@ -29,15 +31,12 @@ const filesInDir = () => (fs.existsSync(dir) ? fs.readdirSync(dir) : []);
 
 beforeAll(async () => {
   dir = path.join(projectRoot, 'test-results', unique('uploads-db-down'));
-  server = await startTestServer({ UPLOAD_DIR: dir });
+  db = await startScratchDatabase();
+  server = await startTestServer({ ...db.overrides, UPLOAD_DIR: dir });
 });
 afterAll(async () => {
-  // Never leave the database down, or a test trigger in it, for the files that follow.
-  startDatabase();
-  await dbBack();
-  await server.deps.sequelize.query(`DROP TRIGGER IF EXISTS ${TRIGGER}`).catch(() => undefined);
-  await drainOutbox(server);
-  await server.close();
+  await server?.close();
+  db?.destroy();
   fs.rmSync(dir, { recursive: true, force: true });
 });
 
@@ -51,14 +50,14 @@ describe('reporting while the database is down', () => {
       { bytes: await jpegBytes(200, 200), name: 'b.jpg' },
     ];
 
-    stopDatabase();
+    db.stop();
     const r = await client.post('/api/tickets', multipartReport(reportBody(tool.id, { description }), photos));
     expect(r.status).toBe(503);
     expect(r.body.error.code).toBe('db_unavailable');
     expect(r.body.error.message).toMatch(/Nothing was saved/);
     expect(filesInDir()).toEqual([]);
 
-    startDatabase();
+    await db.start();
     expect(await dbBack()).toBe(true);
     expect(await Ticket.count({ where: { toolId: tool.id } })).toBe(0);
     expect(await TicketEvent.count({ where: { body: description } })).toBe(0);
@@ -82,12 +81,12 @@ describe('reporting while the database is down', () => {
     const pending = client.post('/api/tickets', multipartReport(reportBody(tool.id, { description }), [{ bytes: await jpegBytes(), name: 'a.jpg' }]));
     // The photo and its thumbnail are on disk while the transaction waits.
     expect(await poll(async () => filesInDir().length === before.length + 2, 10_000)).toBe(true);
-    stopDatabase();
+    db.stop();
     const r = await pending;
     expect(r.status).toBe(503);
     expect(filesInDir().sort()).toEqual([...before].sort());
 
-    startDatabase();
+    await db.start();
     expect(await dbBack()).toBe(true);
     await server.deps.sequelize.query(`DROP TRIGGER IF EXISTS ${TRIGGER}`);
     expect(await Ticket.count({ where: { toolId: tool.id } })).toBe(0);
