@@ -35,7 +35,12 @@ function watchHealth(url: string) {
   let running = true;
   const done = (async () => {
     while (running) {
-      statuses.push(await fetch(`${url}/api/health`).then((r) => r.status, () => 0));
+      statuses.push(
+        await fetch(`${url}/api/health`).then(
+          (r) => r.status,
+          () => 0,
+        ),
+      );
       await new Promise((r) => setTimeout(r, 100));
     }
     return statuses;

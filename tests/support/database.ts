@@ -35,7 +35,14 @@ export async function startScratchDatabase(): Promise<ScratchDatabase> {
   const user = os.userInfo().username;
   execFileSync(
     'mariadb-install-db',
-    ['--no-defaults', `--datadir=${dir}/data`, `--user=${user}`, '--auth-root-authentication-method=socket', '--skip-test-db', '--skip-name-resolve'],
+    [
+      '--no-defaults',
+      `--datadir=${dir}/data`,
+      `--user=${user}`,
+      '--auth-root-authentication-method=socket',
+      '--skip-test-db',
+      '--skip-name-resolve',
+    ],
     { env, stdio: 'ignore' },
   );
 
