@@ -26,7 +26,10 @@ export type SecurityEvent =
   | 'csrf_refused'
   | 'validation_failed'
   | 'rate_limited'
-  | 'session_expired';
+  | 'session_expired'
+  | 'account_mail_requested'
+  | 'account_link_refused'
+  | 'password_changed';
 
 /** One structured line per security-relevant event: UTC time, user, route, address. */
 export function securityLog(log: Logger, req: Request, event: SecurityEvent, extra: Record<string, unknown> = {}) {
