@@ -20,7 +20,8 @@ beforeAll(async () => {
 afterAll(() => server.close());
 
 /** The per-address limits on these requests outlive a run in the kept test database. */
-const clearRequestLimits = () => Throttle.destroy({ where: { key: { [Op.or]: [{ [Op.like]: 'rl:password-reset:%' }, { [Op.like]: 'rl:sign-in-link:%' }] } } });
+const clearRequestLimits = () =>
+  Throttle.destroy({ where: { key: { [Op.or]: [{ [Op.like]: 'rl:password-reset:%' }, { [Op.like]: 'rl:sign-in-link:%' }] } } });
 
 const NEW_PASSWORD = 'a-brand-new-passphrase-42';
 
@@ -29,7 +30,11 @@ async function mailedResetToken(email: string) {
   expect((await new TestClient(server.url).post('/api/password-resets', { email })).status).toBe(202);
   await server.accountMail.runOnce();
   await drainOutbox(server);
-  const rows = await OutboxMail.findAll({ where: { toAddress: email, subject: { [Op.like]: '%reset your password%' } }, order: [['id', 'DESC']], limit: 1 });
+  const rows = await OutboxMail.findAll({
+    where: { toAddress: email, subject: { [Op.like]: '%reset your password%' } },
+    order: [['id', 'DESC']],
+    limit: 1,
+  });
   return /\/reset-password\/([A-Za-z0-9_-]{43})/.exec(rows[0].textBody)![1];
 }
 
@@ -37,7 +42,11 @@ describe('reset and invitation links', () => {
   it('when one reset link is used 10 times at once, then exactly one use answers 200 and sets the password', async () => {
     const user = await createUser();
     const token = await mailedResetToken(user.email);
-    const answers = await Promise.all(Array.from({ length: 10 }, (_, i) => new TestClient(server.url).post(`/api/password-resets/${token}`, { password: `${NEW_PASSWORD}-${i}` })));
+    const answers = await Promise.all(
+      Array.from({ length: 10 }, (_, i) =>
+        new TestClient(server.url).post(`/api/password-resets/${token}`, { password: `${NEW_PASSWORD}-${i}` }),
+      ),
+    );
     const ok = answers.filter((a) => a.status === 200);
     expect(ok.length).toBe(1);
     expect(answers.filter((a) => a.status === 400).every((a) => a.body.error.code === 'reset_link_invalid')).toBe(true);
@@ -74,7 +83,9 @@ describe('reset and invitation links', () => {
     await drainOutbox(server);
     const mail = await OutboxMail.findOne({ where: { toAddress: email } });
     const token = /\/reset-password\/([A-Za-z0-9_-]{43})/.exec(mail!.textBody)![1];
-    const answers = await Promise.all(Array.from({ length: 10 }, () => new TestClient(server.url).post(`/api/password-resets/${token}`, { password: NEW_PASSWORD })));
+    const answers = await Promise.all(
+      Array.from({ length: 10 }, () => new TestClient(server.url).post(`/api/password-resets/${token}`, { password: NEW_PASSWORD })),
+    );
     expect(answers.filter((a) => a.status === 200).length).toBe(1);
     expect((await new TestClient(server.url).signIn(email, NEW_PASSWORD)).status).toBe(200);
   });
@@ -130,14 +141,21 @@ describe('asking for a link by e-mail', () => {
   it('when an account asks for many links, then at most 3 of a kind are mailed per quarter hour', async () => {
     const user = await createUser();
     await clearRequestLimits();
-    for (let i = 0; i < 5; i++) expect((await new TestClient(server.url).post('/api/sign-in-links', { email: user.email })).status).toBe(202);
+    for (let i = 0; i < 5; i++)
+      expect((await new TestClient(server.url).post('/api/sign-in-links', { email: user.email })).status).toBe(202);
     await server.accountMail.runOnce();
     expect(await PasswordReset.count({ where: { userId: user.id, purpose: 'sign_in' } })).toBe(3);
     await clearRequestLimits();
   });
 
   it('when an invited person without a password asks for a sign-in link, then none is made', async () => {
-    const invitee = await User.create({ email: `${unique('invitee')}@test.faultline.test`, name: 'Not Yet', role: 'member', passwordHash: null, lastSignInAt: null });
+    const invitee = await User.create({
+      email: `${unique('invitee')}@test.faultline.test`,
+      name: 'Not Yet',
+      role: 'member',
+      passwordHash: null,
+      lastSignInAt: null,
+    });
     expect((await new TestClient(server.url).post('/api/sign-in-links', { email: invitee.email })).status).toBe(202);
     await server.accountMail.runOnce();
     expect(await PasswordReset.count({ where: { userId: invitee.id } })).toBe(0);

@@ -16,7 +16,13 @@ beforeAll(async () => {
   const destination = { write: (chunk: string) => void lines.push(JSON.parse(chunk)) };
   // Behind a trusted proxy on loopback, each test can speak from addresses of its own.
   server = await startTestServer(
-    { LOG_LEVEL: 'info', SIGNIN_MAX_FAILURES_PER_ACCOUNT: String(FREE), SIGNIN_MAX_FAILURES_PER_ACCOUNT_TOTAL: '8', SIGNIN_DELAY_SECONDS: String(DELAY_SECONDS), TRUST_PROXY: 'loopback' },
+    {
+      LOG_LEVEL: 'info',
+      SIGNIN_MAX_FAILURES_PER_ACCOUNT: String(FREE),
+      SIGNIN_MAX_FAILURES_PER_ACCOUNT_TOTAL: '8',
+      SIGNIN_DELAY_SECONDS: String(DELAY_SECONDS),
+      TRUST_PROXY: 'loopback',
+    },
     { logDestination: destination, accountMailQueue: false },
   );
 });
@@ -29,7 +35,11 @@ const clientFrom = (address: string) => new TestClient(server.url, { 'x-forwarde
 
 /** Password checks made for an e-mail: each check ends in exactly one failed or succeeded line. */
 function passwordChecks(email: string, userId: number) {
-  return lines.filter((l) => (l.security === 'sign_in_failed' && l.email === email) || (l.security === 'sign_in_succeeded' && l.userId === userId && l.method === 'password')).length;
+  return lines.filter(
+    (l) =>
+      (l.security === 'sign_in_failed' && l.email === email) ||
+      (l.security === 'sign_in_succeeded' && l.userId === userId && l.method === 'password'),
+  ).length;
 }
 
 /** "Time passes" for every counter of the account: the wait is over now. */
@@ -134,7 +144,10 @@ describe('sign-in throttling', () => {
     await drainOutbox(server);
     const mail = await server.catcher.waitFor((m) => m.to.includes(user.email) && /sign-in link/i.test(m.subject));
     const token = /\/sign-in-link\/([A-Za-z0-9_-]{43})/.exec(mail.text)![1];
-    await server.deps.sequelize.query(`UPDATE password_resets SET expires_at = NOW(3) - INTERVAL 1 SECOND WHERE user_id = :id AND purpose = 'sign_in'`, { replacements: { id: user.id } });
+    await server.deps.sequelize.query(
+      `UPDATE password_resets SET expires_at = NOW(3) - INTERVAL 1 SECOND WHERE user_id = :id AND purpose = 'sign_in'`,
+      { replacements: { id: user.id } },
+    );
     expect((await client.post(`/api/sign-in-links/${token}`)).status).toBe(400);
   });
 
@@ -154,7 +167,10 @@ describe('sign-in throttling', () => {
   it('when counters are stored, then they hold no e-mail address in clear', async () => {
     const user = await createUser();
     await clientFrom(newAddress()).signIn(user.email, 'wrong');
-    const rows = await server.deps.sequelize.query<{ key: string }>('SELECT `key` FROM sign_in_throttles WHERE `key` LIKE :k', { type: QueryTypes.SELECT, replacements: { k: `%${user.email}%` } });
+    const rows = await server.deps.sequelize.query<{ key: string }>('SELECT `key` FROM sign_in_throttles WHERE `key` LIKE :k', {
+      type: QueryTypes.SELECT,
+      replacements: { k: `%${user.email}%` },
+    });
     expect(rows).toEqual([]);
   });
 });

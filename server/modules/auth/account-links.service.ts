@@ -22,7 +22,10 @@ const sha256 = (s: string) => crypto.createHash('sha256').update(s).digest('hex'
 /** Creates a link for the user and returns its token (the only time it exists in clear). */
 export async function createAccountLink(userId: number, purpose: AccountLinkPurpose, transaction: Transaction) {
   const token = crypto.randomBytes(32).toString('base64url');
-  await PasswordReset.create({ userId, purpose, tokenHash: sha256(token), expiresAt: new Date(Date.now() + LINK_LIFETIME_MS[purpose]), usedAt: null }, { transaction });
+  await PasswordReset.create(
+    { userId, purpose, tokenHash: sha256(token), expiresAt: new Date(Date.now() + LINK_LIFETIME_MS[purpose]), usedAt: null },
+    { transaction },
+  );
   return token;
 }
 
@@ -72,7 +75,13 @@ const MAILS_PER_QUARTER_HOUR = 3;
  */
 export async function processAccountMailRequests(deps: AppDeps, batch = 20): Promise<number> {
   return deps.sequelize.transaction(async (transaction) => {
-    const rows = await AccountMailRequest.findAll({ order: [['id', 'ASC']], limit: batch, lock: transaction.LOCK.UPDATE, skipLocked: true, transaction });
+    const rows = await AccountMailRequest.findAll({
+      order: [['id', 'ASC']],
+      limit: batch,
+      lock: transaction.LOCK.UPDATE,
+      skipLocked: true,
+      transaction,
+    });
     for (const row of rows) await answer(deps, row, transaction);
     if (rows.length) await AccountMailRequest.destroy({ where: { id: rows.map((r) => r.id) }, transaction });
     return rows.length;
@@ -84,7 +93,10 @@ async function answer(deps: AppDeps, request: AccountMailRequest, transaction: T
   // A mailed sign-in link is for an account that has a password (an invitee uses the invitation).
   if (!user || (request.kind === 'sign_in_link' && !user.passwordHash)) return;
   const purpose: AccountLinkPurpose = request.kind === 'sign_in_link' ? 'sign_in' : 'reset';
-  const recent = await PasswordReset.count({ where: { userId: user.id, purpose, createdAt: { [Op.gt]: new Date(Date.now() - 15 * 60_000) } }, transaction });
+  const recent = await PasswordReset.count({
+    where: { userId: user.id, purpose, createdAt: { [Op.gt]: new Date(Date.now() - 15 * 60_000) } },
+    transaction,
+  });
   if (recent >= MAILS_PER_QUARTER_HOUR) return;
   const token = await createAccountLink(user.id, purpose, transaction);
   const base = deps.config.publicUrl;

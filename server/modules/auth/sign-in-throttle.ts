@@ -53,7 +53,12 @@ const DEADLOCK = /deadlock|lock wait timeout/i;
  * Counts one attempt on every rule, or on none: when any counter is still waiting the whole
  * attempt is refused (and counted nowhere) with the longest wait as Retry-After.
  */
-export async function countSignInAttempt(sequelize: Sequelize, config: Config, rules: ThrottleRule[], now = new Date()): Promise<AttemptResult> {
+export async function countSignInAttempt(
+  sequelize: Sequelize,
+  config: Config,
+  rules: ThrottleRule[],
+  now = new Date(),
+): Promise<AttemptResult> {
   const { windowMs, baseMs, maxMs } = policy(config);
   // Rows exist before the transaction, so the UPDATEs below lock single existing rows only.
   for (const rule of rules) {
@@ -65,11 +70,14 @@ export async function countSignInAttempt(sequelize: Sequelize, config: Config, r
         for (const rule of rules) {
           const counted = await countOne(sequelize, transaction, rule, { now, cutoff: new Date(now.getTime() - windowMs), baseMs, maxMs });
           if (!counted) {
-            const waits = await sequelize.query<{ next: Date | null }>('SELECT MAX(next_allowed_at) AS next FROM sign_in_throttles WHERE `key` IN (:keys)', {
-              type: QueryTypes.SELECT,
-              replacements: { keys: rules.map((r) => r.key) },
-              transaction,
-            });
+            const waits = await sequelize.query<{ next: Date | null }>(
+              'SELECT MAX(next_allowed_at) AS next FROM sign_in_throttles WHERE `key` IN (:keys)',
+              {
+                type: QueryTypes.SELECT,
+                replacements: { keys: rules.map((r) => r.key) },
+                transaction,
+              },
+            );
             const next = waits[0]?.next ? new Date(waits[0].next).getTime() : now.getTime();
             // Roll back the counts already made on the other rules: a refused attempt costs nothing.
             throw new Refused(Math.max(1, Math.ceil((next - now.getTime()) / 1000)));
@@ -96,7 +104,12 @@ class Refused extends Error {
  * sets the wait that the NEXT attempt must respect. Assignments are ordered so that each one
  * reads the old column values whether MariaDB assigns left to right or simultaneously.
  */
-async function countOne(sequelize: Sequelize, transaction: Transaction, rule: ThrottleRule, p: { now: Date; cutoff: Date; baseMs: number; maxMs: number }) {
+async function countOne(
+  sequelize: Sequelize,
+  transaction: Transaction,
+  rule: ThrottleRule,
+  p: { now: Date; cutoff: Date; baseMs: number; maxMs: number },
+) {
   const expired = '(window_started_at IS NULL OR window_started_at <= :cutoff)';
   const newAttempts = `IF(${expired}, 1, attempts + 1)`;
   const [, affected] = await sequelize.query(
