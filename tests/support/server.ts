@@ -10,6 +10,12 @@ export type TestServer = Awaited<ReturnType<typeof startTestServer>>;
  * port, with a real SMTP catcher on another ephemeral port.
  */
 export async function startTestServer(overrides: Record<string, string> = {}, opts: { serveClient?: boolean; outboxWorker?: boolean; accountMailQueue?: boolean; logDestination?: import('pino').DestinationStream } = {}) {
+  // A browser's Origin must be the public address (the CSRF check accepts no other), so a
+  // server for browser tests is told its own address unless the test names one.
+  if (opts.serveClient && !overrides.PUBLIC_URL) {
+    const port = overrides.PORT ?? String(await freePort());
+    overrides = { ...overrides, PORT: port, PUBLIC_URL: `http://127.0.0.1:${port}` };
+  }
   const catcher = new MailCatcher(0);
   await catcher.start();
   const config = testConfig({ SMTP_PORT: String(catcher.port), ...overrides });
