@@ -9,6 +9,7 @@ import { AppError } from './lib/errors';
 import { apiRoutes } from './routes';
 import { healthRoutes } from './modules/health/health.routes';
 import { sessionLifetime, csrfProtection } from './modules/auth/session-middleware';
+import { anonymousRateLimit } from './lib/throttle';
 import { verifyDisplayKey } from './modules/facility/display-links.service';
 import type { MailCatcher } from './lib/mail-catcher';
 
@@ -20,12 +21,40 @@ export interface AppOptions {
   distDir?: string;
 }
 
+const PERMISSIONS_POLICY = [
+  'camera=(self)',
+  'microphone=()',
+  'geolocation=()',
+  'payment=()',
+  'usb=()',
+  'serial=()',
+  'bluetooth=()',
+  'hid=()',
+  'midi=()',
+  'display-capture=()',
+  'screen-wake-lock=()',
+  'publickey-credentials-get=()',
+  'accelerometer=()',
+  'gyroscope=()',
+  'magnetometer=()',
+  'fullscreen=(self)',
+].join(', ');
+
 /** Builds the Express app without listening, so tests run it on an ephemeral port. */
 export function createApp(deps: AppDeps, opts: AppOptions) {
   const { config, log } = deps;
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', false);
+  // Behind a TLS-terminating proxy, req.secure and req.ip come from X-Forwarded-Proto/-For,
+  // but only from the proxies named in TRUST_PROXY; the Secure session cookie needs req.secure.
+  app.set('trust proxy', config.TRUST_PROXY);
+  if (config.cookieSecure && config.TRUST_PROXY === false) {
+    log.warn(
+      'PUBLIC_URL is https but TRUST_PROXY is not set: the server itself speaks plain HTTP, so Secure session cookies are never set and nobody stays signed in. Set TRUST_PROXY to the TLS proxy in front of it.',
+    );
+  }
+  const publicUrl = new URL(config.publicUrl);
+  const ownSocketOrigin = `${publicUrl.protocol === 'https:' ? 'wss:' : 'ws:'}//${publicUrl.host}`;
 
   app.use(
     helmet({
@@ -36,7 +65,8 @@ export function createApp(deps: AppDeps, opts: AppOptions) {
           'script-src': ["'self'"],
           'style-src': ["'self'", "'unsafe-inline'"],
           'img-src': ["'self'", 'data:', 'blob:'],
-          'connect-src': ["'self'", 'ws:', 'wss:'],
+          // The app's own API and its own socket, nothing else ('self' covers ws: only in newer browsers).
+          'connect-src': ["'self'", ownSocketOrigin],
           'font-src': ["'self'", 'data:'],
           'object-src': ["'none'"],
           'base-uri': ["'none'"],
@@ -50,6 +80,11 @@ export function createApp(deps: AppDeps, opts: AppOptions) {
       strictTransportSecurity: config.cookieSecure,
     }),
   );
+  // The report form may use the camera (photos of the fault); every other powerful feature is off.
+  app.use((_req, res, next) => {
+    res.setHeader('Permissions-Policy', PERMISSIONS_POLICY);
+    next();
+  });
 
   const api = express.Router();
   const registry: RegisteredRoute[] = [];
@@ -79,6 +114,8 @@ export function createApp(deps: AppDeps, opts: AppOptions) {
       next(error);
     }
   });
+  // Signed-out visitors keep no session row; this bounds what one address can make us do.
+  api.use(anonymousRateLimit({ limit: config.ANONYMOUS_REQUESTS_PER_MINUTE, log }));
   api.use(csrfProtection(config, log));
   mountRoutes(api, '', apiRoutes({ log, catcher: opts.catcher }), deps, registry);
   api.use((_req, _res, next) => next(new AppError(404, 'not_found', 'There is no such API route.')));

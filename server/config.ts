@@ -25,9 +25,36 @@ const configSchema = z.object({
   SESSION_ABSOLUTE_HOURS: z.coerce.number().positive().default(12),
   COOKIE_SECURE: bool.optional(),
 
+  // Free sign-in attempts per window: for one account from one address, for one account from
+  // anywhere, and from one address across accounts. Past them, each attempt waits a delay
+  // that starts at SIGNIN_DELAY_SECONDS and doubles (capped at the window).
   SIGNIN_MAX_FAILURES_PER_ACCOUNT: z.coerce.number().int().min(1).default(5),
+  SIGNIN_MAX_FAILURES_PER_ACCOUNT_TOTAL: z.coerce.number().int().min(1).default(20),
   SIGNIN_MAX_FAILURES_PER_ADDRESS: z.coerce.number().int().min(1).default(20),
   SIGNIN_WINDOW_SECONDS: z.coerce.number().positive().default(900),
+  SIGNIN_DELAY_SECONDS: z.coerce.number().positive().default(30),
+  // API requests per minute from one address by visitors who are not signed in (no session).
+  ANONYMOUS_REQUESTS_PER_MINUTE: z.coerce.number().int().min(1).default(300),
+  // Which proxies in front of the server to believe about the client's address and protocol
+  // (X-Forwarded-For / -Proto): 'false' (none), 'loopback', a comma-separated list of
+  // addresses or subnets, or a hop count. Needed for an https PUBLIC_URL behind a TLS proxy.
+  TRUST_PROXY: z
+    .string()
+    .default('false')
+    .transform((v, ctx) => {
+      const s = v.trim();
+      if (s === '' || s === 'false' || s === '0') return false;
+      if (s === 'true') {
+        ctx.addIssue({
+          code: 'custom',
+          message:
+            "TRUST_PROXY=true would believe any client's X-Forwarded-For; name the proxy (e.g. 'loopback' or its address) or a hop count",
+        });
+        return z.NEVER;
+      }
+      if (/^\d+$/.test(s)) return Number(s);
+      return s;
+    }),
 
   SMTP_HOST: z.string().default('127.0.0.1'),
   SMTP_PORT: z.coerce.number().int().default(2525),

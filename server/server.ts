@@ -11,6 +11,7 @@ import { attachRealtime } from './lib/realtime';
 import { createTransport, OutboxWorker } from './lib/mailer';
 import { MailCatcher } from './lib/mail-catcher';
 import { verifyDisplayKey } from './modules/facility/display-links.service';
+import { AccountMailQueue } from './modules/auth/account-links.service';
 import type { AppDeps } from './lib/http';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
@@ -20,6 +21,8 @@ export interface StartOptions {
   catcher?: MailCatcher | null;
   /** Run the outbox worker in this process (default true). */
   outboxWorker?: boolean;
+  /** Answer "mail me a link" requests in the background (default true; tests may run passes by hand). */
+  accountMailQueue?: boolean;
   serveClient?: boolean;
   /** Where log lines go (default stdout); tests capture them. */
   logDestination?: import('pino').DestinationStream;
@@ -43,6 +46,9 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     catcher,
     distDir: opts.serveClient === false ? undefined : path.join(root, 'dist'),
   });
+  const accountMail = new AccountMailQueue(deps);
+  app.locals.accountMail = accountMail;
+  if (opts.accountMailQueue !== false) accountMail.start();
   const server = http.createServer(app);
   const allowedOrigins = [new URL(config.publicUrl).origin];
   const io = attachRealtime(server, { allowedOrigins, session, passport, events, log, verifyDisplayKey });
@@ -77,6 +83,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     if (closed) return;
     closed = true;
     await worker.stop();
+    await accountMail.stop();
     await new Promise<void>((resolve) => io.close(() => resolve()));
     server.closeAllConnections?.();
     await new Promise<void>((resolve) => server.close(() => resolve()));
@@ -84,5 +91,5 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     await releaseSequelize(sequelize);
   }
 
-  return { app, server, io, deps, worker, catcher, port, url: `http://${config.HOST}:${port}`, close };
+  return { app, server, io, deps, worker, accountMail, catcher, port, url: `http://${config.HOST}:${port}`, close };
 }

@@ -60,3 +60,12 @@ export function rateLimit(opts: { name: string; limit: number; windowMs: number;
     }
   };
 }
+
+/**
+ * Per-address limit on API requests from visitors who are neither signed in nor a lobby
+ * display: they keep no session, but each request still costs a little work.
+ */
+export function anonymousRateLimit(opts: { limit: number; log: Logger }): RequestHandler {
+  const limited = rateLimit({ name: 'anonymous', limit: opts.limit, windowMs: 60_000, log: opts.log });
+  return (req, res, next) => (req.user || req.displayLinkId ? next() : limited(req, res, next));
+}

@@ -224,7 +224,8 @@ export interface BoardData {
 export interface PersonRef {
   id: number;
   name: string;
-  email: string;
+  /** Only for staff viewers: members see names, not staff e-mail addresses. */
+  email?: string;
 }
 
 export interface AvailabilityFigure {

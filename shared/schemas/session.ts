@@ -11,3 +11,8 @@ export const signInSchema = z.strictObject({
 });
 
 export type SignInInput = z.infer<typeof signInSchema>;
+
+// Asking for a mailed sign-in link, and using one (the token is 32 random bytes, base64url).
+export const signInLinkRequestSchema = z.strictObject({ email: z.email('Enter a valid e-mail address.').max(254) });
+export const signInLinkParams = z.strictObject({ token: z.string().regex(/^[A-Za-z0-9_-]{43}$/, 'This link is not valid.') });
+export type SignInLinkRequestInput = z.infer<typeof signInLinkRequestSchema>;

@@ -19,6 +19,9 @@ export const router = createBrowserRouter([
       { path: 'forgot-password', lazy: () => import('@/app/routes/forgot-password') },
       // Reset links and invitations share this page.
       { path: 'reset-password/:token', lazy: () => import('@/app/routes/reset-password') },
+      // Mailed sign-in links: the way in while password sign-in is paused.
+      { path: 'sign-in-link', lazy: () => import('@/app/routes/sign-in-link') },
+      { path: 'sign-in-link/:token', lazy: () => import('@/app/routes/sign-in-link-use') },
       // A lobby display signs in with its key; the unfollow link in an e-mail needs no sign-in.
       { path: 'display/:key', lazy: () => import('@/app/routes/display') },
       { path: 'unfollow/:token', lazy: () => import('@/app/routes/unfollow') },

@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startTestServer, type TestServer } from '../support/server';
+import { drainOutbox, startTestServer, type TestServer } from '../support/server';
+import { OutboxMail } from '../../server/modules/mail/outbox.model';
 import { TestClient } from '../support/client';
 import { createUser, signedInClient, TEST_PASSWORD } from '../support/factories';
 
@@ -38,6 +39,29 @@ describe('security log', () => {
     expect(all).not.toContain(TEST_PASSWORD);
     expect(all).not.toContain('a-wrong-password-1');
     expect(all).not.toContain(right.csrfToken!);
-    expect(all).not.toContain(decodeURIComponent(right.cookie!.split('=')[1]).slice(2).split('.')[0]);
+    expect(all).not.toContain(right.sessionId!);
+  });
+
+  it('when links are asked for, used, refused and a password is reset, then one line each, without the token, the e-mail of the link or the password', async () => {
+    const user = await createUser('member');
+    const visitor = new TestClient(server.url);
+    await visitor.post('/api/password-resets', { email: user.email });
+    await server.accountMail.runOnce();
+    await drainOutbox(server);
+    const mail = await OutboxMail.findOne({ where: { toAddress: user.email }, order: [['id', 'DESC']] });
+    const token = /\/reset-password\/([A-Za-z0-9_-]{43})/.exec(mail!.textBody)![1];
+    const newPassword = 'a-secret-new-passphrase-77';
+    expect((await visitor.post(`/api/password-resets/${token}`, { password: newPassword })).status).toBe(200);
+    expect((await visitor.post(`/api/password-resets/${token}`, { password: newPassword })).status).toBe(400);
+    expect((await visitor.post(`/api/sign-in-links/${'A'.repeat(43)}`)).status).toBe(400);
+
+    expect(security('account_mail_requested').some((l) => l.kind === 'password_reset' && l.route === 'POST /api/password-resets')).toBe(
+      true,
+    );
+    expect(security('password_changed').some((l) => l.changedUserId === user.id && l.via === 'reset_link')).toBe(true);
+    expect(security('account_link_refused').map((l) => l.purpose)).toEqual(expect.arrayContaining(['reset', 'sign_in']));
+    const all = JSON.stringify(lines);
+    expect(all).not.toContain(token);
+    expect(all).not.toContain(newPassword);
   });
 });

@@ -23,6 +23,7 @@ export function testConfig(overrides: Record<string, string> = {}): Config {
       OUTBOX_POLL_MS: '200',
       // Every test signs in from 127.0.0.1; the per-address limit gets its own test.
       SIGNIN_MAX_FAILURES_PER_ADDRESS: '100000',
+      ANONYMOUS_REQUESTS_PER_MINUTE: '100000',
       UPLOAD_DIR: path.join(root, 'test-results/uploads'),
       ...overrides,
     },

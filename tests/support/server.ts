@@ -11,8 +11,19 @@ export type TestServer = Awaited<ReturnType<typeof startTestServer>>;
  */
 export async function startTestServer(
   overrides: Record<string, string> = {},
-  opts: { serveClient?: boolean; outboxWorker?: boolean; logDestination?: import('pino').DestinationStream } = {},
+  opts: {
+    serveClient?: boolean;
+    outboxWorker?: boolean;
+    accountMailQueue?: boolean;
+    logDestination?: import('pino').DestinationStream;
+  } = {},
 ) {
+  // A browser's Origin must be the public address (the CSRF check accepts no other), so a
+  // server for browser tests is told its own address unless the test names one.
+  if (opts.serveClient && !overrides.PUBLIC_URL) {
+    const port = overrides.PORT ?? String(await freePort());
+    overrides = { ...overrides, PORT: port, PUBLIC_URL: `http://127.0.0.1:${port}` };
+  }
   const catcher = new MailCatcher(0);
   await catcher.start();
   const config = testConfig({ SMTP_PORT: String(catcher.port), ...overrides });
@@ -20,6 +31,7 @@ export async function startTestServer(
     catcher,
     serveClient: opts.serveClient ?? false,
     outboxWorker: opts.outboxWorker,
+    accountMailQueue: opts.accountMailQueue,
     logDestination: opts.logDestination,
   });
   return { ...running, config, catcher, url: `http://127.0.0.1:${running.port}` };

@@ -91,7 +91,7 @@ export function facilityRoutes(opts: { log: Logger }): RouteSpec[] {
       access: 'member',
       summary: 'A tool page: state, modules, engineers, 30-day availability, whether I follow it',
       params: toolCodeParams,
-      handle: ({ deps, params, user }) => getToolDetail(deps, params.code, user!.id),
+      handle: ({ deps, params, user }) => getToolDetail(deps, params.code, user!),
     }),
     route({
       method: 'get',

@@ -8,6 +8,7 @@ import { changeState, openInitialState } from './state.service';
 import { loadBoardTools } from './board.service';
 import { availabilityForPeriod } from './availability.service';
 import { STAFF_ROLES } from './staff';
+import { isStaff, type Role } from '../../../shared/roles';
 import type {
   AreaCreateInput,
   AreaUpdateInput,
@@ -323,8 +324,10 @@ export async function updateModule(deps: AppDeps, id: number, input: ModuleUpdat
 
 const DAY_MS = 24 * 60 * 60 * 1000;
 
-function person(u: User | undefined | null): PersonRef | null {
-  return u ? { id: u.id, name: u.name, email: u.email } : null;
+/** An engineer as the tool page shows them: staff see the e-mail address, members the name only. */
+function person(u: User | undefined | null, viewerIsStaff: boolean): PersonRef | null {
+  if (!u) return null;
+  return viewerIsStaff ? { id: u.id, name: u.name, email: u.email } : { id: u.id, name: u.name };
 }
 
 export async function findToolIdByCode(code: string): Promise<number> {
@@ -334,7 +337,9 @@ export async function findToolIdByCode(code: string): Promise<number> {
 }
 
 /** Everything the tool page shows at the top: state, people, modules, 30-day availability. */
-export async function getToolDetail(deps: AppDeps, code: string, viewerId: number): Promise<ToolDetail> {
+export async function getToolDetail(deps: AppDeps, code: string, viewer: { id: number; role: Role }): Promise<ToolDetail> {
+  const viewerId = viewer.id;
+  const viewerIsStaff = isStaff(viewer.role);
   const tool = await Tool.findOne({ where: { code }, include: [{ model: Area, as: 'area', attributes: ['id', 'name', 'code'] }] });
   if (!tool) throw notFound('Tool');
   const now = new Date();
@@ -360,8 +365,8 @@ export async function getToolDetail(deps: AppDeps, code: string, viewerId: numbe
     ...entry,
     description: tool.description,
     area: { id: area.id, code: area.code, name: area.name },
-    primaryEngineer: person(tool.primaryEngineerId ? byId.get(tool.primaryEngineerId) : null),
-    backupEngineer: person(tool.backupEngineerId ? byId.get(tool.backupEngineerId) : null),
+    primaryEngineer: person(tool.primaryEngineerId ? byId.get(tool.primaryEngineerId) : null, viewerIsStaff),
+    backupEngineer: person(tool.backupEngineerId ? byId.get(tool.backupEngineerId) : null, viewerIsStaff),
     retiredAt: iso(tool.retiredAt),
     following: Boolean(follow),
     availability30d: availability.get(tool.id)!,

@@ -1,6 +1,6 @@
-import crypto from 'node:crypto';
 import { Op, type WhereOptions } from 'sequelize';
-import { User, PasswordReset } from './user.model';
+import { User } from './user.model';
+import { createAccountLink, LINK_LIFETIME_MS } from '../auth/account-links.service';
 import { SessionRow } from '../auth/session.model';
 import { queueMail } from '../../lib/mailer';
 import { disconnectUser } from '../../lib/realtime';
@@ -31,12 +31,8 @@ export async function listUsers(query: { q?: string; role?: Role; limit: number;
   return { items: rows.map(presentUser), total: count };
 }
 
-const INVITE_TTL_MS = 7 * 24 * 3600 * 1000;
-
 /** Creates the account without a password and e-mails a link to choose one (valid 7 days). */
 export async function inviteUser(deps: AppDeps, input: InviteUserInput, invitedBy: { name: string }) {
-  const token = crypto.randomBytes(32).toString('base64url');
-  const tokenHash = crypto.createHash('sha256').update(token).digest('hex');
   return deps.sequelize.transaction(async (transaction) => {
     const user = await User.create(
       {
@@ -49,15 +45,12 @@ export async function inviteUser(deps: AppDeps, input: InviteUserInput, invitedB
       },
       { transaction },
     );
-    await PasswordReset.create(
-      { userId: user.id, tokenHash, expiresAt: new Date(Date.now() + INVITE_TTL_MS), usedAt: null },
-      { transaction },
-    );
+    const token = await createAccountLink(user.id, 'invite', transaction);
     await queueMail(
       {
         to: user.email,
         subject: 'You are invited to Faultline',
-        text: `Hello ${user.name},\n\n${invitedBy.name} invited you to Faultline, the fault and maintenance desk of the cleanroom.\nChoose your password here (the link works for 7 days):\n\n${deps.config.publicUrl}/reset-password/${token}\n`,
+        text: `Hello ${user.name},\n\n${invitedBy.name} invited you to Faultline, the fault and maintenance desk of the cleanroom.\nChoose your password here (the link works once, for ${LINK_LIFETIME_MS.invite / 86_400_000} days):\n\n${deps.config.publicUrl}/reset-password/${token}\n`,
       },
       transaction,
     );

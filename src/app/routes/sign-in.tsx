@@ -25,9 +25,12 @@ export function SignInPage() {
       }
     >
       {session.isPending ? <PageSpinner /> : <SignInForm onSuccess={() => navigate(next, { replace: true })} />}
-      <p className="mt-4 text-center text-sm">
+      <p className="mt-4 flex flex-col items-center text-center text-sm">
         <Link to="/forgot-password" className="inline-flex min-h-11 items-center font-semibold">
           Forgot your password?
+        </Link>
+        <Link to="/sign-in-link" className="inline-flex min-h-11 items-center font-semibold">
+          E-mail me a sign-in link
         </Link>
       </p>
     </PublicPage>

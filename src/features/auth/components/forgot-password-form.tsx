@@ -6,6 +6,20 @@ import { Button } from '@/components/ui/button';
 import { EmailField } from '@/components/ui/email-field';
 import { isApiError } from '@/lib/api-client';
 import { useRequestPasswordReset } from '@/features/auth/api/request-password-reset';
+import { useRequestSignInLink } from '@/features/auth/api/sign-in-link';
+
+// The same form asks for either kind of mailed link; only the words differ.
+const WORDS = {
+  reset: {
+    intro: 'Enter the e-mail address you sign in with. We will send a link to choose a new password.',
+    sent: 'a link to choose a new password is on its way. The link works for one hour and only once.',
+  },
+  'sign-in': {
+    intro:
+      'Enter the e-mail address you sign in with. We will send a link that signs you in without your password, for example while sign-in is paused after too many attempts.',
+    sent: 'a sign-in link is on its way. The link works for 15 minutes and only once.',
+  },
+} as const;
 
 function describeFailure(error: unknown): string {
   if (!isApiError(error)) return 'The request could not be sent. Try again.';
@@ -19,11 +33,16 @@ function describeFailure(error: unknown): string {
 export interface ForgotPasswordFormProps {
   /** Shown after sending; typically a link back to sign-in. */
   after?: ReactNode;
+  /** Which link to send: a password reset (default) or a sign-in link. */
+  kind?: keyof typeof WORDS;
 }
 
-/** Asks for a reset link; the answer is the same whether or not the address has an account. */
-export function ForgotPasswordForm({ after }: ForgotPasswordFormProps) {
-  const request = useRequestPasswordReset();
+/** Asks for a reset or sign-in link; the answer is the same whether or not the address has an account. */
+export function ForgotPasswordForm({ after, kind = 'reset' }: ForgotPasswordFormProps) {
+  const resetRequest = useRequestPasswordReset();
+  const linkRequest = useRequestSignInLink();
+  const request = kind === 'reset' ? resetRequest : linkRequest;
+  const words = WORDS[kind];
   const [email, setEmail] = useState('');
   const [emailErrors, setEmailErrors] = useState<string[] | undefined>();
   const [sentTo, setSentTo] = useState<string | null>(null);
@@ -55,8 +74,7 @@ export function ForgotPasswordForm({ after }: ForgotPasswordFormProps) {
       <div className="flex flex-col gap-5">
         <Alert tone="success" live title="Check your e-mail">
           <p>
-            If <strong className="font-semibold break-all">{sentTo}</strong> belongs to an active Faultline account, a link to choose a new
-            password is on its way. The link works for one hour and only once.
+            If <strong className="font-semibold break-all">{sentTo}</strong> belongs to an active Faultline account, {words.sent}
           </p>
         </Alert>
         <p className="text-sm leading-relaxed text-muted">
@@ -79,9 +97,7 @@ export function ForgotPasswordForm({ after }: ForgotPasswordFormProps) {
 
   return (
     <form noValidate onSubmit={onSubmit} className="flex flex-col gap-5">
-      <p className="text-sm leading-relaxed text-muted">
-        Enter the e-mail address you sign in with. We will send a link to choose a new password.
-      </p>
+      <p className="text-sm leading-relaxed text-muted">{words.intro}</p>
 
       {request.isError && (
         <Alert tone="danger" live title="No link sent">

@@ -8,9 +8,11 @@ function Person({ role, person }: { role: string; person: PersonRef | null }) {
         {person ? (
           <>
             {person.name}
-            <a href={`mailto:${person.email}`} className="block min-h-11 py-2 text-sm break-all">
-              {person.email}
-            </a>
+            {person.email && (
+              <a href={`mailto:${person.email}`} className="block min-h-11 py-2 text-sm break-all">
+                {person.email}
+              </a>
+            )}
           </>
         ) : (
           <span className="text-muted">Not assigned</span>
