@@ -273,12 +273,24 @@ export function benchConfig() {
 
 export async function prepareDatabase(keep: boolean) {
   const config = benchConfig();
-  if (!keep) {
-    const admin = createSequelize({ ...config, DB_NAME: 'information_schema' });
+  const admin = createSequelize({ ...config, DB_NAME: 'information_schema' });
+  // Reused only when complete: data from before the generator made timelines is made again.
+  const [[found]] = (await admin.query(
+    `SELECT COUNT(*) AS n FROM information_schema.tables WHERE table_schema = ? AND table_name = 'ticket_events'`,
+    {
+      replacements: [DB_NAME],
+    },
+  )) as [Array<{ n: number }>, unknown];
+  const [[events]] =
+    Number(found.n) > 0
+      ? ((await admin.query(`SELECT EXISTS (SELECT 1 FROM ${DB_NAME}.ticket_events) AS n`)) as [Array<{ n: number }>, unknown])
+      : [[{ n: 0 }]];
+  const reuse = keep && Number(events.n) > 0;
+  if (!reuse) {
     await admin.query(`DROP DATABASE IF EXISTS ${DB_NAME}`);
     await admin.query(`CREATE DATABASE ${DB_NAME} CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
-    await admin.close();
   }
+  await admin.close();
   // A pool of one, so the session settings of the bulk load stay on the one connection.
   const sequelize = createSequelize({ ...config, DB_POOL_MAX: 1 });
   try {
@@ -289,11 +301,7 @@ export async function prepareDatabase(keep: boolean) {
     // tests/integration/analytics.test.ts.)
     const earlier = (await migrator.pending()).map((m) => m.name).filter((name) => name < ANALYTICS_MIGRATION);
     if (earlier.length > 0) await migrator.up({ migrations: earlier });
-    // Data from before the generator made timelines is generated again.
-    const [[existing]] = (await sequelize.query(
-      'SELECT LEAST((SELECT COUNT(*) FROM state_intervals), (SELECT COUNT(*) FROM ticket_events)) AS n',
-    )) as [Array<{ n: number }>, unknown];
-    if (keep && Number(existing.n) > 0) {
+    if (reuse) {
       await migrator.up();
       const [[counts]] = (await sequelize.query(
         `SELECT (SELECT COUNT(*) FROM state_intervals) AS intervals, (SELECT COUNT(*) FROM state_intervals WHERE module_id IS NULL) AS toolIntervals, (SELECT COUNT(*) FROM tickets) AS tickets, (SELECT COUNT(*) FROM ticket_events) AS events, (SELECT MAX(started_at) FROM state_intervals) AS latest`,

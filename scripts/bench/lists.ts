@@ -7,14 +7,17 @@
 // average.
 //
 //   npm run bench -- lists
-//   node --import tsx scripts/bench/lists.ts [--fresh]   (--fresh generates the data again)
+//   node --import tsx scripts/bench/lists.ts [--fresh] [--explain]
+//     (--fresh generates the data again; --explain prints the ticket lists' query plans first)
 
 import os from 'node:os';
-import { QueryTypes } from 'sequelize';
+import { QueryTypes, type Sequelize } from 'sequelize';
 import { createSequelize } from '../../server/db';
 import { startServer } from '../../server/server';
 import { benchConfig, cannon, prepareDatabase, signIn, timed } from './analytics';
-import { BENCH_MEMBER, LONG_TICKET_ID } from './lib/ticket-history';
+import { BENCH_MANAGER, BENCH_MEMBER, LONG_TICKET_ID } from './lib/ticket-history';
+import { countSql, pageIdsSql } from '../../server/modules/tickets/ticket-list.service';
+import { ticketListQuerySchema } from '../../shared/schemas/tickets';
 
 const SEQUENTIAL = 40;
 const CONNECTIONS = 10;
@@ -40,6 +43,46 @@ async function totalOf(url: string, headers: Record<string, string>) {
   return body.total;
 }
 
+interface PlanRow {
+  id: number;
+  select_type: string;
+  table: string;
+  type: string;
+  key: string | null;
+  rows: number;
+  Extra: string | null;
+}
+
+/** The query plans of the ticket lists' SQL (page ids both ways, and the count), as markdown. */
+async function explainLists(sequelize: Sequelize) {
+  const cases: [string, Record<string, string>, number][] = [
+    ['every ticket', { status: 'all' }, BENCH_MANAGER.id],
+    ['every ticket + my tools', { status: 'all', myTools: 'true' }, BENCH_MANAGER.id],
+    ['every ticket + hazard', { status: 'all', hazard: 'true' }, BENCH_MANAGER.id],
+    ['every ticket + area', { status: 'all', areaId: '3' }, BENCH_MANAGER.id],
+    ['resolved, newest', { status: 'resolved', sort: 'newest' }, BENCH_MANAGER.id],
+    ['my reports', { status: 'all', sort: 'newest', reportedByMe: 'true' }, BENCH_MEMBER.id],
+  ];
+  for (const [name, raw, userId] of cases) {
+    const q = ticketListQuerySchema.parse(raw);
+    const user = { id: userId, email: '', name: '', role: 'manager' as const };
+    for (const [label, built] of [
+      ['page ids', pageIdsSql(user, q, false)],
+      ['page ids, backwards', pageIdsSql(user, q, true)],
+      ['count', countSql(user, q)],
+    ] as const) {
+      const plan = await sequelize.query<PlanRow>(`EXPLAIN ${built.sql}`, {
+        type: QueryTypes.SELECT,
+        replacements: { ...built.replacements, limit: PAGE, offset: 0 },
+      });
+      console.log(`\n${name} — ${label}\n\n| id | select_type | table | type | key | rows | Extra |\n|---|---|---|---|---|---:|---|`);
+      for (const r of plan)
+        console.log(`| ${r.id} | ${r.select_type} | ${r.table} | ${r.type} | ${r.key ?? ''} | ${r.rows} | ${r.Extra ?? ''} |`);
+    }
+  }
+  console.log('');
+}
+
 async function main() {
   const { counts } = await prepareDatabase(!process.argv.includes('--fresh'));
   const config = benchConfig();
@@ -55,6 +98,7 @@ async function main() {
     type: QueryTypes.SELECT,
     replacements: [LONG_TICKET_ID],
   });
+  if (process.argv.includes('--explain')) await explainLists(sequelize);
   await sequelize.close();
 
   console.log(
@@ -103,7 +147,7 @@ async function main() {
         .join(' / ')} (1 / 5 / 15 min, ${os.cpus().length} cores)\n`,
     );
 
-    console.log(`| list | seq p50 | seq p99 | × floor | ${CONNECTIONS} conn p50 | ${CONNECTIONS} conn p99 | non-2xx | goal |`);
+    console.log(`| list | seq p50 | seq p99 | × floor | ${CONNECTIONS} conn p50 | ${CONNECTIONS} conn p99 | non-2xx, errors | goal |`);
     console.log('|---|---:|---:|---:|---:|---:|---:|---|');
     let missed = 0;
     for (const t of targets) {
@@ -113,10 +157,18 @@ async function main() {
       // autocannon stops with requests still running on the server: let them finish.
       await new Promise((resolve) => setTimeout(resolve, 500));
       const times = seq.median / floor.median;
-      const ok = seq.median <= GOAL_P50_MS && times <= GOAL_FLOOR_TIMES && loaded.latency.p99 <= GOAL_LOADED_P99_MS && loaded.non2xx === 0;
+      // Under load a slow list may finish no request within the run: that is a miss, not 0 ms.
+      const finished = loaded.requests.total > 0 && loaded.latency.p99 > 0;
+      const ok =
+        seq.median <= GOAL_P50_MS &&
+        times <= GOAL_FLOOR_TIMES &&
+        finished &&
+        loaded.latency.p99 <= GOAL_LOADED_P99_MS &&
+        loaded.non2xx === 0;
+      const under = (ms: number) => (finished ? fmt(ms) : `> ${SECONDS} s`);
       if (!ok) missed++;
       console.log(
-        `| ${t.name} | ${fmt(seq.median)} | ${fmt(seq.p99)} | ${times.toFixed(1).padStart(6)}× | ${fmt(loaded.latency.p50)} | ${fmt(loaded.latency.p99)} | ${loaded.non2xx} | ${ok ? 'met' : 'NOT met'} |`,
+        `| ${t.name} | ${fmt(seq.median)} | ${fmt(seq.p99)} | ${times.toFixed(1).padStart(6)}× | ${under(loaded.latency.p50)} | ${under(loaded.latency.p99)} | ${loaded.non2xx + loaded.errors + loaded.timeouts} | ${ok ? 'met' : 'NOT met'} |`,
       );
     }
     const floorAfter = await timed(`${base}/api/health`, {}, 200);

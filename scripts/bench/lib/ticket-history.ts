@@ -56,7 +56,6 @@ export async function generatePeopleAndTimelines(sequelize: Sequelize, startMs: 
       parts_used = IF(fixed_at IS NULL, NULL, 'Seal kit, lint-free wipes'),
       hands_on_minutes = IF(fixed_at IS NULL, NULL, 20 + id % 100)`);
 
-  const tech = `CONCAT('Bench technician ', t.assignee_id - ${FIRST_TECH - 1})`;
   const insert = `INSERT INTO ticket_events (ticket_id, actor_id, kind, internal, body, data, created_at)`;
   await q(`${insert} SELECT t.id, t.reporter_id, 'reported', 0, t.description,
       JSON_OBJECT('category', t.category, 'impact', t.impact, 'hazards', JSON_EXTRACT(t.hazards, '$'), 'alarmText', t.alarm_text), t.created_at
@@ -65,8 +64,8 @@ export async function generatePeopleAndTimelines(sequelize: Sequelize, startMs: 
       JSON_OBJECT('to', JSON_OBJECT('state', 'unscheduled_downtime', 'reason', 'repair'), 'source', 'staff', 'confirmed', true), t.created_at + INTERVAL 2 SECOND
     FROM tickets t WHERE t.impact = 'tool_stopped'`);
   await q(`${insert} SELECT t.id, t.assignee_id, 'assignment', 0, NULL,
-      JSON_OBJECT('from', NULL, 'to', JSON_OBJECT('id', t.assignee_id, 'name', ${tech}), 'automatic', false), t.acknowledged_at
-    FROM tickets t WHERE t.acknowledged_at IS NOT NULL AND t.assignee_id IS NOT NULL`);
+      JSON_OBJECT('from', NULL, 'to', JSON_OBJECT('id', t.assignee_id, 'name', u.name), 'automatic', false), t.acknowledged_at
+    FROM tickets t JOIN users u ON u.id = t.assignee_id WHERE t.acknowledged_at IS NOT NULL`);
   await q(`${insert} SELECT t.id, t.assignee_id, 'status', 0, NULL, JSON_OBJECT('action', 'acknowledge', 'from', 'reported', 'to', 'acknowledged'), t.acknowledged_at + INTERVAL 1 SECOND
     FROM tickets t WHERE t.acknowledged_at IS NOT NULL`);
   await q(

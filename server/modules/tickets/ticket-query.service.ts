@@ -1,27 +1,51 @@
-import { Op, literal, type Transaction, type WhereOptions, type Includeable } from 'sequelize';
+import { Op, literal, type Transaction, type Includeable } from 'sequelize';
 import { Ticket, TicketEvent, Photo, ServiceTarget } from './ticket.model';
+import { loadTimeline, timelineTicketIds } from './ticket-timeline.service';
 import { Tool, ToolModule, Area, StateInterval } from '../facility/facility.model';
 import { User } from '../users/user.model';
 import { notFound } from '../../lib/errors';
 import type { AppDeps, AuthUser } from '../../lib/http';
 import { isStaff } from '../../../shared/roles';
-import { OPEN_STATUSES, RESOLVED_STATUSES, allowedActions, isOpenStatus } from '../../../shared/ticket-workflow';
-import { PRIORITIES, SERVICE_TARGET_DEFAULTS, computePriority, targetStatus, type Priority, type ServiceTarget as Target } from '../../../shared/priority';
+import { allowedActions, isOpenStatus } from '../../../shared/ticket-workflow';
+import {
+  PRIORITIES,
+  SERVICE_TARGET_DEFAULTS,
+  computePriority,
+  targetStatus,
+  type Priority,
+  type ServiceTarget as Target,
+} from '../../../shared/priority';
 import type { TicketCategory } from '../../../shared/report-options';
-import type { TicketDetail, TicketEventView, TicketList, TicketSummary, TicketTargets, TargetClock, PhotoView, ServiceTargetView, ToolStateView, ticketListQuerySchema } from '../../../shared/schemas/tickets';
-import type { z } from 'zod';
+import type {
+  TicketDetail,
+  TicketSummary,
+  TicketTargets,
+  TargetClock,
+  ServiceTargetView,
+  ToolStateView,
+} from '../../../shared/schemas/tickets';
 
 const person = (u: User | null | undefined) => (u ? { id: u.id, name: u.name } : null);
 const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
 
 export const summaryIncludes = (): Includeable[] => [
-  { model: Tool, as: 'tool', attributes: ['id', 'code', 'name', 'areaId', 'criticality', 'primaryEngineerId', 'backupEngineerId'], include: [{ model: Area, as: 'area', attributes: ['id', 'name'] }] },
+  {
+    model: Tool,
+    as: 'tool',
+    attributes: ['id', 'code', 'name', 'areaId', 'criticality', 'primaryEngineerId', 'backupEngineerId'],
+    include: [{ model: Area, as: 'area', attributes: ['id', 'name'] }],
+  },
   { model: ToolModule, as: 'module', attributes: ['id', 'code', 'name'] },
   { model: User, as: 'reporter', attributes: ['id', 'name'] },
   { model: User, as: 'assignee', attributes: ['id', 'name'] },
 ];
 
-type WithIncludes = Ticket & { tool?: Tool & { area?: Area }; module?: ToolModule | null; reporter?: User | null; assignee?: User | null };
+export type WithIncludes = Ticket & {
+  tool?: Tool & { area?: Area };
+  module?: ToolModule | null;
+  reporter?: User | null;
+  assignee?: User | null;
+};
 
 export type TargetTable = Record<Priority, Target>;
 
@@ -38,14 +62,24 @@ export async function listServiceTargets(): Promise<ServiceTargetView[]> {
   return PRIORITIES.map((p) => {
     const row = byPriority.get(p);
     const values = row ?? SERVICE_TARGET_DEFAULTS[p];
-    return { priority: p, acknowledgeMinutes: values.acknowledgeMinutes, restoreMinutes: values.restoreMinutes, updatedAt: iso(row?.updatedAt) ?? new Date(0).toISOString() };
+    return {
+      priority: p,
+      acknowledgeMinutes: values.acknowledgeMinutes,
+      restoreMinutes: values.restoreMinutes,
+      updatedAt: iso(row?.updatedAt) ?? new Date(0).toISOString(),
+    };
   });
 }
 
 function clock(createdAt: Date, minutes: number, doneAt: Date | null, now: Date): TargetClock {
   const end = doneAt ?? now;
   const elapsed = (end.getTime() - createdAt.getTime()) / 60_000;
-  return { targetMinutes: minutes, dueAt: new Date(createdAt.getTime() + minutes * 60_000).toISOString(), doneAt: iso(doneAt), status: targetStatus(Math.max(0, elapsed), minutes) };
+  return {
+    targetMinutes: minutes,
+    dueAt: new Date(createdAt.getTime() + minutes * 60_000).toISOString(),
+    doneAt: iso(doneAt),
+    status: targetStatus(Math.max(0, elapsed), minutes),
+  };
 }
 
 /**
@@ -71,7 +105,13 @@ export function toSummary(t: WithIncludes, table: TargetTable, now = new Date())
     impact: t.impact,
     hazards: t.hazards ?? [],
     waitReason: t.waitReason,
-    tool: { id: t.toolId, code: t.tool?.code ?? '', name: t.tool?.name ?? '', areaId: t.tool?.areaId ?? 0, areaName: t.tool?.area?.name ?? null },
+    tool: {
+      id: t.toolId,
+      code: t.tool?.code ?? '',
+      name: t.tool?.name ?? '',
+      areaId: t.tool?.areaId ?? 0,
+      areaName: t.tool?.area?.name ?? null,
+    },
     module: t.module ? { id: t.module.id, code: t.module.code, name: t.module.name } : null,
     reporter: person(t.reporter),
     assignee: person(t.assignee),
@@ -86,58 +126,19 @@ export function toSummary(t: WithIncludes, table: TargetTable, now = new Date())
   };
 }
 
-type ListQuery = z.output<typeof ticketListQuerySchema>;
-
-export async function listTickets(deps: AppDeps, user: AuthUser, q: ListQuery): Promise<TicketList> {
-  const and: WhereOptions[] = [];
-  if (q.status === 'open') and.push({ status: [...OPEN_STATUSES] });
-  else if (q.status === 'resolved') and.push({ status: [...RESOLVED_STATUSES] });
-  else if (q.status !== 'all') and.push({ status: q.status });
-  if (q.waiting) and.push({ status: 'waiting' });
-  if (q.mine) and.push({ assigneeId: user.id });
-  if (q.unassigned) and.push({ assigneeId: null });
-  if (q.toolId) and.push({ toolId: q.toolId });
-  if (q.areaId) and.push({ '$tool.area_id$': q.areaId });
-  if (q.hazard) and.push(literal('JSON_LENGTH(`Ticket`.`hazards`) > 0'));
-  if (q.myTools) and.push({ [Op.or]: [{ '$tool.primary_engineer_id$': user.id }, { '$tool.backup_engineer_id$': user.id }] });
-  if (q.reportedByMe) {
-    const me = deps.sequelize.escape(user.id);
-    and.push({
-      [Op.or]: [
-        { reporterId: user.id },
-        literal(`\`Ticket\`.\`id\` IN (SELECT e.ticket_id FROM ticket_events e WHERE e.kind = 'added_report' AND e.actor_id = ${me})`),
-      ],
-    });
-  }
-  const order: [string, string][] =
-    q.sort === 'queue'
-      ? [
-          ['priority', 'ASC'],
-          ['createdAt', 'ASC'],
-          ['id', 'ASC'],
-        ]
-      : [
-          ['createdAt', 'DESC'],
-          ['id', 'DESC'],
-        ];
-  const { rows, count } = await Ticket.findAndCountAll({ where: { [Op.and]: and }, include: summaryIncludes(), order, limit: q.limit, offset: q.offset });
-  const table = await loadServiceTargets();
-  const now = new Date();
-  return { items: rows.map((r) => toSummary(r as WithIncludes, table, now)), total: count, limit: q.limit, offset: q.offset };
-}
-
 export async function findTicket(id: number, transaction?: Transaction): Promise<WithIncludes> {
   const t = await Ticket.findByPk(id, { include: summaryIncludes(), transaction });
   if (!t) throw notFound('That ticket');
   return t as WithIncludes;
 }
 
-function photoView(p: Photo & { uploader?: User | null }): PhotoView {
-  return { id: p.id, url: `/api/photos/${p.id}`, thumbUrl: `/api/photos/${p.id}/thumb`, width: p.width, height: p.height, uploader: person(p.uploader) };
-}
-
 export async function openToolStates(toolId: number, transaction?: Transaction): Promise<ToolStateView[]> {
-  const open = await StateInterval.findAll({ where: { toolId, endedAt: null }, order: [['moduleId', 'ASC']], transaction });
+  // open_flag (1 only on open intervals) is indexed with the tool; `ended_at IS NULL` is not.
+  const open = await StateInterval.findAll({
+    where: { toolId, [Op.and]: [literal('`StateInterval`.`open_flag` = 1')] },
+    order: [['moduleId', 'ASC']],
+    transaction,
+  });
   return open.map((s) => ({
     moduleId: s.moduleId,
     state: s.state,
@@ -153,44 +154,17 @@ export async function openToolStates(toolId: number, transaction?: Transaction):
 export async function getTicketDetail(deps: AppDeps, user: AuthUser, id: number): Promise<TicketDetail> {
   const t = await findTicket(id);
   const staff = isStaff(user.role);
-  const merged = await Ticket.findAll({ where: { mergedIntoId: t.id }, attributes: ['id', 'title'], order: [['id', 'ASC']] });
-  const ticketIds = [t.id, ...merged.map((m) => m.id)];
-  // Members never receive internal notes: they are filtered here, in the query, not on screen.
-  const events = await TicketEvent.findAll({
-    where: { ticketId: ticketIds, ...(staff ? {} : { internal: false }) },
-    include: [{ model: User, as: 'actor', attributes: ['id', 'name'] }],
+  const { merged, ticketIds } = await timelineTicketIds(t.id);
+  const timeline = await loadTimeline(deps.sequelize, { ticketId: t.id, ticketIds, staff });
+
+  const modules = await ToolModule.findAll({
+    where: { toolId: t.toolId, retiredAt: null },
     order: [
-      ['createdAt', 'ASC'],
+      ['sortOrder', 'ASC'],
       ['id', 'ASC'],
     ],
+    attributes: ['id', 'code', 'name'],
   });
-  const photos = await Photo.findAll({
-    where: { ticketId: ticketIds, eventId: events.map((e) => e.id) },
-    include: [{ model: User, as: 'uploader', attributes: ['id', 'name'] }],
-    order: [['id', 'ASC']],
-  });
-  const photosByEvent = new Map<number, PhotoView[]>();
-  for (const p of photos) {
-    const list = photosByEvent.get(Number(p.eventId)) ?? [];
-    list.push(photoView(p as Photo & { uploader?: User | null }));
-    photosByEvent.set(Number(p.eventId), list);
-  }
-  const eventViews: TicketEventView[] = events.map((e) => {
-    const ev = e as TicketEvent & { actor?: User | null };
-    return {
-      id: Number(ev.id),
-      kind: ev.kind,
-      internal: ev.internal,
-      actor: person(ev.actor),
-      body: ev.body,
-      data: ev.data,
-      createdAt: ev.createdAt.toISOString(),
-      photos: photosByEvent.get(Number(ev.id)) ?? [],
-      fromTicketId: ev.ticketId === t.id ? null : ev.ticketId,
-    };
-  });
-
-  const modules = await ToolModule.findAll({ where: { toolId: t.toolId, retiredAt: null }, order: [['sortOrder', 'ASC'], ['id', 'ASC']], attributes: ['id', 'code', 'name'] });
   const toolStates = await openToolStates(t.toolId);
   const table = await loadServiceTargets();
   const isReporter = t.reporterId === user.id;
@@ -202,9 +176,16 @@ export async function getTicketDetail(deps: AppDeps, user: AuthUser, id: number)
     actions.push('note');
     if (isOpenStatus(t.status)) actions.push('assign', 'set_priority');
     if (t.status !== 'merged') actions.push('set_state');
-    if (toolStates.some((s) => s.ticketId === t.id && s.source === 'user_report' && !s.confirmed)) actions.push('confirm_down', 'revert_down');
+    if (toolStates.some((s) => s.ticketId === t.id && s.source === 'user_report' && !s.confirmed))
+      actions.push('confirm_down', 'revert_down');
   }
-  const priority = computePriority({ impact: t.impact, hazards: t.hazards ?? [], wafersAtRisk: t.wafersCount, wafersKnownSafe: t.wafersRecoverable === 'yes', criticality: t.tool?.criticality ?? 'normal' });
+  const priority = computePriority({
+    impact: t.impact,
+    hazards: t.hazards ?? [],
+    wafersAtRisk: t.wafersCount,
+    wafersKnownSafe: t.wafersRecoverable === 'yes',
+    criticality: t.tool?.criticality ?? 'normal',
+  });
 
   return {
     ...toSummary(t, table),
@@ -226,7 +207,8 @@ export async function getTicketDetail(deps: AppDeps, user: AuthUser, id: number)
     priorityReasons: t.priorityOverridden ? [] : priority.reasons,
     modules: modules.map((m) => ({ id: m.id, code: m.code, name: m.name })),
     toolStates,
-    events: eventViews,
+    events: timeline.events,
+    olderEvents: timeline.olderEvents,
     mergedFrom: merged.map((m) => ({ id: m.id, title: m.title })),
     allowedActions: actions,
     viewer: { id: user.id, role: user.role, isReporter },
@@ -247,7 +229,11 @@ export async function findVisiblePhoto(user: AuthUser, id: number) {
 /** Staff who can be assigned, for the assignee picker. */
 export async function listStaff(q: { search?: string; limit: number }) {
   const users = await User.findAll({
-    where: { active: true, role: { [Op.ne]: 'member' }, ...(q.search ? { name: { [Op.like]: `%${q.search.replace(/[%_\\]/g, (c) => `\\${c}`)}%` } } : {}) },
+    where: {
+      active: true,
+      role: { [Op.ne]: 'member' },
+      ...(q.search ? { name: { [Op.like]: `%${q.search.replace(/[%_\\]/g, (c) => `\\${c}`)}%` } } : {}),
+    },
     attributes: ['id', 'name', 'role'],
     order: [['name', 'ASC']],
     limit: q.limit,
@@ -264,9 +250,22 @@ export async function listToolChoices(query: { q?: string; code?: string; id?: n
     ...(query.code ? { code: query.code.toUpperCase() } : {}),
     ...(query.q ? { [Op.or]: [{ name: { [Op.like]: like(query.q) } }, { code: { [Op.like]: like(query.q) } }] } : {}),
   };
-  const tools = await Tool.findAll({ where, include: [{ model: Area, as: 'area', attributes: ['id', 'name'] }], attributes: ['id', 'code', 'name', 'areaId'], order: [['name', 'ASC']], limit: query.limit });
+  const tools = await Tool.findAll({
+    where,
+    include: [{ model: Area, as: 'area', attributes: ['id', 'name'] }],
+    attributes: ['id', 'code', 'name', 'areaId'],
+    order: [['name', 'ASC']],
+    limit: query.limit,
+  });
   const modules = tools.length
-    ? await ToolModule.findAll({ where: { toolId: tools.map((t) => t.id), retiredAt: null }, order: [['sortOrder', 'ASC'], ['id', 'ASC']], attributes: ['id', 'toolId', 'code', 'name'] })
+    ? await ToolModule.findAll({
+        where: { toolId: tools.map((t) => t.id), retiredAt: null },
+        order: [
+          ['sortOrder', 'ASC'],
+          ['id', 'ASC'],
+        ],
+        attributes: ['id', 'toolId', 'code', 'name'],
+      })
     : [];
   return {
     items: tools.map((t) => ({
