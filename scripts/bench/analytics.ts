@@ -8,17 +8,19 @@
 // The history is invented and generated from a fixed seed.
 
 import os from 'node:os';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { performance } from 'node:perf_hooks';
 import autocannon from 'autocannon';
 import type { Sequelize } from 'sequelize';
 import { loadConfig } from '../../server/config';
 import { createMigrator, createSequelize } from '../../server/db';
 import { createRandom, type Random } from '../../server/db/seed/random';
-import { hashPassword } from '../../server/modules/users/password';
 import { startServer } from '../../server/server';
 import { TICKET_CATEGORIES } from '../../shared/report-options';
 import type { E10State, StateReason } from '../../shared/equipment-state';
 import { localSecrets } from '../lib/local-secrets';
+import { BENCH_MANAGER, BENCH_PASSWORD, generatePeopleAndTimelines } from './lib/ticket-history';
 
 // BENCH_DB_NAME lets a developer keep a second copy while another benchmark uses the default.
 const DB_NAME = process.env.BENCH_DB_NAME ?? 'faultline_bench';
@@ -29,7 +31,6 @@ const AREAS = 12;
 const YEARS = 5;
 const HOUR_MS = 3_600_000;
 const DAY_MS = 24 * HOUR_MS;
-const PASSWORD = 'bench-manager-password-42';
 const ANALYTICS_MIGRATION = '0006-analytics-rollup.ts';
 
 const FAILURE_MODES = [
@@ -246,11 +247,17 @@ export async function generate(sequelize: Sequelize, now: number) {
         `(${iv.toolId}, ${iv.moduleId ?? 'NULL'}, '${iv.state}', '${iv.reason}', ${sqlDate(iv.start)}, ${d(iv.end)}, ${iv.ticketId ?? 'NULL'}, 'staff', 1, ${sqlDate(iv.start)})`,
     ),
   );
+  const { events } = await generatePeopleAndTimelines(sequelize, start);
   await sequelize.query('SET SESSION foreign_key_checks = 1, unique_checks = 1');
-  return { intervals: intervals.length, toolIntervals: intervals.filter((i) => i.moduleId === null).length, tickets: tickets.length };
+  return {
+    intervals: intervals.length,
+    toolIntervals: intervals.filter((i) => i.moduleId === null).length,
+    tickets: tickets.length,
+    events,
+  };
 }
 
-function benchConfig() {
+export function benchConfig() {
   // Run alone (not through run.ts), the local secrets are not in the environment yet.
   const secrets = localSecrets();
   return loadConfig(process.env, {
@@ -264,14 +271,26 @@ function benchConfig() {
   });
 }
 
-async function prepareDatabase(keep: boolean) {
+export async function prepareDatabase(keep: boolean) {
   const config = benchConfig();
-  if (!keep) {
-    const admin = createSequelize({ ...config, DB_NAME: 'information_schema' });
+  const admin = createSequelize({ ...config, DB_NAME: 'information_schema' });
+  // Reused only when complete: data from before the generator made timelines is made again.
+  const [[found]] = (await admin.query(
+    `SELECT COUNT(*) AS n FROM information_schema.tables WHERE table_schema = ? AND table_name = 'ticket_events'`,
+    {
+      replacements: [DB_NAME],
+    },
+  )) as [Array<{ n: number }>, unknown];
+  const [[events]] =
+    Number(found.n) > 0
+      ? ((await admin.query(`SELECT EXISTS (SELECT 1 FROM ${DB_NAME}.ticket_events) AS n`)) as [Array<{ n: number }>, unknown])
+      : [[{ n: 0 }]];
+  const reuse = keep && Number(events.n) > 0;
+  if (!reuse) {
     await admin.query(`DROP DATABASE IF EXISTS ${DB_NAME}`);
     await admin.query(`CREATE DATABASE ${DB_NAME} CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
-    await admin.close();
   }
+  await admin.close();
   // A pool of one, so the session settings of the bulk load stay on the one connection.
   const sequelize = createSequelize({ ...config, DB_POOL_MAX: 1 });
   try {
@@ -282,14 +301,18 @@ async function prepareDatabase(keep: boolean) {
     // tests/integration/analytics.test.ts.)
     const earlier = (await migrator.pending()).map((m) => m.name).filter((name) => name < ANALYTICS_MIGRATION);
     if (earlier.length > 0) await migrator.up({ migrations: earlier });
-    const [[existing]] = (await sequelize.query('SELECT COUNT(*) AS n FROM state_intervals')) as [Array<{ n: number }>, unknown];
-    if (keep && Number(existing.n) > 0) {
+    if (reuse) {
       await migrator.up();
       const [[counts]] = (await sequelize.query(
-        `SELECT (SELECT COUNT(*) FROM state_intervals) AS intervals, (SELECT COUNT(*) FROM state_intervals WHERE module_id IS NULL) AS toolIntervals, (SELECT COUNT(*) FROM tickets) AS tickets, (SELECT MAX(started_at) FROM state_intervals) AS latest`,
-      )) as [Array<{ intervals: number; toolIntervals: number; tickets: number; latest: Date }>, unknown];
+        `SELECT (SELECT COUNT(*) FROM state_intervals) AS intervals, (SELECT COUNT(*) FROM state_intervals WHERE module_id IS NULL) AS toolIntervals, (SELECT COUNT(*) FROM tickets) AS tickets, (SELECT COUNT(*) FROM ticket_events) AS events, (SELECT MAX(started_at) FROM state_intervals) AS latest`,
+      )) as [Array<{ intervals: number; toolIntervals: number; tickets: number; events: number; latest: Date }>, unknown];
       return {
-        counts: { intervals: Number(counts.intervals), toolIntervals: Number(counts.toolIntervals), tickets: Number(counts.tickets) },
+        counts: {
+          intervals: Number(counts.intervals),
+          toolIntervals: Number(counts.toolIntervals),
+          tickets: Number(counts.tickets),
+          events: Number(counts.events),
+        },
         seconds: 0,
         now: new Date(counts.latest).getTime(),
       };
@@ -301,38 +324,32 @@ async function prepareDatabase(keep: boolean) {
     await sequelize.query(
       'ANALYZE TABLE state_intervals, tickets, tools, state_hours_monthly, downtime_hours_by_ticket, state_stretch_starts',
     );
-    const email = 'bench.manager@bench.faultline.test';
-    const stamp = sqlDate(now);
-    await sequelize.query(
-      `INSERT INTO users (email, name, role, password_hash, active, on_call, created_at, updated_at) VALUES (?, 'Bench manager', 'manager', ?, 1, 0, ${stamp}, ${stamp})`,
-      { replacements: [email, await hashPassword(PASSWORD)] },
-    );
     return { counts, seconds: (performance.now() - t0) / 1000, now };
   } finally {
     await sequelize.close();
   }
 }
 
-async function signIn(url: string): Promise<Record<string, string>> {
+export async function signIn(url: string, email = BENCH_MANAGER.email): Promise<Record<string, string>> {
   const first = await fetch(`${url}/api/session`);
   const cookie = first.headers.get('set-cookie')!.split(';')[0];
   const { csrfToken } = (await first.json()) as { csrfToken: string };
   const res = await fetch(`${url}/api/session`, {
     method: 'POST',
     headers: { cookie, 'content-type': 'application/json', 'x-csrf-token': csrfToken, origin: url },
-    body: JSON.stringify({ email: 'bench.manager@bench.faultline.test', password: PASSWORD }),
+    body: JSON.stringify({ email, password: BENCH_PASSWORD }),
   });
   if (res.status !== 200) throw new Error(`bench sign-in failed: ${res.status} ${await res.text()}`);
   const fresh = res.headers.get('set-cookie');
   return { cookie: fresh ? fresh.split(';')[0] : cookie };
 }
 
-function percentile(sorted: number[], p: number): number {
+export function percentile(sorted: number[], p: number): number {
   const i = Math.min(sorted.length - 1, Math.max(0, Math.ceil(p * sorted.length) - 1));
   return sorted[i];
 }
 
-async function timed(url: string, headers: Record<string, string>, n: number) {
+export async function timed(url: string, headers: Record<string, string>, n: number) {
   const times: number[] = [];
   for (let i = 0; i < n; i++) {
     const t0 = performance.now();
@@ -345,7 +362,7 @@ async function timed(url: string, headers: Record<string, string>, n: number) {
   return { median: percentile(times, 0.5), p90: percentile(times, 0.9), p99: percentile(times, 0.99), n };
 }
 
-function cannon(url: string, headers: Record<string, string>, connections: number, duration: number) {
+export function cannon(url: string, headers: Record<string, string>, connections: number, duration: number) {
   return new Promise<autocannon.Result>((resolve, reject) => {
     autocannon({ url, headers, connections, duration }, (error, result) => (error ? reject(error) : resolve(result)));
   });
@@ -360,7 +377,7 @@ async function main() {
   console.log(`analytics bench · database ${DB_NAME}`);
   console.log(
     `  data: ${TOOLS} tools in ${AREAS} areas, ${YEARS} years; ${counts.intervals.toLocaleString('en')} state intervals ` +
-      `(${counts.toolIntervals.toLocaleString('en')} tool-level), ${counts.tickets.toLocaleString('en')} tickets` +
+      `(${counts.toolIntervals.toLocaleString('en')} tool-level), ${counts.tickets.toLocaleString('en')} tickets, ${counts.events.toLocaleString('en')} timeline events` +
       (prepared.seconds ? `; generated and loaded in ${prepared.seconds.toFixed(1)} s` : '; reused'),
   );
 
@@ -407,4 +424,5 @@ async function main() {
   }
 }
 
-await main();
+// Other benchmarks reuse the generator and helpers above; only run when started directly.
+if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.meta.url)) await main();

@@ -232,7 +232,16 @@ export const ticketListQuerySchema = z.strictObject({
   areaId: z.coerce.number().int().positive().optional(),
   sort: z.enum(['queue', 'newest']).default('queue'),
   limit: z.coerce.number().int().min(1).max(100).default(25),
+  /**
+   * Where the page starts. Without a cursor it selects the page; with one (`after`, `before`,
+   * `last`) it is only echoed back, so the client can keep showing the page's position.
+   */
   offset: z.coerce.number().int().min(0).max(1_000_000).default(0),
+  /** Keyset paging: the page right after (or before) this ticket in the list's order. */
+  after: z.coerce.number().int().positive().optional(),
+  before: z.coerce.number().int().positive().optional(),
+  /** The last page, read from the end of the list. */
+  last: flag,
 });
 /** The list filters as a client sends them (query strings; flags as 'true'). */
 export interface TicketListQuery {
@@ -248,6 +257,9 @@ export interface TicketListQuery {
   sort?: 'queue' | 'newest';
   limit?: number;
   offset?: number;
+  after?: number;
+  before?: number;
+  last?: 'true';
 }
 
 export const serviceTargetInputSchema = z
@@ -325,9 +337,14 @@ export interface TicketSummary {
 
 export interface TicketList {
   items: TicketSummary[];
+  /** Exact up to the count cap; past it `total` is the cap and `totalCapped` is true ("10,000+"). */
   total: number;
+  totalCapped: boolean;
   limit: number;
   offset: number;
+  /** Whether the list goes on before the first and after the last item of this page. */
+  hasPrevious: boolean;
+  hasNext: boolean;
 }
 
 export interface PhotoView {
@@ -350,6 +367,12 @@ export interface TicketEventView {
   photos: PhotoView[];
   /** Set when the event belongs to a ticket that was merged into this one. */
   fromTicketId: number | null;
+}
+
+/** A page of a ticket's timeline, oldest first, and how many visible events come before it. */
+export interface TicketEventPage {
+  events: TicketEventView[];
+  olderEvents: number;
 }
 
 export interface ToolStateView {
@@ -384,7 +407,9 @@ export interface TicketDetail extends TicketSummary {
   modules: { id: number; code: string; name: string }[];
   /** The open state of the tool and each module, so the page can show "reported by a user". */
   toolStates: ToolStateView[];
+  /** The newest events, oldest first; `olderEvents` more load from GET /tickets/:id/events. */
   events: TicketEventView[];
+  olderEvents: number;
   mergedFrom: { id: number; title: string }[];
   /** What the viewer may do now (workflow actions plus staff-only actions). */
   allowedActions: (TicketAction | (typeof STAFF_ONLY_ACTIONS)[number] | 'comment' | 'note' | 'add_report')[];

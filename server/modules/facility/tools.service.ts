@@ -399,20 +399,23 @@ export async function getToolHistory(deps: AppDeps, toolId: number, query: Histo
     replacements.moduleKey = query.moduleId === 'tool' ? 0 : query.moduleId;
   }
   const [rows, totals] = await Promise.all([
+    // The page's ids first (from the index, newest first), then each entry's previous state
+    // by one index seek backwards in its own log: the cost is the page's, not the history's.
     deps.sequelize.query<HistoryRow>(
-      `SELECT h.* FROM (
-         SELECT si.id, si.module_id AS moduleId, m.name AS moduleName, si.state,
-                LAG(si.state) OVER (PARTITION BY si.module_key ORDER BY si.started_at, si.id) AS previousState,
-                si.reason, si.note, si.restriction, si.started_at AS startedAt, si.ended_at AS endedAt,
-                si.expected_return_at AS expectedReturnAt, si.ticket_id AS ticketId, si.source, si.confirmed,
-                si.set_by_id AS setById, u.name AS setByName
-           FROM state_intervals si
-           LEFT JOIN modules m ON m.id = si.module_id
-           LEFT JOIN users u ON u.id = si.set_by_id
-          WHERE si.tool_id = :toolId ${scope}
-       ) h
-       ORDER BY h.startedAt DESC, h.id DESC
-       LIMIT :limit OFFSET :offset`,
+      `SELECT si.id, si.module_id AS moduleId, m.name AS moduleName, si.state,
+              (SELECT p.state FROM state_intervals p
+                WHERE p.tool_id = si.tool_id AND p.module_key = si.module_key AND p.started_at <= si.started_at
+                  AND (p.started_at < si.started_at OR p.id < si.id)
+                ORDER BY p.started_at DESC, p.id DESC LIMIT 1) AS previousState,
+              si.reason, si.note, si.restriction, si.started_at AS startedAt, si.ended_at AS endedAt,
+              si.expected_return_at AS expectedReturnAt, si.ticket_id AS ticketId, si.source, si.confirmed,
+              si.set_by_id AS setById, u.name AS setByName
+         FROM (SELECT si.id FROM state_intervals si WHERE si.tool_id = :toolId ${scope}
+                ORDER BY si.started_at DESC, si.id DESC LIMIT :limit OFFSET :offset) page
+         JOIN state_intervals si ON si.id = page.id
+         LEFT JOIN modules m ON m.id = si.module_id
+         LEFT JOIN users u ON u.id = si.set_by_id
+        ORDER BY si.started_at DESC, si.id DESC`,
       { type: QueryTypes.SELECT, replacements },
     ),
     deps.sequelize.query<{ n: number }>(`SELECT COUNT(*) AS n FROM state_intervals si WHERE si.tool_id = :toolId ${scope}`, {

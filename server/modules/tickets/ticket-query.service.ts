@@ -1,11 +1,12 @@
-import { Op, literal, type Transaction, type WhereOptions, type Includeable } from 'sequelize';
+import { Op, literal, type Transaction, type Includeable } from 'sequelize';
 import { Ticket, TicketEvent, Photo, ServiceTarget } from './ticket.model';
+import { loadTimeline, timelineTicketIds } from './ticket-timeline.service';
 import { Tool, ToolModule, Area, StateInterval } from '../facility/facility.model';
 import { User } from '../users/user.model';
 import { notFound } from '../../lib/errors';
 import type { AppDeps, AuthUser } from '../../lib/http';
 import { isStaff } from '../../../shared/roles';
-import { OPEN_STATUSES, RESOLVED_STATUSES, allowedActions, isOpenStatus } from '../../../shared/ticket-workflow';
+import { allowedActions, isOpenStatus } from '../../../shared/ticket-workflow';
 import {
   PRIORITIES,
   SERVICE_TARGET_DEFAULTS,
@@ -17,17 +18,12 @@ import {
 import type { TicketCategory } from '../../../shared/report-options';
 import type {
   TicketDetail,
-  TicketEventView,
-  TicketList,
   TicketSummary,
   TicketTargets,
   TargetClock,
-  PhotoView,
   ServiceTargetView,
   ToolStateView,
-  ticketListQuerySchema,
 } from '../../../shared/schemas/tickets';
-import type { z } from 'zod';
 
 const person = (u: User | null | undefined) => (u ? { id: u.id, name: u.name } : null);
 const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
@@ -44,7 +40,12 @@ export const summaryIncludes = (): Includeable[] => [
   { model: User, as: 'assignee', attributes: ['id', 'name'] },
 ];
 
-type WithIncludes = Ticket & { tool?: Tool & { area?: Area }; module?: ToolModule | null; reporter?: User | null; assignee?: User | null };
+export type WithIncludes = Ticket & {
+  tool?: Tool & { area?: Area };
+  module?: ToolModule | null;
+  reporter?: User | null;
+  assignee?: User | null;
+};
 
 export type TargetTable = Record<Priority, Target>;
 
@@ -125,71 +126,19 @@ export function toSummary(t: WithIncludes, table: TargetTable, now = new Date())
   };
 }
 
-type ListQuery = z.output<typeof ticketListQuerySchema>;
-
-export async function listTickets(deps: AppDeps, user: AuthUser, q: ListQuery): Promise<TicketList> {
-  const and: WhereOptions[] = [];
-  if (q.status === 'open') and.push({ status: [...OPEN_STATUSES] });
-  else if (q.status === 'resolved') and.push({ status: [...RESOLVED_STATUSES] });
-  else if (q.status !== 'all') and.push({ status: q.status });
-  if (q.waiting) and.push({ status: 'waiting' });
-  if (q.mine) and.push({ assigneeId: user.id });
-  if (q.unassigned) and.push({ assigneeId: null });
-  if (q.toolId) and.push({ toolId: q.toolId });
-  if (q.areaId) and.push({ '$tool.area_id$': q.areaId });
-  if (q.hazard) and.push(literal('JSON_LENGTH(`Ticket`.`hazards`) > 0'));
-  if (q.myTools) and.push({ [Op.or]: [{ '$tool.primary_engineer_id$': user.id }, { '$tool.backup_engineer_id$': user.id }] });
-  if (q.reportedByMe) {
-    const me = deps.sequelize.escape(user.id);
-    and.push({
-      [Op.or]: [
-        { reporterId: user.id },
-        literal(`\`Ticket\`.\`id\` IN (SELECT e.ticket_id FROM ticket_events e WHERE e.kind = 'added_report' AND e.actor_id = ${me})`),
-      ],
-    });
-  }
-  const order: [string, string][] =
-    q.sort === 'queue'
-      ? [
-          ['priority', 'ASC'],
-          ['createdAt', 'ASC'],
-          ['id', 'ASC'],
-        ]
-      : [
-          ['createdAt', 'DESC'],
-          ['id', 'DESC'],
-        ];
-  const { rows, count } = await Ticket.findAndCountAll({
-    where: { [Op.and]: and },
-    include: summaryIncludes(),
-    order,
-    limit: q.limit,
-    offset: q.offset,
-  });
-  const table = await loadServiceTargets();
-  const now = new Date();
-  return { items: rows.map((r) => toSummary(r as WithIncludes, table, now)), total: count, limit: q.limit, offset: q.offset };
-}
-
 export async function findTicket(id: number, transaction?: Transaction): Promise<WithIncludes> {
   const t = await Ticket.findByPk(id, { include: summaryIncludes(), transaction });
   if (!t) throw notFound('That ticket');
   return t as WithIncludes;
 }
 
-function photoView(p: Photo & { uploader?: User | null }): PhotoView {
-  return {
-    id: p.id,
-    url: `/api/photos/${p.id}`,
-    thumbUrl: `/api/photos/${p.id}/thumb`,
-    width: p.width,
-    height: p.height,
-    uploader: person(p.uploader),
-  };
-}
-
 export async function openToolStates(toolId: number, transaction?: Transaction): Promise<ToolStateView[]> {
-  const open = await StateInterval.findAll({ where: { toolId, endedAt: null }, order: [['moduleId', 'ASC']], transaction });
+  // open_flag (1 only on open intervals) is indexed with the tool; `ended_at IS NULL` is not.
+  const open = await StateInterval.findAll({
+    where: { toolId, [Op.and]: [literal('`StateInterval`.`open_flag` = 1')] },
+    order: [['moduleId', 'ASC']],
+    transaction,
+  });
   return open.map((s) => ({
     moduleId: s.moduleId,
     state: s.state,
@@ -205,42 +154,8 @@ export async function openToolStates(toolId: number, transaction?: Transaction):
 export async function getTicketDetail(deps: AppDeps, user: AuthUser, id: number): Promise<TicketDetail> {
   const t = await findTicket(id);
   const staff = isStaff(user.role);
-  const merged = await Ticket.findAll({ where: { mergedIntoId: t.id }, attributes: ['id', 'title'], order: [['id', 'ASC']] });
-  const ticketIds = [t.id, ...merged.map((m) => m.id)];
-  // Members never receive internal notes: they are filtered here, in the query, not on screen.
-  const events = await TicketEvent.findAll({
-    where: { ticketId: ticketIds, ...(staff ? {} : { internal: false }) },
-    include: [{ model: User, as: 'actor', attributes: ['id', 'name'] }],
-    order: [
-      ['createdAt', 'ASC'],
-      ['id', 'ASC'],
-    ],
-  });
-  const photos = await Photo.findAll({
-    where: { ticketId: ticketIds, eventId: events.map((e) => e.id) },
-    include: [{ model: User, as: 'uploader', attributes: ['id', 'name'] }],
-    order: [['id', 'ASC']],
-  });
-  const photosByEvent = new Map<number, PhotoView[]>();
-  for (const p of photos) {
-    const list = photosByEvent.get(Number(p.eventId)) ?? [];
-    list.push(photoView(p as Photo & { uploader?: User | null }));
-    photosByEvent.set(Number(p.eventId), list);
-  }
-  const eventViews: TicketEventView[] = events.map((e) => {
-    const ev = e as TicketEvent & { actor?: User | null };
-    return {
-      id: Number(ev.id),
-      kind: ev.kind,
-      internal: ev.internal,
-      actor: person(ev.actor),
-      body: ev.body,
-      data: ev.data,
-      createdAt: ev.createdAt.toISOString(),
-      photos: photosByEvent.get(Number(ev.id)) ?? [],
-      fromTicketId: ev.ticketId === t.id ? null : ev.ticketId,
-    };
-  });
+  const { merged, ticketIds } = await timelineTicketIds(t.id);
+  const timeline = await loadTimeline(deps.sequelize, { ticketId: t.id, ticketIds, staff });
 
   const modules = await ToolModule.findAll({
     where: { toolId: t.toolId, retiredAt: null },
@@ -292,7 +207,8 @@ export async function getTicketDetail(deps: AppDeps, user: AuthUser, id: number)
     priorityReasons: t.priorityOverridden ? [] : priority.reasons,
     modules: modules.map((m) => ({ id: m.id, code: m.code, name: m.name })),
     toolStates,
-    events: eventViews,
+    events: timeline.events,
+    olderEvents: timeline.olderEvents,
     mergedFrom: merged.map((m) => ({ id: m.id, title: m.title })),
     allowedActions: actions,
     viewer: { id: user.id, role: user.role, isReporter },

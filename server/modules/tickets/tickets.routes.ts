@@ -5,7 +5,9 @@ import { photoUploadMiddleware, readPhoto, type IncomingFile } from '../../lib/u
 import type { Logger } from '../../lib/logger';
 import { addComment, addReport, createReport } from './report.service';
 import { performAction, StaleTicketError } from './workflow.service';
-import { findVisiblePhoto, getTicketDetail, listServiceTargets, listStaff, listTickets, listToolChoices } from './ticket-query.service';
+import { findVisiblePhoto, getTicketDetail, listServiceTargets, listStaff, listToolChoices } from './ticket-query.service';
+import { listTickets } from './ticket-list.service';
+import { TIMELINE_PAGE, getTicketEvents } from './ticket-timeline.service';
 import { updateServiceTarget } from './service-targets.service';
 import {
   addReportInputSchema,
@@ -27,6 +29,11 @@ const toolChoicesQuery = z.strictObject({
   code: z.string().trim().max(32).optional(),
   id: z.coerce.number().int().positive().optional(),
   limit: z.coerce.number().int().min(1).max(50).default(20),
+});
+
+const eventsQuery = z.strictObject({
+  before: z.coerce.number().int().positive().optional(),
+  limit: z.coerce.number().int().min(1).max(500).default(TIMELINE_PAGE),
 });
 
 const staffQuery = z.strictObject({ q: z.string().trim().max(80).optional(), limit: z.coerce.number().int().min(1).max(100).default(50) });
@@ -69,6 +76,15 @@ export function ticketRoutes(log: Logger): RouteSpec[] {
       summary: 'One ticket with its timeline (internal notes only for staff)',
       params: idParams,
       handle: ({ deps, user, params }) => getTicketDetail(deps, user!, params.id),
+    }),
+    route({
+      method: 'get',
+      path: '/tickets/:id/events',
+      access: 'member',
+      summary: 'Older events of a long timeline, a page at a time (before an event id)',
+      params: idParams,
+      query: eventsQuery,
+      handle: ({ deps, user, params, query }) => getTicketEvents(deps, user!, params.id, query),
     }),
     route({
       method: 'post',

@@ -15,6 +15,9 @@ export const TOGGLE_LABELS: Record<QueueToggle, string> = {
 
 export const QUEUE_PAGE_SIZE = 25;
 
+/** The address parameters that say which page is shown (cleared when a filter changes). */
+export const PAGE_PARAMS = ['offset', 'after', 'before', 'last'] as const;
+
 /** The queue's filters live in the address, so a filtered queue can be bookmarked and shared. */
 export function useQueueFilters() {
   const [params, setParams] = useSearchParams();
@@ -27,6 +30,13 @@ export function useQueueFilters() {
       limit: QUEUE_PAGE_SIZE,
       offset: Math.max(0, Number(params.get('offset')) || 0),
     };
+    // Next and Previous go "after" or "before" a ticket (keyset paging), Last reads from the end;
+    // `offset` then only tells the page's position, and is absent when it is not known.
+    const after = Number(params.get('after'));
+    const before = Number(params.get('before'));
+    if (after > 0) f.after = after;
+    else if (before > 0) f.before = before;
+    else if (params.get('last') === 'true') f.last = 'true';
     for (const t of QUEUE_TOGGLES) if (params.get(t) === 'true') f[t] = 'true';
     const toolId = Number(params.get('toolId'));
     if (toolId > 0) f.toolId = toolId;
@@ -45,7 +55,7 @@ export function useQueueFilters() {
             else next.set(k, v);
           }
           // Any change of filter starts again at the first page.
-          if (!('offset' in change)) next.delete('offset');
+          if (!PAGE_PARAMS.some((p) => p in change)) for (const p of PAGE_PARAMS) next.delete(p);
           return next;
         },
         { replace: true },
@@ -54,5 +64,7 @@ export function useQueueFilters() {
     [setParams],
   );
 
-  return { filters, update, clear: () => setParams(new URLSearchParams(), { replace: true }) };
+  /** Whether the address says where the page is (after Last on a capped list it does not). */
+  const positionKnown = params.has('offset') || !(filters.after || filters.before || filters.last);
+  return { filters, positionKnown, update, clear: () => setParams(new URLSearchParams(), { replace: true }) };
 }

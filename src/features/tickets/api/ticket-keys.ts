@@ -11,6 +11,8 @@ export const ticketKeys = {
   list: (filters: TicketListQuery) => [...ticketKeys.lists(), filters] as const,
   details: () => [...ticketKeys.all, 'detail'] as const,
   detail: (id: number) => [...ticketKeys.details(), id] as const,
+  /** Under the ticket's detail key, so whatever refreshes the ticket refreshes these too. */
+  olderEvents: (id: number, firstShownId: number) => [...ticketKeys.detail(id), 'older-events', firstShownId] as const,
   serviceTargets: () => [...ticketKeys.all, 'service-targets'] as const,
   assignees: () => [...ticketKeys.all, 'assignees'] as const,
 };

@@ -1,4 +1,4 @@
-import type { ReactNode } from 'react';
+import { useState, type ReactNode } from 'react';
 import { BOARD_LABELS, E10_LABELS, REASON_LABELS, boardStatusOf, type E10State, type StateReason } from '@shared/equipment-state';
 import {
   CATEGORY_LABELS,
@@ -14,9 +14,11 @@ import {
 } from '@shared/report-options';
 import { STATUS_LABELS, type TicketStatus } from '@shared/ticket-workflow';
 import { WAFER_RECOVERABLE_LABELS, type TicketEventView, type WaferRecoverable } from '@shared/schemas/tickets';
+import { Button } from '@/components/ui/button';
 import { RelativeTime } from '@/components/ui/relative-time';
 import { StateBadge } from '@/components/ui/state-badge';
 import { cx } from '@/lib/cx';
+import { useOlderTicketEvents } from '@/features/tickets/api/get-ticket-events';
 
 type Data = Record<string, any>;
 
@@ -145,8 +147,51 @@ function dotFor(kind: string, internal: boolean) {
   return 'border-control bg-card';
 }
 
-/** The whole story of a ticket, oldest first: who did what, when, and what changed. */
-export function TicketTimeline({ events, modules }: { events: TicketEventView[]; modules: ModuleName[] }) {
+export interface TicketTimelineProps {
+  ticketId: number;
+  /** The newest events, oldest first (a long timeline arrives a page at a time). */
+  events: TicketEventView[];
+  /** How many events come before the first one in `events`. */
+  olderEvents: number;
+  modules: ModuleName[];
+}
+
+/**
+ * The whole story of a ticket, oldest first: who did what, when, and what changed. A long
+ * timeline starts with its newest events; "Show older events" loads the earlier ones above.
+ */
+export function TicketTimeline({ ticketId, events, olderEvents, modules }: TicketTimelineProps) {
+  const [asked, setAsked] = useState(false);
+  const firstShownId = events[0]?.id ?? 0;
+  const older = useOlderTicketEvents(ticketId, firstShownId, asked && olderEvents > 0);
+  const pages = older.data?.pages ?? [];
+  const loaded = [...pages].reverse().flatMap((p) => p.events);
+  const remaining = pages.length > 0 ? pages[pages.length - 1].olderEvents : olderEvents;
+  const all = loaded.length > 0 ? [...loaded, ...events] : events;
+  const showOlder = () => {
+    if (!asked) setAsked(true);
+    else void older.fetchNextPage();
+  };
+  return (
+    <div className="flex flex-col gap-3">
+      {remaining > 0 && (
+        <div className="flex flex-wrap items-center gap-3" data-testid="older-events">
+          <Button variant="secondary" onClick={showOlder} disabled={older.isFetching}>
+            {older.isFetching ? 'Loading older events…' : `Show ${remaining} older event${remaining === 1 ? '' : 's'}`}
+          </Button>
+          {older.isError && (
+            <span role="alert" className="text-sm text-danger">
+              The older events could not be loaded. Try again.
+            </span>
+          )}
+        </div>
+      )}
+      <EventList events={all} modules={modules} />
+    </div>
+  );
+}
+
+function EventList({ events, modules }: { events: TicketEventView[]; modules: ModuleName[] }) {
   return (
     <ol className="relative flex flex-col gap-0" aria-label="Timeline" data-testid="timeline">
       {events.map((e, i) => {

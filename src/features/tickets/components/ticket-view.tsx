@@ -117,7 +117,7 @@ export function TicketView({ ticket }: { ticket: TicketDetail }) {
           </Card>
 
           <Card as="section" title="Timeline" headingLevel={2} description="Every report, reply and change, oldest first.">
-            <TicketTimeline events={ticket.events} modules={ticket.modules} />
+            <TicketTimeline ticketId={ticket.id} events={ticket.events} olderEvents={ticket.olderEvents} modules={ticket.modules} />
           </Card>
 
           {ticket.allowedActions.includes('comment') && (
