@@ -13,16 +13,19 @@ export class AppError extends Error {
   }
 }
 
-export const badRequest = (message: string, fields?: Record<string, string[]>) =>
-  new AppError(400, 'validation_failed', message, fields);
+export const badRequest = (message: string, fields?: Record<string, string[]>) => new AppError(400, 'validation_failed', message, fields);
 export const unauthorized = (message = 'Please sign in.') => new AppError(401, 'unauthenticated', message);
 export const forbidden = (message = 'You are not allowed to do this.') => new AppError(403, 'forbidden', message);
 export const notFound = (what = 'That') => new AppError(404, 'not_found', `${what} was not found.`);
 export const conflict = (message: string, code = 'conflict') => new AppError(409, code, message);
 
-/** Turns a zod error into field messages keyed by dotted path ("" for the whole input). */
+/**
+ * Turns a zod error into field messages keyed by dotted path ("" for the whole input).
+ * Keys come from the request (an unknown field is named by its key), so the map has no
+ * prototype: `constructor`, `toString` or `__proto__` are plain keys here, not inherited members.
+ */
 export function zodFields(error: ZodError, prefix?: string): Record<string, string[]> {
-  const fields: Record<string, string[]> = {};
+  const fields: Record<string, string[]> = Object.create(null);
   for (const issue of error.issues) {
     let path = issue.path.map(String).join('.');
     const message = issue.message;

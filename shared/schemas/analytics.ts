@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { isoInstant } from './text';
 import type { Priority } from '../priority';
 import type { E10StateHours, ReliabilityTrend } from '../reliability';
 
@@ -17,9 +18,7 @@ export const MTBF_CONFIDENCE = 0.9;
 export const TREND_CONFIDENCE = 0.95;
 
 const instant = (what: string) =>
-  z.iso
-    .datetime({ offset: true, error: `Give the ${what} as an ISO date and time, e.g. 2025-01-31T00:00:00Z.` })
-    .transform((v) => new Date(v));
+  isoInstant(`Give the ${what} as an ISO date and time, e.g. 2025-01-31T00:00:00Z.`).transform((v) => new Date(v));
 const id = z.coerce.number().int().positive();
 
 /** The period [from, to) and the scope of an analytics report. */
@@ -41,8 +40,10 @@ export const analyticsQuerySchema = z
     }
     if (v.scope === 'area' && v.areaId === undefined) ctx.addIssue({ code: 'custom', path: ['areaId'], message: 'Choose the area.' });
     if (v.scope === 'tool' && v.toolId === undefined) ctx.addIssue({ code: 'custom', path: ['toolId'], message: 'Choose the tool.' });
-    if (v.scope !== 'area' && v.areaId !== undefined) ctx.addIssue({ code: 'custom', path: ['areaId'], message: 'An area goes with the area scope only.' });
-    if (v.scope !== 'tool' && v.toolId !== undefined) ctx.addIssue({ code: 'custom', path: ['toolId'], message: 'A tool goes with the tool scope only.' });
+    if (v.scope !== 'area' && v.areaId !== undefined)
+      ctx.addIssue({ code: 'custom', path: ['areaId'], message: 'An area goes with the area scope only.' });
+    if (v.scope !== 'tool' && v.toolId !== undefined)
+      ctx.addIssue({ code: 'custom', path: ['toolId'], message: 'A tool goes with the tool scope only.' });
   });
 export type AnalyticsQueryInput = z.input<typeof analyticsQuerySchema>;
 export type AnalyticsQuery = z.output<typeof analyticsQuerySchema>;

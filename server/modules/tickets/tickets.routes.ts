@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { plainText } from '../../../shared/schemas/text';
 import { route, idParams, type RouteSpec } from '../../lib/http';
 import { rateLimit } from '../../lib/throttle';
 import { photoUploadMiddleware, readPhoto, type IncomingFile } from '../../lib/uploads';
@@ -23,13 +24,13 @@ const files = (req: { files?: unknown }): IncomingFile[] => (Array.isArray(req.f
 const photoParams = z.strictObject({ id: z.coerce.number().int().positive() });
 
 const toolChoicesQuery = z.strictObject({
-  q: z.string().trim().max(80).optional(),
-  code: z.string().trim().max(32).optional(),
+  q: plainText().trim().max(80).optional(),
+  code: plainText().trim().max(32).optional(),
   id: z.coerce.number().int().positive().optional(),
   limit: z.coerce.number().int().min(1).max(50).default(20),
 });
 
-const staffQuery = z.strictObject({ q: z.string().trim().max(80).optional(), limit: z.coerce.number().int().min(1).max(100).default(50) });
+const staffQuery = z.strictObject({ q: plainText().trim().max(80).optional(), limit: z.coerce.number().int().min(1).max(100).default(50) });
 
 /**
  * Tickets API. Every change to an existing ticket goes through POST /tickets/:id/actions with
