@@ -80,7 +80,7 @@ export function createApp(deps: AppDeps, opts: AppOptions) {
     }
   });
   api.use(csrfProtection(config, log));
-  mountRoutes(api, '', apiRoutes({ log, catcher: opts.catcher }), deps, registry);
+  mountRoutes(api, '', apiRoutes({ log, catcher: opts.catcher, config }), deps, registry);
   api.use((_req, _res, next) => next(new AppError(404, 'not_found', 'There is no such API route.')));
   app.use('/api', api);
 

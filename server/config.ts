@@ -2,9 +2,7 @@ import { z } from 'zod';
 
 // Typed configuration from the environment, validated once at start-up: a wrong or missing
 // value stops the process with a readable message instead of failing later at random.
-const bool = z
-  .enum(['true', 'false', '1', '0', 'yes', 'no'])
-  .transform((v) => v === 'true' || v === '1' || v === 'yes');
+const bool = z.enum(['true', 'false', '1', '0', 'yes', 'no']).transform((v) => v === 'true' || v === '1' || v === 'yes');
 
 const configSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
@@ -40,6 +38,9 @@ const configSchema = z.object({
   OUTBOX_BASE_BACKOFF_MS: z.coerce.number().int().positive().default(2000),
 
   UPLOAD_DIR: z.string().default('uploads'),
+  /** Uploads with photos one account may send at once, and that one process receives at once. */
+  UPLOADS_PER_ACCOUNT: z.coerce.number().int().positive().default(2),
+  UPLOADS_AT_ONCE: z.coerce.number().int().positive().default(8),
   FACILITY_TIME_ZONE: z.string().default('Europe/Berlin'),
   DEMO: bool.default(false),
 });

@@ -12,6 +12,7 @@ import { createTransport, OutboxWorker } from './lib/mailer';
 import { MailCatcher } from './lib/mail-catcher';
 import { verifyDisplayKey } from './modules/facility/display-links.service';
 import type { AppDeps } from './lib/http';
+import { photoSweeper } from './modules/tickets/photo-sweep';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -47,8 +48,16 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
   const allowedOrigins = [new URL(config.publicUrl).origin];
   const io = attachRealtime(server, { allowedOrigins, session, passport, events, log, verifyDisplayKey });
 
-  const worker = new OutboxWorker(createTransport(config), config, log, { pollMs: config.OUTBOX_POLL_MS, baseBackoffMs: config.OUTBOX_BASE_BACKOFF_MS });
+  const worker = new OutboxWorker(createTransport(config), config, log, {
+    pollMs: config.OUTBOX_POLL_MS,
+    baseBackoffMs: config.OUTBOX_BASE_BACKOFF_MS,
+  });
   if (opts.outboxWorker !== false) worker.start();
+
+  // Photo files a crash left without a row go before the first request, then periodically.
+  const sweeper = photoSweeper(deps);
+  await sweeper.runOnce();
+  sweeper.start();
 
   await new Promise<void>((resolve) => server.listen(config.PORT, config.HOST, () => resolve()));
   const address = server.address();
@@ -58,6 +67,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
   async function close() {
     if (closed) return;
     closed = true;
+    sweeper.stop();
     await worker.stop();
     await new Promise<void>((resolve) => io.close(() => resolve()));
     server.closeAllConnections?.();
@@ -66,5 +76,5 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     await releaseSequelize(sequelize);
   }
 
-  return { app, server, io, deps, worker, catcher, port, url: `http://${config.HOST}:${port}`, close };
+  return { app, server, io, deps, worker, sweeper, catcher, port, url: `http://${config.HOST}:${port}`, close };
 }
