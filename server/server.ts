@@ -13,6 +13,7 @@ import { MailCatcher } from './lib/mail-catcher';
 import { verifyDisplayKey } from './modules/facility/display-links.service';
 import type { AppDeps } from './lib/http';
 import { photoSweeper } from './modules/tickets/photo-sweep';
+import { warnAdminsOfLateMail } from './modules/mail/mail.service';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -51,6 +52,8 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
   const worker = new OutboxWorker(createTransport(config), config, log, {
     pollMs: config.OUTBOX_POLL_MS,
     baseBackoffMs: config.OUTBOX_BASE_BACKOFF_MS,
+    leaseMs: config.OUTBOX_LEASE_MS,
+    afterPass: () => warnAdminsOfLateMail(deps),
   });
   if (opts.outboxWorker !== false) worker.start();
 
