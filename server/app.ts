@@ -117,7 +117,7 @@ export function createApp(deps: AppDeps, opts: AppOptions) {
   // Signed-out visitors keep no session row; this bounds what one address can make us do.
   api.use(anonymousRateLimit({ limit: config.ANONYMOUS_REQUESTS_PER_MINUTE, log }));
   api.use(csrfProtection(config, log));
-  mountRoutes(api, '', apiRoutes({ log, catcher: opts.catcher }), deps, registry);
+  mountRoutes(api, '', apiRoutes({ log, catcher: opts.catcher, config }), deps, registry);
   api.use((_req, _res, next) => next(new AppError(404, 'not_found', 'There is no such API route.')));
   app.use('/api', api);
 

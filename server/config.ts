@@ -65,8 +65,13 @@ const configSchema = z.object({
   MAIL_CATCHER: bool.default(false),
   OUTBOX_POLL_MS: z.coerce.number().int().positive().default(2000),
   OUTBOX_BASE_BACKOFF_MS: z.coerce.number().int().positive().default(2000),
+  /** How long a worker's claim on outbox rows lasts without a heartbeat (a dead worker's rows return after it). */
+  OUTBOX_LEASE_MS: z.coerce.number().int().positive().default(15_000),
 
   UPLOAD_DIR: z.string().default('uploads'),
+  /** Uploads with photos one account may send at once, and that one process receives at once. */
+  UPLOADS_PER_ACCOUNT: z.coerce.number().int().positive().default(2),
+  UPLOADS_AT_ONCE: z.coerce.number().int().positive().default(8),
   FACILITY_TIME_ZONE: z.string().default('Europe/Berlin'),
   DEMO: bool.default(false),
 });

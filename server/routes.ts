@@ -1,6 +1,7 @@
 import type { RouteSpec } from './lib/http';
 import type { Logger } from './lib/logger';
 import type { MailCatcher } from './lib/mail-catcher';
+import type { Config } from './config';
 import { authRoutes } from './modules/auth/auth.routes';
 import { mailRoutes } from './modules/mail/mail.routes';
 import { usersRoutes } from './modules/users/users.routes';
@@ -12,6 +13,7 @@ import { analyticsRoutes } from './modules/analytics/analytics.routes';
 export interface RouteOptions {
   log: Logger;
   catcher: MailCatcher | null;
+  config: Config;
 }
 
 /** Every API route of the app (besides health, mounted first), under /api. One line per module. */
@@ -22,7 +24,7 @@ export function apiRoutes(opts: RouteOptions): RouteSpec[] {
     ...usersRoutes(),
     ...facilityRoutes(opts),
     ...noticesRoutes(),
-    ...ticketRoutes(opts.log),
+    ...ticketRoutes(opts.log, opts.config),
     ...analyticsRoutes(),
   ];
 }

@@ -13,6 +13,8 @@ import { MailCatcher } from './lib/mail-catcher';
 import { verifyDisplayKey } from './modules/facility/display-links.service';
 import { AccountMailQueue } from './modules/auth/account-links.service';
 import type { AppDeps } from './lib/http';
+import { photoSweeper } from './modules/tickets/photo-sweep';
+import { warnAdminsOfLateMail } from './modules/mail/mail.service';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -56,8 +58,15 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
   const worker = new OutboxWorker(createTransport(config), config, log, {
     pollMs: config.OUTBOX_POLL_MS,
     baseBackoffMs: config.OUTBOX_BASE_BACKOFF_MS,
+    leaseMs: config.OUTBOX_LEASE_MS,
+    afterPass: () => warnAdminsOfLateMail(deps),
   });
   if (opts.outboxWorker !== false) worker.start();
+
+  // Photo files a crash left without a row go before the first request, then periodically.
+  const sweeper = photoSweeper(deps);
+  await sweeper.runOnce();
+  sweeper.start();
 
   try {
     await new Promise<void>((resolve, reject) => {
@@ -69,7 +78,9 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     });
   } catch (error) {
     // The port is taken (or not ours to use): undo what was started, and let the caller say so.
+    sweeper.stop();
     await worker.stop();
+    await accountMail.stop();
     await new Promise<void>((resolve) => io.close(() => resolve()));
     if (catcher) await catcher.stop();
     await releaseSequelize(sequelize);
@@ -82,6 +93,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
   async function close() {
     if (closed) return;
     closed = true;
+    sweeper.stop();
     await worker.stop();
     await accountMail.stop();
     await new Promise<void>((resolve) => io.close(() => resolve()));
@@ -91,5 +103,5 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     await releaseSequelize(sequelize);
   }
 
-  return { app, server, io, deps, worker, accountMail, catcher, port, url: `http://${config.HOST}:${port}`, close };
+  return { app, server, io, deps, worker, accountMail, sweeper, catcher, port, url: `http://${config.HOST}:${port}`, close };
 }

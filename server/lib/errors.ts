@@ -19,9 +19,13 @@ export const forbidden = (message = 'You are not allowed to do this.') => new Ap
 export const notFound = (what = 'That') => new AppError(404, 'not_found', `${what} was not found.`);
 export const conflict = (message: string, code = 'conflict') => new AppError(409, code, message);
 
-/** Turns a zod error into field messages keyed by dotted path ("" for the whole input). */
+/**
+ * Turns a zod error into field messages keyed by dotted path ("" for the whole input).
+ * Keys come from the request (an unknown field is named by its key), so the map has no
+ * prototype: `constructor`, `toString` or `__proto__` are plain keys here, not inherited members.
+ */
 export function zodFields(error: ZodError, prefix?: string): Record<string, string[]> {
-  const fields: Record<string, string[]> = {};
+  const fields: Record<string, string[]> = Object.create(null);
   for (const issue of error.issues) {
     let path = issue.path.map(String).join('.');
     const message = issue.message;

@@ -89,6 +89,8 @@ export interface RegisteredRoute {
   access: Access;
   hasBody: boolean;
   hasParams: boolean;
+  /** The input schemas, so tests can walk every route's fields (bad-input and fuzz tests). */
+  schemas: { body?: ZodType; query?: ZodType; params?: ZodType };
 }
 
 export function requireAccess(access: Access, log: Logger): RequestHandler {
@@ -125,7 +127,14 @@ function parsePart(schema: ZodType | undefined, value: unknown, where: 'body' | 
 export function mountRoutes(router: Router, prefix: string, routes: RouteSpec[], deps: AppDeps, registry: RegisteredRoute[]) {
   for (const spec of routes) {
     const full = `${prefix}${spec.path === '/' ? '' : spec.path}` || '/';
-    registry.push({ method: spec.method, path: full, access: spec.access, hasBody: !!spec.body, hasParams: !!spec.params });
+    registry.push({
+      method: spec.method,
+      path: full,
+      access: spec.access,
+      hasBody: !!spec.body,
+      hasParams: !!spec.params,
+      schemas: { body: spec.body, query: spec.query, params: spec.params },
+    });
     const run: RequestHandler = async (req: Request, res: Response, next: NextFunction) => {
       try {
         const body = parsePart(spec.body, req.body, 'body');

@@ -7,6 +7,8 @@ export interface CaughtMail {
   from: string;
   subject: string;
   text: string;
+  /** The Message-ID header, so repeats of one mail can be recognised. */
+  messageId: string | null;
   receivedAt: string;
 }
 
@@ -46,6 +48,7 @@ export class MailCatcher {
               from: parsed.from?.text ?? '',
               subject: parsed.subject ?? '',
               text: parsed.text ?? '',
+              messageId: parsed.messageId ?? null,
               receivedAt: new Date().toISOString(),
             };
             this.messages.push(mail);

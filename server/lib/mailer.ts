@@ -47,17 +47,41 @@ export function createTransport(config: Config): Transporter {
   });
 }
 
-/** Back-off after the n-th failed attempt: 2 s, 4 s, 8 s … capped at 10 min. */
+/** Back-off after the n-th failed attempt: 2 s, 4 s, 8 s … capped at 10 min, for ever. */
 export function backoffMs(attempts: number, baseMs = 2000, capMs = 10 * 60_000) {
-  return Math.min(capMs, baseMs * 2 ** Math.max(0, attempts - 1));
+  return Math.min(capMs, baseMs * 2 ** Math.min(30, Math.max(0, attempts - 1)));
 }
 
-/** After this many failures a mail is parked as 'dead' for an admin to look at, never deleted. */
-export const MAX_MAIL_ATTEMPTS = 60;
+/** A mail still not delivered this long after it was queued is shown to admins (and they are told). */
+export const MAIL_LATE_AFTER_MS = 60 * 60_000;
 
 /**
- * Sends due outbox rows. Rows are claimed with SELECT … FOR UPDATE SKIP LOCKED, so several
- * server processes can run workers side by side without sending a mail twice.
+ * The Message-ID of an outbox row: the same on every attempt, so a receiver (or a mail client)
+ * folds the copy a retry may deliver after a crash between sending and recording it.
+ */
+export function messageIdFor(mail: Pick<OutboxMail, 'id' | 'createdAt'>, config: Pick<Config, 'MAIL_FROM' | 'publicUrl'>): string {
+  const domain = /@([A-Za-z0-9.-]+)>?\s*$/.exec(config.MAIL_FROM)?.[1] ?? new URL(config.publicUrl).hostname;
+  return `<outbox.${mail.id}.${mail.createdAt.getTime().toString(36)}@${domain}>`;
+}
+
+export interface OutboxWorkerOptions {
+  pollMs: number;
+  baseBackoffMs?: number;
+  batch?: number;
+  /**
+   * How long a claim holds rows for this worker. A heartbeat renews it while the worker sends,
+   * so only a worker that died (or hangs) loses its rows, which other workers then take over.
+   */
+  leaseMs?: number;
+  /** Run after every pass (the app uses it to warn admins of mail that is late). */
+  afterPass?: () => Promise<void>;
+}
+
+/**
+ * Sends due outbox rows, at least once each. Rows are claimed with SELECT … FOR UPDATE SKIP
+ * LOCKED and a short lease, so several server processes can run workers side by side, and a
+ * crash between sending and recording a mail sends it again with the same Message-ID.
+ * A failing mail is retried with a capped back-off for as long as it takes; it is never given up.
  */
 export class OutboxWorker {
   private timer: NodeJS.Timeout | null = null;
@@ -67,8 +91,12 @@ export class OutboxWorker {
     private transport: Transporter,
     private config: Config,
     private log: Logger,
-    private opts: { pollMs: number; baseBackoffMs?: number; batch?: number } = { pollMs: config.OUTBOX_POLL_MS },
+    private opts: OutboxWorkerOptions = { pollMs: config.OUTBOX_POLL_MS },
   ) {}
+
+  private get leaseMs() {
+    return this.opts.leaseMs ?? 15_000;
+  }
 
   start() {
     if (this.timer) return;
@@ -96,47 +124,75 @@ export class OutboxWorker {
     return pass;
   }
 
+  /** Claims up to one batch of due rows for leaseMs (exported for tests of a worker that dies). */
+  async claim(): Promise<OutboxMail[]> {
+    const sequelize = OutboxMail.sequelize!;
+    return sequelize.transaction(async (transaction) => {
+      const rows = await OutboxMail.findAll({
+        where: { status: 'pending', nextAttemptAt: { [Op.lte]: new Date() } },
+        order: [['id', 'ASC']],
+        limit: this.opts.batch ?? 20,
+        lock: transaction.LOCK.UPDATE,
+        skipLocked: true,
+        transaction,
+      });
+      // The claim is the next attempt time pushed out by the lease: other workers skip the
+      // rows until then, and take them over if this worker never comes back.
+      if (rows.length)
+        await OutboxMail.update(
+          { nextAttemptAt: new Date(Date.now() + this.leaseMs) },
+          { where: { id: rows.map((r) => r.id) }, transaction },
+        );
+      return rows;
+    });
+  }
+
   private async sendDue(): Promise<number> {
     let sent = 0;
     try {
-      const sequelize = OutboxMail.sequelize!;
-      const due = await sequelize.transaction(async (transaction) => {
-        const rows = await OutboxMail.findAll({
-          where: { status: 'pending', nextAttemptAt: { [Op.lte]: new Date() } },
-          order: [['id', 'ASC']],
-          limit: this.opts.batch ?? 20,
-          lock: transaction.LOCK.UPDATE,
-          skipLocked: true,
-          transaction,
-        });
-        // Push the claimed rows' next attempt out so another process's worker leaves them alone.
-        const claimUntil = new Date(Date.now() + 60_000);
-        if (rows.length) await OutboxMail.update({ nextAttemptAt: claimUntil }, { where: { id: rows.map((r) => r.id) }, transaction });
-        return rows;
-      });
-      for (const mail of due) {
-        try {
-          await this.transport.sendMail({
-            from: this.config.MAIL_FROM,
-            to: mail.toAddress,
-            subject: mail.subject,
-            text: mail.textBody,
-            html: mail.htmlBody ?? undefined,
-          });
-          await mail.update({ status: 'sent', sentAt: new Date(), attempts: mail.attempts + 1, lastError: null });
-          sent++;
-        } catch (error) {
-          const attempts = mail.attempts + 1;
-          const message = error instanceof Error ? error.message : String(error);
-          await mail.update({
-            attempts,
-            lastError: message.slice(0, 1000),
-            status: attempts >= MAX_MAIL_ATTEMPTS ? 'dead' : 'pending',
-            nextAttemptAt: new Date(Date.now() + backoffMs(attempts, this.opts.baseBackoffMs)),
-          });
-          this.log.warn({ mailId: mail.id, attempts, err: message }, 'mail send failed; will retry');
+      const due = await this.claim();
+      const open = new Set(due.map((m) => m.id));
+      const heartbeat = setInterval(
+        () => {
+          if (open.size === 0) return;
+          void OutboxMail.update(
+            { nextAttemptAt: new Date(Date.now() + this.leaseMs) },
+            { where: { id: [...open], status: 'pending' } },
+          ).catch(() => undefined);
+        },
+        Math.max(50, Math.floor(this.leaseMs / 3)),
+      );
+      heartbeat.unref();
+      try {
+        for (const mail of due) {
+          try {
+            await this.transport.sendMail({
+              from: this.config.MAIL_FROM,
+              to: mail.toAddress,
+              subject: mail.subject,
+              text: mail.textBody,
+              html: mail.htmlBody ?? undefined,
+              messageId: messageIdFor(mail, this.config),
+            });
+            await mail.update({ status: 'sent', sentAt: new Date(), attempts: mail.attempts + 1, lastError: null });
+            sent++;
+          } catch (error) {
+            const attempts = mail.attempts + 1;
+            const message = error instanceof Error ? error.message : String(error);
+            await mail.update({
+              attempts,
+              lastError: message.slice(0, 1000),
+              nextAttemptAt: new Date(Date.now() + backoffMs(attempts, this.opts.baseBackoffMs)),
+            });
+            this.log.warn({ mailId: mail.id, attempts, err: message }, 'mail send failed; will retry');
+          } finally {
+            open.delete(mail.id);
+          }
         }
+      } finally {
+        clearInterval(heartbeat);
       }
+      await this.opts.afterPass?.();
     } catch (error) {
       this.log.warn({ err: String(error) }, 'outbox pass failed');
     }

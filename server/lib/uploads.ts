@@ -5,13 +5,17 @@ import multer from 'multer';
 import sharp from 'sharp';
 import type { RequestHandler } from 'express';
 import { AppError } from './errors';
+import type { Logger } from './logger';
 import type { Config } from '../config';
 import { MAX_PHOTOS, MAX_PHOTO_BYTES, PHOTO_FIELD } from '../../shared/schemas/tickets';
 
 /**
- * Photo uploads. multer keeps the parts in memory with hard limits (its own defaults are
- * Infinity); nothing touches the disk until the content has been checked and re-encoded.
- * Files get random names in UPLOAD_DIR, which no static route serves.
+ * Photo uploads. multer streams each part to a file in UPLOAD_DIR/incoming (never into memory),
+ * with hard limits (its own defaults are Infinity); the content is checked and re-encoded from
+ * there into UPLOAD_DIR/pending, and the ticket's transaction moves the results into
+ * UPLOAD_DIR itself. No static route serves any of these folders; every name is random.
+ * Whatever a crash leaves in incoming/ or pending/, or in UPLOAD_DIR without a photo row, is
+ * removed by the sweep (sweepUploads) once it is an hour old.
  */
 export const PHOTO_LIMITS = {
   fileSize: MAX_PHOTO_BYTES,
@@ -25,15 +29,143 @@ export const PHOTO_LIMITS = {
 
 /** A 12-megapixel phone photo is ~12 MP; anything beyond this is refused before decoding. */
 export const MAX_INPUT_PIXELS = 50_000_000;
-const MAX_EDGE = 2560;
+/** The longest edge kept: enough to read a display or a label, a quarter of a phone's pixels. */
+export const MAX_EDGE = 2560;
 const THUMB_EDGE = 480;
-
-export function photoUploadMiddleware(): RequestHandler {
-  return multer({ storage: multer.memoryStorage(), limits: PHOTO_LIMITS }).array(PHOTO_FIELD, MAX_PHOTOS);
-}
+/**
+ * libjpeg-turbo at quality 82 (not mozjpeg): mozjpeg's trellis search made a six-photo report
+ * take ~10 s of server time for 15 % smaller files (docs/decisions/0006-photo-processing.md).
+ */
+const JPEG_OPTIONS = { quality: 82, mozjpeg: false } as const;
 
 export function uploadDir(config: Pick<Config, 'UPLOAD_DIR'>): string {
   return path.resolve(config.UPLOAD_DIR);
+}
+/** Parts as they arrive (multer writes here). */
+export const incomingDir = (config: Pick<Config, 'UPLOAD_DIR'>) => path.join(uploadDir(config), 'incoming');
+/** Re-encoded photos not yet linked to a row. */
+export const pendingDir = (config: Pick<Config, 'UPLOAD_DIR'>) => path.join(uploadDir(config), 'pending');
+
+/** Busboy's own refusals of a body it cannot parse; anything else (a disk error) is ours. */
+function isClientMultipartError(error: unknown): boolean {
+  if (!(error instanceof Error)) return false;
+  const code = (error as NodeJS.ErrnoException).code;
+  if (typeof code === 'string' && code !== 'ECONNRESET' && code !== 'ECONNABORTED') return false;
+  return true;
+}
+
+const ABORTED = /^Request (aborted|closed)$/;
+
+/**
+ * multer, writing to disk, with its parse failures turned into 400s: a truncated body
+ * ("Unexpected end of form"), a malformed part header, a missing boundary or a multipart type
+ * other than form-data are the client's mistakes, and an upload the client gave up on is
+ * logged as such, not as a server error. The temporary part files go when the answer has gone.
+ */
+export function photoUploadMiddleware(config: Pick<Config, 'UPLOAD_DIR'>, log: Logger): RequestHandler {
+  const dir = incomingDir(config);
+  const storage = multer.diskStorage({
+    destination: (_req, _file, cb) => {
+      fs.mkdir(dir, { recursive: true }).then(
+        () => cb(null, dir),
+        (error: Error) => cb(error, dir),
+      );
+    },
+    filename: (_req, _file, cb) => cb(null, `${crypto.randomBytes(18).toString('base64url')}.part`),
+  });
+  const handler = multer({ storage, limits: PHOTO_LIMITS }).array(PHOTO_FIELD, MAX_PHOTOS);
+  return (req, res, next) => {
+    res.once('close', () => void removeIncoming(req.files));
+    handler(req, res, (error?: unknown) => {
+      if (!error) return next();
+      if (error instanceof multer.MulterError || error instanceof AppError) return next(error);
+      if (!isClientMultipartError(error)) return next(error);
+      const message = (error as Error).message;
+      if (ABORTED.test(message) || req.destroyed) {
+        log.info({ route: `${req.method} ${req.originalUrl}`, userId: req.user?.id }, 'upload aborted by the client');
+        return next(
+          new AppError(
+            400,
+            'upload_aborted',
+            'The upload was interrupted before it was complete. Nothing was saved; please send it again.',
+          ),
+        );
+      }
+      next(
+        new AppError(
+          400,
+          'upload_malformed',
+          'The upload could not be read. Send the report as multipart/form-data with a `report` field and up to six `photos`.',
+          {
+            body: [`Not a readable multipart/form-data body (${message.slice(0, 80)}).`],
+          },
+        ),
+      );
+    });
+  };
+}
+
+async function removeIncoming(files: unknown) {
+  if (!Array.isArray(files)) return;
+  await Promise.all(files.map((f: { path?: string }) => (f.path ? fs.rm(f.path, { force: true }) : undefined)));
+}
+
+/**
+ * At most `perAccount` uploads of one account and `overall` uploads in all are received at
+ * once by this process; beyond that the request is refused before a byte of it is read
+ * (429 for one account's excess, 503 when the whole server is busy), so memory and disk in
+ * use stay bounded whatever the clients do. JSON reports without photos are not counted.
+ */
+export class UploadSlots {
+  private perUser = new Map<string, number>();
+  private total = 0;
+
+  constructor(readonly limits: { perAccount: number; overall: number }) {}
+
+  get inUse() {
+    return this.total;
+  }
+
+  middleware(): RequestHandler {
+    return (req, res, next) => {
+      if (!req.is('multipart')) return next();
+      const who = req.user ? `user:${req.user.id}` : `ip:${req.ip}`;
+      const mine = this.perUser.get(who) ?? 0;
+      if (mine >= this.limits.perAccount) {
+        res.setHeader('Retry-After', '5');
+        return next(
+          new AppError(
+            429,
+            'uploads_in_progress',
+            `You already have ${mine} uploads in progress. Wait until they have finished, then send this one again.`,
+          ),
+        );
+      }
+      if (this.total >= this.limits.overall) {
+        res.setHeader('Retry-After', '5');
+        return next(
+          new AppError(
+            503,
+            'uploads_busy',
+            'The server is receiving many photos right now. Nothing was saved; please send the report again in a few seconds.',
+          ),
+        );
+      }
+      this.perUser.set(who, mine + 1);
+      this.total++;
+      let released = false;
+      // 'close' fires once the answer is sent or the client went away, whichever comes first.
+      res.once('close', () => {
+        if (released) return;
+        released = true;
+        this.total--;
+        const left = (this.perUser.get(who) ?? 1) - 1;
+        if (left > 0) this.perUser.set(who, left);
+        else this.perUser.delete(who);
+      });
+      next();
+    };
+  }
 }
 
 type Sniffed = 'jpeg' | 'png' | 'webp' | 'heif';
@@ -59,8 +191,9 @@ export interface StoredPhoto {
   bytes: number;
 }
 
+/** A part multer wrote to disk (only the path is read; the declared name and type are not trusted). */
 export interface IncomingFile {
-  buffer: Buffer;
+  path: string;
   originalname?: string;
 }
 
@@ -69,11 +202,22 @@ const unsupported = (index: number) =>
     photos: ['Only JPEG, PNG, WebP (and HEIF/AVIF where supported) pictures are accepted.'],
   });
 
+async function firstBytes(file: string, count: number): Promise<Buffer> {
+  const handle = await fs.open(file, 'r');
+  try {
+    const buffer = Buffer.alloc(count);
+    const { bytesRead } = await handle.read(buffer, 0, count, 0);
+    return buffer.subarray(0, bytesRead);
+  } finally {
+    await handle.close();
+  }
+}
+
 async function reencode(file: IncomingFile, index: number): Promise<{ full: Buffer; thumb: Buffer; width: number; height: number }> {
-  const kind = sniffImageType(file.buffer);
+  const kind = sniffImageType(await firstBytes(file.path, 16));
   if (!kind) throw unsupported(index);
   // limitInputPixels stops a tiny file that claims gigantic dimensions (pixel flood) before decoding.
-  const input = () => sharp(file.buffer, { limitInputPixels: MAX_INPUT_PIXELS, failOn: 'error', sequentialRead: true });
+  const input = () => sharp(file.path, { limitInputPixels: MAX_INPUT_PIXELS, failOn: 'error', sequentialRead: true });
   let format: string | undefined;
   try {
     format = (await input().metadata()).format;
@@ -88,7 +232,7 @@ async function reencode(file: IncomingFile, index: number): Promise<{ full: Buff
     const { data: full, info } = await input()
       .rotate()
       .resize({ width: MAX_EDGE, height: MAX_EDGE, fit: 'inside', withoutEnlargement: true })
-      .jpeg({ quality: 82, mozjpeg: true })
+      .jpeg(JPEG_OPTIONS)
       .toBuffer({ resolveWithObject: true });
     const thumb = await sharp(full)
       .resize({ width: THUMB_EDGE, height: THUMB_EDGE, fit: 'inside', withoutEnlargement: true })
@@ -110,28 +254,52 @@ function refusal(error: unknown, index: number): AppError {
   return unsupported(index);
 }
 
+/**
+ * How many photos this process decodes at once, across all requests. Two keep both cores of
+ * a small server busy (libvips threads within each) while bounding the decoded pixels held in
+ * memory to two photos' worth, however many reports arrive together.
+ */
+export const PHOTO_DECODERS = 2;
+let decoding = 0;
+const waiting: (() => void)[] = [];
+
+async function withDecoder<T>(work: () => Promise<T>): Promise<T> {
+  if (decoding >= PHOTO_DECODERS) await new Promise<void>((resolve) => waiting.push(resolve));
+  else decoding++;
+  try {
+    return await work();
+  } finally {
+    const next = waiting.shift();
+    if (next) next();
+    else decoding--;
+  }
+}
+
 const randomName = (suffix: string) => `${crypto.randomBytes(18).toString('base64url')}${suffix}.jpg`;
 
 /**
- * Checks, re-encodes and writes the photos. Either every photo is written, or none is left
- * behind: on any failure the files already written are removed before the error goes on.
+ * Checks and re-encodes the photos (up to PHOTO_DECODERS at once) and writes the results to
+ * the pending folder under their final names. Either every photo is written, or none is left
+ * behind. They become visible only through linkPhotos, inside the ticket's transaction.
  */
 export async function storePhotos(config: Pick<Config, 'UPLOAD_DIR'>, files: readonly IncomingFile[]): Promise<StoredPhoto[]> {
   if (files.length === 0) return [];
-  const dir = uploadDir(config);
+  const pending = pendingDir(config);
   const stored: StoredPhoto[] = [];
   try {
-    // Decode everything first: a bad last photo fails the request before the disk is touched.
-    const encoded = [];
-    for (const [index, file] of files.entries()) encoded.push(await reencode(file, index));
-    await fs.mkdir(dir, { recursive: true });
+    // Decode everything first: a bad photo fails the request before the disk is touched.
+    const settled = await Promise.allSettled(files.map((file, index) => withDecoder(() => reencode(file, index))));
+    const failed = settled.find((r): r is PromiseRejectedResult => r.status === 'rejected');
+    if (failed) throw failed.reason;
+    const encoded = settled.map((r) => (r as PromiseFulfilledResult<Awaited<ReturnType<typeof reencode>>>).value);
+    await fs.mkdir(pending, { recursive: true });
     for (const photo of encoded) {
       const storedName = randomName('');
       const thumbName = randomName('-t');
       // Registered before writing, so a failure half-way still cleans up both names.
       stored.push({ storedName, thumbName, mime: 'image/jpeg', width: photo.width, height: photo.height, bytes: photo.full.length });
-      await fs.writeFile(path.join(dir, storedName), photo.full, { flag: 'wx', mode: 0o640 });
-      await fs.writeFile(path.join(dir, thumbName), photo.thumb, { flag: 'wx', mode: 0o640 });
+      await fs.writeFile(path.join(pending, storedName), photo.full, { flag: 'wx', mode: 0o640 });
+      await fs.writeFile(path.join(pending, thumbName), photo.thumb, { flag: 'wx', mode: 0o640 });
     }
     return stored;
   } catch (error) {
@@ -140,9 +308,23 @@ export async function storePhotos(config: Pick<Config, 'UPLOAD_DIR'>, files: rea
   }
 }
 
-export async function removePhotos(config: Pick<Config, 'UPLOAD_DIR'>, photos: readonly Pick<StoredPhoto, 'storedName' | 'thumbName'>[]) {
+/**
+ * Moves pending photos to their served place. Call it inside the transaction that inserts
+ * their rows, after the insert: a crash before the commit leaves files the sweep removes, and
+ * a rolled-back transaction is followed by removePhotos.
+ */
+export async function linkPhotos(config: Pick<Config, 'UPLOAD_DIR'>, photos: readonly Pick<StoredPhoto, 'storedName' | 'thumbName'>[]) {
   const dir = uploadDir(config);
-  await Promise.all(photos.flatMap((p) => [p.storedName, p.thumbName]).map((name) => fs.rm(path.join(dir, name), { force: true })));
+  const pending = pendingDir(config);
+  for (const name of photos.flatMap((p) => [p.storedName, p.thumbName])) await fs.rename(path.join(pending, name), path.join(dir, name));
+}
+
+/** Removes photos wherever they are (pending or linked). */
+export async function removePhotos(config: Pick<Config, 'UPLOAD_DIR'>, photos: readonly Pick<StoredPhoto, 'storedName' | 'thumbName'>[]) {
+  const names = photos.flatMap((p) => [p.storedName, p.thumbName]);
+  await Promise.all(
+    names.flatMap((name) => [uploadDir(config), pendingDir(config)].map((d) => fs.rm(path.join(d, name), { force: true }))),
+  );
 }
 
 const SAFE_NAME = /^[A-Za-z0-9_-]{20,60}(-t)?\.jpg$/;
@@ -155,4 +337,58 @@ export async function readPhoto(config: Pick<Config, 'UPLOAD_DIR'>, name: string
   } catch {
     throw new AppError(404, 'not_found', 'That photo file is missing.');
   }
+}
+
+/** Files younger than this are left alone by the sweep: their upload may still be under way. */
+export const SWEEP_MIN_AGE_MS = 60 * 60_000;
+
+/**
+ * Removes what a crash (or kill -9) left behind, once it is SWEEP_MIN_AGE_MS old: part files
+ * in incoming/, re-encoded photos in pending/, and photo files in UPLOAD_DIR that no photo
+ * row names. `isLinked` answers, for a list of names, those that a row names.
+ */
+export async function sweepUploads(
+  config: Pick<Config, 'UPLOAD_DIR'>,
+  isLinked: (names: string[]) => Promise<Set<string>>,
+  now = Date.now(),
+): Promise<{ removed: string[] }> {
+  const removed: string[] = [];
+  const old = async (file: string) => {
+    try {
+      return now - (await fs.stat(file)).mtimeMs >= SWEEP_MIN_AGE_MS;
+    } catch {
+      return false;
+    }
+  };
+  const list = async (dir: string) => {
+    try {
+      return await fs.readdir(dir, { withFileTypes: true });
+    } catch {
+      return [];
+    }
+  };
+  for (const dir of [incomingDir(config), pendingDir(config)]) {
+    for (const entry of await list(dir)) {
+      const file = path.join(dir, entry.name);
+      if (entry.isFile() && (await old(file))) {
+        await fs.rm(file, { force: true });
+        removed.push(file);
+      }
+    }
+  }
+  const dir = uploadDir(config);
+  const candidates: string[] = [];
+  for (const entry of await list(dir)) {
+    if (entry.isFile() && SAFE_NAME.test(entry.name) && (await old(path.join(dir, entry.name)))) candidates.push(entry.name);
+  }
+  for (let i = 0; i < candidates.length; i += 500) {
+    const batch = candidates.slice(i, i + 500);
+    const linked = await isLinked(batch);
+    for (const name of batch) {
+      if (linked.has(name)) continue;
+      await fs.rm(path.join(dir, name), { force: true });
+      removed.push(path.join(dir, name));
+    }
+  }
+  return { removed };
 }

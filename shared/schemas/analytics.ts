@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { isoInstant } from './text';
 import type { Priority } from '../priority';
 import type { E10StateHours, ReliabilityTrend } from '../reliability';
 
@@ -17,9 +18,7 @@ export const MTBF_CONFIDENCE = 0.9;
 export const TREND_CONFIDENCE = 0.95;
 
 const instant = (what: string) =>
-  z.iso
-    .datetime({ offset: true, error: `Give the ${what} as an ISO date and time, e.g. 2025-01-31T00:00:00Z.` })
-    .transform((v) => new Date(v));
+  isoInstant(`Give the ${what} as an ISO date and time, e.g. 2025-01-31T00:00:00Z.`).transform((v) => new Date(v));
 const id = z.coerce.number().int().positive();
 
 /** The period [from, to) and the scope of an analytics report. */

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { plainText, isoInstant } from './text';
 import {
   BOARD_STATUSES,
   E10_STATES,
@@ -20,12 +21,12 @@ export const AREA_CODE_PATTERN = /^[A-Z][A-Z0-9-]{0,23}$/;
 export const MODULE_CODE_PATTERN = /^[A-Z0-9][A-Z0-9-]{0,31}$/;
 
 const codeMessage = 'Use capital letters, digits and dashes, starting with a letter (for example ETCH-02).';
-export const toolCode = z.string().trim().toUpperCase().regex(TOOL_CODE_PATTERN, codeMessage);
-const areaCode = z.string().trim().toUpperCase().regex(AREA_CODE_PATTERN, codeMessage);
-const moduleCode = z.string().trim().toUpperCase().regex(MODULE_CODE_PATTERN, 'Use capital letters, digits and dashes (for example PM1).');
+export const toolCode = plainText().trim().toUpperCase().regex(TOOL_CODE_PATTERN, codeMessage);
+const areaCode = plainText().trim().toUpperCase().regex(AREA_CODE_PATTERN, codeMessage);
+const moduleCode = plainText().trim().toUpperCase().regex(MODULE_CODE_PATTERN, 'Use capital letters, digits and dashes (for example PM1).');
 
-const name = z.string().trim().min(1, 'Enter a name.').max(120, 'Use at most 120 characters.');
-const description = z.string().trim().max(4000, 'Use at most 4000 characters.').nullable().optional();
+const name = plainText().trim().min(1, 'Enter a name.').max(120, 'Use at most 120 characters.');
+const description = plainText().trim().max(4000, 'Use at most 4000 characters.').nullable().optional();
 const sortOrder = z.number().int().min(-1000).max(1000).optional();
 const userId = z.number().int().positive().nullable().optional();
 const id = z.coerce.number().int().positive();
@@ -90,13 +91,13 @@ export const toolUpdateSchema = z
   .refine(engineersDiffer, engineersMessage);
 
 export const adminListQuery = z.strictObject({
-  q: z.string().trim().max(120).optional(),
+  q: plainText().trim().max(120).optional(),
   areaId: id.optional(),
   includeRetired: flag.optional(),
   ...page,
 });
 
-export const engineerListQuery = z.strictObject({ q: z.string().trim().max(120).optional(), ...page });
+export const engineerListQuery = z.strictObject({ q: plainText().trim().max(120).optional(), ...page });
 
 export type AreaCreateInput = z.infer<typeof areaCreateSchema>;
 export type AreaUpdateInput = z.infer<typeof areaUpdateSchema>;
@@ -119,9 +120,9 @@ export const stateChangeSchema = z
     state: z.enum(E10_STATES, { error: 'Choose one of the states.' }),
     reason: z.enum(STATE_REASONS).optional(),
     /** What people at the tool should know: why, and what to do meanwhile. */
-    note: z.string().trim().max(500, 'Use at most 500 characters.').nullable().optional(),
-    restriction: z.string().trim().max(200, 'Use at most 200 characters.').nullable().optional(),
-    expectedReturnAt: z.iso.datetime({ offset: true, error: 'Give the time as a date and time.' }).nullable().optional(),
+    note: plainText().trim().max(500, 'Use at most 500 characters.').nullable().optional(),
+    restriction: plainText().trim().max(200, 'Use at most 200 characters.').nullable().optional(),
+    expectedReturnAt: isoInstant('Give the time as a date and time.').nullable().optional(),
     ticketId: z.number().int().positive().nullable().optional(),
   })
   .superRefine((v, ctx) => {
@@ -162,7 +163,7 @@ export const toolCodeParams = z.strictObject({ code: toolCode });
 // ---- The board ---------------------------------------------------------------------------
 
 export const boardQuery = z.strictObject({
-  q: z.string().trim().max(120).optional(),
+  q: plainText().trim().max(120).optional(),
   areaId: id.optional(),
   status: z.enum(BOARD_STATUSES).optional(),
 });
@@ -280,7 +281,7 @@ export interface Page<T> {
 // ---- Follows, notices, displays, labels ---------------------------------------------------
 
 export const unfollowTokenSchema = z.strictObject({
-  token: z.string().regex(/^[A-Za-z0-9_-]{43}$/, 'This unfollow link is not valid.'),
+  token: plainText().regex(/^[A-Za-z0-9_-]{43}$/, 'This unfollow link is not valid.'),
 });
 
 export const noticeListQuery = z.strictObject({ unread: flag.optional(), ...page });

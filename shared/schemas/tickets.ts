@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { plainText, isoInstant } from './text';
 import {
   TICKET_CATEGORIES,
   IMPACTS,
@@ -28,7 +29,7 @@ export const PHOTO_FIELD = 'photos';
 /** What the photo picker offers; the server decides by content, not by this list. */
 export const PHOTO_ACCEPT = 'image/*';
 
-const text = (max: number) => z.string().trim().max(max, `At most ${max} characters.`);
+const text = (max: number) => plainText().trim().max(max, `At most ${max} characters.`);
 const optionalText = (max: number) =>
   text(max)
     .nullish()
@@ -158,8 +159,7 @@ export const ticketActionSchema = z.discriminatedUnion('action', [
     state: z.enum(E10_STATES),
     reason: z.enum(STATE_REASONS).optional(),
     note: optionalText(500),
-    expectedReturnAt: z.iso
-      .datetime({ offset: true })
+    expectedReturnAt: isoInstant()
       .nullish()
       .transform((v) => (v ? new Date(v) : null)),
   }),

@@ -1,8 +1,9 @@
 import { z } from 'zod';
+import { plainText } from './text';
 import { ROLES } from '../roles';
 
 export const userListQuery = z.strictObject({
-  q: z.string().trim().max(120).optional(),
+  q: plainText().trim().max(120).optional(),
   role: z.enum(ROLES).optional(),
   limit: z.coerce.number().int().min(1).max(200).default(50),
   offset: z.coerce.number().int().min(0).default(0),
@@ -11,14 +12,14 @@ export const userListQuery = z.strictObject({
 /** An admin invites a person; they choose their own password from the e-mailed link. */
 export const inviteUserSchema = z.strictObject({
   email: z.email('Enter a valid e-mail address.').max(254),
-  name: z.string().trim().min(1, 'Enter a name.').max(120),
+  name: plainText().trim().min(1, 'Enter a name.').max(120),
   role: z.enum(ROLES),
   onCall: z.boolean().optional(),
 });
 
 export const updateUserSchema = z
   .strictObject({
-    name: z.string().trim().min(1).max(120).optional(),
+    name: plainText().trim().min(1).max(120).optional(),
     role: z.enum(ROLES).optional(),
     active: z.boolean().optional(),
     onCall: z.boolean().optional(),

@@ -5,6 +5,8 @@ import { createUser, signedInClient } from '../support/factories';
 import { Op } from 'sequelize';
 import { OutboxMail } from '../../server/modules/mail/outbox.model';
 import { Throttle } from '../../server/modules/auth/session.model';
+import { Notice } from '../../server/modules/notices/notice.model';
+import { createTransport, OutboxWorker, queueMail } from '../../server/lib/mailer';
 
 let server: TestServer;
 beforeAll(async () => {
@@ -82,5 +84,112 @@ describe('mail outbox', () => {
     await drainOutbox(server);
     const mail = await server.catcher.waitFor((m) => m.to.includes(email));
     expect(mail.text).toMatch(/reset-password\//);
+  });
+});
+
+const address = (what: string) => `${what}-${Date.now()}-${Math.random().toString(36).slice(2, 7)}@test.faultline.test`;
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+/** A second worker on the same outbox, as another server process would run one. */
+function otherWorker(opts: { leaseMs: number; delayMs?: number }) {
+  const real = createTransport(server.config);
+  const transport = opts.delayMs
+    ? ({ sendMail: async (m: unknown) => (await sleep(opts.delayMs!), real.sendMail(m as never)) } as unknown as typeof real)
+    : real;
+  return new OutboxWorker(transport, server.config, server.deps.log, { pollMs: 60_000, leaseMs: opts.leaseMs });
+}
+
+describe('mail delivery at least once', () => {
+  it('when a mail is sent again after a crash between sending it and recording it, then the copy carries the same Message-ID', async () => {
+    const to = address('repeat');
+    await queueMail({ to, subject: 'Repeated notice', text: 'Sent twice on purpose.' });
+    await drainOutbox(server);
+    const first = await server.catcher.waitFor((m) => m.to.includes(to));
+    expect(first.messageId).toMatch(/^<outbox\.\d+\.[0-9a-z]+@[A-Za-z0-9.-]+>$/);
+
+    // What a kill -9 between the SMTP answer and the status update leaves behind.
+    const row = (await OutboxMail.findOne({ where: { toAddress: to } }))!;
+    await row.update({ status: 'pending', sentAt: null, nextAttemptAt: new Date() });
+    await drainOutbox(server);
+    await expect.poll(() => server.catcher.messages.filter((m) => m.to.includes(to)).length).toBe(2);
+    const copies = server.catcher.messages.filter((m) => m.to.includes(to));
+    expect(new Set(copies.map((m) => m.messageId))).toEqual(new Set([first.messageId]));
+  });
+
+  it('when the worker that claimed mail dies, then another worker sends it once the short lease has run out; a live worker keeps its claim by heartbeat', async () => {
+    await drainOutbox(server);
+    const lost = address('claimed-by-dead-worker');
+    await queueMail({ to: lost, subject: 'Claimed, then the worker died', text: '…' });
+    const dead = otherWorker({ leaseMs: 600 });
+    const claimed = await dead.claim();
+    expect(claimed.map((m) => m.toAddress)).toContain(lost);
+    // Within the lease nobody else takes it …
+    const rescuer = otherWorker({ leaseMs: 600 });
+    await rescuer.runOnce();
+    expect(server.catcher.messages.some((m) => m.to.includes(lost))).toBe(false);
+    // … after it, the next pass does.
+    await sleep(700);
+    await rescuer.runOnce();
+    await server.catcher.waitFor((m) => m.to.includes(lost), 3000);
+    expect((await OutboxMail.findOne({ where: { toAddress: lost } }))!.status).toBe('sent');
+
+    // A slow but live worker renews its lease while it sends, so the mail goes out once.
+    const slowTo = [address('slow-a'), address('slow-b')];
+    for (const to of slowTo) await queueMail({ to, subject: 'Sent by a slow worker', text: '…' });
+    const slow = otherWorker({ leaseMs: 300, delayMs: 500 });
+    const busy = slow.runOnce();
+    for (let i = 0; i < 4; i++) {
+      await sleep(250);
+      await rescuer.runOnce();
+    }
+    expect(await busy).toBe(2);
+    await sleep(200);
+    for (const to of slowTo) expect(server.catcher.messages.filter((m) => m.to.includes(to))).toHaveLength(1);
+  });
+
+  it('when mail has failed for over an hour, then it is still retried, admins get one in-app warning, the admin mail page lists it, and resend delivers it', async () => {
+    await drainOutbox(server);
+    const { client: admin, user: adminUser } = await signedInClient(server.url, 'admin');
+    const to = address('late');
+    await queueMail({ to, subject: 'Stuck behind a broken relay', text: '…' });
+    const row = (await OutboxMail.findOne({ where: { toAddress: to } }))!;
+    // Queued two hours ago, already tried many times (past the old give-up count of 60).
+    await server.deps.sequelize.query(`UPDATE outbox_mails SET created_at = :at, attempts = 75 WHERE id = :id`, {
+      replacements: { at: new Date(Date.now() - 2 * 3600_000), id: row.id },
+    });
+
+    await server.catcher.stop();
+    try {
+      await server.worker.runOnce();
+      await row.reload();
+      expect(row.status).toBe('pending');
+      expect(row.attempts).toBe(76);
+      // The back-off stays capped at ten minutes, however many attempts failed.
+      expect(row.nextAttemptAt.getTime() - Date.now()).toBeLessThanOrEqual(10 * 60_000);
+      await server.worker.runOnce();
+
+      const warnings = await Notice.findAll({ where: { userId: adminUser.id, kind: 'mail.late' } });
+      expect(warnings).toHaveLength(1);
+      expect(warnings[0].link).toBe('/admin/mail');
+      expect((await admin.get('/api/notices?unread=true')).body.items.some((n: { kind: string }) => n.kind === 'mail.late')).toBe(true);
+
+      const late = await admin.get('/api/mail/late');
+      expect(late.status).toBe(200);
+      const listed = late.body.items.find((m: { id: number }) => m.id === Number(row.id));
+      expect(listed).toMatchObject({ to, subject: 'Stuck behind a broken relay', attempts: 76 });
+      expect(listed.lastError).toBeTruthy();
+      const { client: member } = await signedInClient(server.url, 'member');
+      expect((await member.get('/api/mail/late')).status).toBe(403);
+    } finally {
+      await server.catcher.start();
+    }
+
+    const resent = await admin.post(`/api/mail/${row.id}/resend`);
+    expect(resent.status).toBe(200);
+    expect(new Date(resent.body.nextAttemptAt).getTime()).toBeLessThanOrEqual(Date.now());
+    await server.worker.runOnce();
+    await server.catcher.waitFor((m) => m.to.includes(to));
+    expect((await admin.get('/api/mail/late')).body.items.some((m: { id: number }) => m.id === Number(row.id))).toBe(false);
+    expect((await admin.post(`/api/mail/${row.id}/resend`)).status).toBe(409);
   });
 });

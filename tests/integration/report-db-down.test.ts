@@ -27,7 +27,9 @@ async function poll(check: () => Promise<boolean>, timeoutMs = 20_000) {
 }
 
 const dbBack = () => poll(async () => (await fetch(`${server.url}/api/health`)).status === 200);
-const filesInDir = () => (fs.existsSync(dir) ? fs.readdirSync(dir) : []);
+/** Photo files anywhere under the upload folder: linked ones and those pending their transaction. */
+const filesInDir = () =>
+  fs.existsSync(dir) ? (fs.readdirSync(dir, { recursive: true }) as string[]).filter((f) => f.endsWith('.jpg')) : [];
 
 beforeAll(async () => {
   dir = path.join(projectRoot, 'test-results', unique('uploads-db-down'));

@@ -27,10 +27,16 @@ afterAll(async () => {
   fs.rmSync(dir, { recursive: true, force: true });
 });
 
-const filesInDir = () => (fs.existsSync(dir) ? fs.readdirSync(dir).sort() : []);
+/** Every file under the upload folder, its temporary folders (incoming/, pending/) included. */
+const filesInDir = () =>
+  fs.existsSync(dir)
+    ? (fs.readdirSync(dir, { recursive: true }) as string[]).filter((f) => fs.statSync(path.join(dir, f)).isFile()).sort()
+    : [];
 
 /** No file added to the upload folder, no ticket on the tool, no timeline entry with the report's text. */
 async function nothingWritten(toolId: number, description: string, before: string[]) {
+  // Part files go when the answer has gone, a moment after the client has read it.
+  for (let i = 0; i < 50 && filesInDir().join() !== before.join(); i++) await new Promise((r) => setTimeout(r, 40));
   expect(filesInDir()).toEqual(before);
   expect(await Ticket.count({ where: { toolId } })).toBe(0);
   expect(await TicketEvent.count({ where: { body: description, createdAt: { [Op.gte]: startedAt } } })).toBe(0);

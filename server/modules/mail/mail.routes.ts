@@ -1,5 +1,6 @@
 import { z } from 'zod';
-import { route, type RouteSpec } from '../../lib/http';
+import { route, idParams, type RouteSpec } from '../../lib/http';
+import { listLateMail, resendMail } from './mail.service';
 import { AppError } from '../../lib/errors';
 import type { MailCatcher } from '../../lib/mail-catcher';
 
@@ -22,6 +23,22 @@ export function mailRoutes(catcher: MailCatcher | null): RouteSpec[] {
         const newestFirst = [...catcher.messages].reverse();
         return { items: newestFirst.slice(query.offset, query.offset + query.limit), total: newestFirst.length };
       },
+    }),
+    route({
+      method: 'get',
+      path: '/mail/late',
+      access: 'admin',
+      summary: 'Mail queued over an hour ago and still not delivered (retried until it goes out)',
+      query: listQuery,
+      handle: ({ query }) => listLateMail(query),
+    }),
+    route({
+      method: 'post',
+      path: '/mail/:id/resend',
+      access: 'admin',
+      summary: 'Try a mail that has not gone out again now',
+      params: idParams,
+      handle: ({ params }) => resendMail(params.id),
     }),
   ];
 }

@@ -1,5 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
 
+/** 'dead' is no longer written (mail is retried for ever); migration 0015 revived old ones. */
 export class OutboxMail extends Model<InferAttributes<OutboxMail>, InferCreationAttributes<OutboxMail>> {
   declare id: CreationOptional<number>;
   declare toAddress: string;
@@ -11,6 +12,8 @@ export class OutboxMail extends Model<InferAttributes<OutboxMail>, InferCreation
   declare nextAttemptAt: Date;
   declare lastError: string | null;
   declare sentAt: Date | null;
+  /** When admins were told that this mail is late (once per mail). */
+  declare warnedAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -28,6 +31,7 @@ export function initOutboxModel(sequelize: Sequelize) {
       nextAttemptAt: { type: DataTypes.DATE(3), allowNull: false },
       lastError: { type: DataTypes.STRING(1000), allowNull: true },
       sentAt: { type: DataTypes.DATE(3), allowNull: true },
+      warnedAt: { type: DataTypes.DATE(3), allowNull: true },
       createdAt: DataTypes.DATE(3),
       updatedAt: DataTypes.DATE(3),
     },

@@ -3,7 +3,7 @@ import { Ticket, Photo, UNWORKED_TICKET_FIELDS } from './ticket.model';
 import { Tool, ToolModule } from '../facility/facility.model';
 import { User } from '../users/user.model';
 import { AppError, badRequest, forbidden } from '../../lib/errors';
-import { storePhotos, removePhotos, type IncomingFile, type StoredPhoto } from '../../lib/uploads';
+import { storePhotos, removePhotos, linkPhotos, type IncomingFile, type StoredPhoto } from '../../lib/uploads';
 import type { AppDeps, AuthUser } from '../../lib/http';
 import { appendEvent, applyStoppedReport } from './ticket-effects';
 import { notifyOnCall, notifyUsers, ticketFollowers } from './ticket-notify';
@@ -43,10 +43,6 @@ async function validateToolAndModule(toolId: number, moduleId: number | null) {
   return tool;
 }
 
-/**
- * Photos are checked and written before the transaction; if the transaction then fails, the
- * files go again. So a failed report leaves neither rows nor files.
- */
 /** Thrown inside the transaction to roll it back when the same draft was filed before. */
 class AlreadySent extends Error {
   constructor(readonly ticketId: number) {
@@ -54,6 +50,11 @@ class AlreadySent extends Error {
   }
 }
 
+/**
+ * Photos are checked and written (to the pending folder) before the transaction, and linked
+ * into place by savePhotos inside it; if the transaction then fails, the files go again. So a
+ * failed report leaves neither rows nor files, and a crash leaves only files the sweep removes.
+ */
 async function withStoredPhotos<T>(
   deps: AppDeps,
   files: readonly IncomingFile[],
@@ -69,7 +70,14 @@ async function withStoredPhotos<T>(
   }
 }
 
-async function savePhotos(ticketId: number, eventId: number, uploaderId: number, stored: StoredPhoto[], transaction: Transaction) {
+async function savePhotos(
+  deps: AppDeps,
+  ticketId: number,
+  eventId: number,
+  uploaderId: number,
+  stored: StoredPhoto[],
+  transaction: Transaction,
+) {
   if (stored.length === 0) return;
   await Photo.bulkCreate(
     stored.map((p) => ({
@@ -85,6 +93,8 @@ async function savePhotos(ticketId: number, eventId: number, uploaderId: number,
     })),
     { transaction },
   );
+  // The rows exist (uncommitted); the files take their served names in the same step.
+  await linkPhotos(deps.config, stored);
 }
 
 function reportFacts(
@@ -193,7 +203,7 @@ export async function createReport(deps: AppDeps, user: AuthUser, input: ReportD
         },
         transaction,
       );
-      await savePhotos(ticket.id, Number(event.id), user.id, stored, transaction);
+      await savePhotos(deps, ticket.id, Number(event.id), user.id, stored, transaction);
       if (assignee)
         await appendEvent(
           ticket.id,
@@ -271,7 +281,7 @@ export async function addReport(deps: AppDeps, user: AuthUser, ticketId: number,
         { body: input.description, data: reportFacts(input, stored.length) },
         transaction,
       );
-      await savePhotos(ticket.id, Number(event.id), user.id, stored, transaction);
+      await savePhotos(deps, ticket.id, Number(event.id), user.id, stored, transaction);
 
       // The ticket takes the worst of what everyone saw.
       const newHazards = input.hazards.filter((h) => !ticket.hazards.includes(h));

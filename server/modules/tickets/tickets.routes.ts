@@ -1,7 +1,9 @@
 import { z } from 'zod';
+import { plainText } from '../../../shared/schemas/text';
 import { route, idParams, type RouteSpec } from '../../lib/http';
 import { rateLimit } from '../../lib/throttle';
-import { photoUploadMiddleware, readPhoto, type IncomingFile } from '../../lib/uploads';
+import { photoUploadMiddleware, readPhoto, UploadSlots, type IncomingFile } from '../../lib/uploads';
+import type { Config } from '../../config';
 import type { Logger } from '../../lib/logger';
 import { addComment, addReport, createReport } from './report.service';
 import { performAction, StaleTicketError } from './workflow.service';
@@ -25,30 +27,36 @@ const files = (req: { files?: unknown }): IncomingFile[] => (Array.isArray(req.f
 const photoParams = z.strictObject({ id: z.coerce.number().int().positive() });
 
 const toolChoicesQuery = z.strictObject({
-  q: z.string().trim().max(80).optional(),
-  code: z.string().trim().max(32).optional(),
+  q: plainText().trim().max(80).optional(),
+  code: plainText().trim().max(32).optional(),
   id: z.coerce.number().int().positive().optional(),
   limit: z.coerce.number().int().min(1).max(50).default(20),
 });
 
+<<<<<<< HEAD
 const eventsQuery = z.strictObject({
   before: z.coerce.number().int().positive().optional(),
   limit: z.coerce.number().int().min(1).max(500).default(TIMELINE_PAGE),
 });
 
 const staffQuery = z.strictObject({ q: z.string().trim().max(80).optional(), limit: z.coerce.number().int().min(1).max(100).default(50) });
+=======
+const staffQuery = z.strictObject({ q: plainText().trim().max(80).optional(), limit: z.coerce.number().int().min(1).max(100).default(50) });
+>>>>>>> cc44f0bfca791daa43fdfcdfca074b448c56bad5
 
 /**
  * Tickets API. Every change to an existing ticket goes through POST /tickets/:id/actions with
  * a body discriminated by `action` (see shared/schemas/tickets.ts); appends (added reports,
  * replies, notes) have their own routes because they never overwrite anything.
  */
-export function ticketRoutes(log: Logger): RouteSpec[] {
+export function ticketRoutes(log: Logger, config: Config): RouteSpec[] {
   // A person files a handful of reports an hour at most; these stop scripts and floods.
   const reportLimit = rateLimit({ name: 'report-create', limit: 20, windowMs: 10 * 60_000, log });
   const uploadLimit = rateLimit({ name: 'photo-upload', limit: 40, windowMs: 10 * 60_000, log });
   const commentLimit = rateLimit({ name: 'ticket-comment', limit: 60, windowMs: 10 * 60_000, log });
-  const upload = photoUploadMiddleware();
+  // Photos stream to disk; the slots bound how many uploads are received at once.
+  const slots = new UploadSlots({ perAccount: config.UPLOADS_PER_ACCOUNT, overall: config.UPLOADS_AT_ONCE }).middleware();
+  const upload = photoUploadMiddleware(config, log);
 
   return [
     route({
@@ -64,7 +72,7 @@ export function ticketRoutes(log: Logger): RouteSpec[] {
       path: '/tickets',
       access: 'member',
       summary: 'File a fault report (JSON, or multipart with a `report` JSON field and up to 6 `photos`)',
-      before: [reportLimit, uploadLimit, upload],
+      before: [reportLimit, uploadLimit, slots, upload],
       body: z.preprocess(unwrapReportField, reportInputSchema),
       status: 201,
       handle: ({ deps, user, body, req }) => createReport(deps, user!, body, files(req)),
@@ -92,7 +100,7 @@ export function ticketRoutes(log: Logger): RouteSpec[] {
       access: 'member',
       summary: '“I see it too”: add a report (text, facts, photos) to an open ticket',
       params: idParams,
-      before: [uploadLimit, upload],
+      before: [uploadLimit, slots, upload],
       body: z.preprocess(unwrapReportField, addReportInputSchema),
       status: 201,
       handle: ({ deps, user, params, body, req }) => addReport(deps, user!, params.id, body, files(req)),

@@ -37,7 +37,12 @@ const ADMIN_PAGES: readonly AdminPage[] = [
     text: 'A printable sheet of QR labels, one per tool, that open the tool’s page on a phone.',
     ready: true,
   },
-  { to: '/admin/mail', title: 'Caught mail', text: 'The e-mail Faultline sent while the demo’s local mail catcher runs.', ready: true },
+  {
+    to: '/admin/mail',
+    title: 'Mail',
+    text: 'E-mail that has not gone out yet (send it again), and what the demo’s local mail catcher caught.',
+    ready: true,
+  },
 ];
 
 export function AdminHomePage() {

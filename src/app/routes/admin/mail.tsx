@@ -8,6 +8,7 @@ import { RelativeTime } from '@/components/ui/relative-time';
 import { PageSpinner } from '@/components/ui/spinner';
 import { api, isApiError } from '@/lib/api-client';
 import { cx } from '@/lib/cx';
+import { LateMailSection } from './late-mail';
 
 // The caught-mail list is a demo aid with one read-only call, so its query lives with its
 // page rather than in a feature folder of its own.
@@ -69,6 +70,8 @@ export function CaughtMailPage() {
           </Button>
         }
       />
+
+      <LateMailSection />
 
       {mail.isPending && <PageSpinner label="Loading caught mail…" />}
 
