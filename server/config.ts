@@ -42,6 +42,8 @@ const configSchema = z.object({
   UPLOAD_DIR: z.string().default('uploads'),
   FACILITY_TIME_ZONE: z.string().default('Europe/Berlin'),
   DEMO: bool.default(false),
+  /** Set when several server processes share the sockets (socket.io's Redis adapter). */
+  REDIS_URL: z.url().optional(),
 });
 
 export type Config = z.infer<typeof configSchema> & { publicUrl: string; cookieSecure: boolean };

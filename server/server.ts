@@ -11,6 +11,8 @@ import { attachRealtime } from './lib/realtime';
 import { createTransport, OutboxWorker } from './lib/mailer';
 import { MailCatcher } from './lib/mail-catcher';
 import { verifyDisplayKey } from './modules/facility/display-links.service';
+import { mayViewTicket } from './modules/tickets/ticket-query.service';
+import { connectRedisAdapter } from './lib/redis-adapter';
 import type { AppDeps } from './lib/http';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
@@ -45,7 +47,9 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
   });
   const server = http.createServer(app);
   const allowedOrigins = [new URL(config.publicUrl).origin];
-  const io = attachRealtime(server, { allowedOrigins, session, passport, events, log, verifyDisplayKey });
+  // One process keeps its sockets to itself; with REDIS_URL, broadcasts reach every process.
+  const redis = config.REDIS_URL ? await connectRedisAdapter(config.REDIS_URL, log) : null;
+  const io = attachRealtime(server, { allowedOrigins, session, passport, events, log, verifyDisplayKey, mayWatchTicket: mayViewTicket, adapter: redis?.adapter });
 
   const worker = new OutboxWorker(createTransport(config), config, log, { pollMs: config.OUTBOX_POLL_MS, baseBackoffMs: config.OUTBOX_BASE_BACKOFF_MS });
   if (opts.outboxWorker !== false) worker.start();
@@ -60,6 +64,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     closed = true;
     await worker.stop();
     await new Promise<void>((resolve) => io.close(() => resolve()));
+    await redis?.close();
     server.closeAllConnections?.();
     await new Promise<void>((resolve) => server.close(() => resolve()));
     if (catcher) await catcher.stop();

@@ -8,6 +8,7 @@ import type { AppDeps, AuthUser } from '../../lib/http';
 import { appendEvent, applyStoppedReport } from './ticket-effects';
 import { notifyOnCall, notifyUsers, ticketFollowers } from './ticket-notify';
 import { findTicket } from './ticket-query.service';
+import { announceBoardTools } from '../facility/board.service';
 import { isStaff } from '../../../shared/roles';
 import { computePriority } from '../../../shared/priority';
 import { CATEGORY_LABELS, IMPACTS, IMPACT_LABELS, type Impact } from '../../../shared/report-options';
@@ -157,7 +158,9 @@ export async function createReport(deps: AppDeps, user: AuthUser, input: ReportD
         },
         transaction,
       );
-      deps.events.publish({ type: 'ticket.created', audience: 'all', payload: { id: ticket.id, toolId: locked.id } }, transaction);
+      // Staff lists refetch; everyone else sees the new open-ticket count on the board entry.
+      deps.events.publish({ type: 'ticket.created', audience: 'staff', payload: { id: ticket.id, toolId: locked.id } }, transaction);
+      announceBoardTools(deps, [locked.id], transaction);
       return { id: ticket.id, status: ticket.status, priority: ticket.priority, version: ticket.version, photos: stored.length };
     }),
   );
@@ -213,7 +216,7 @@ export async function addReport(deps: AppDeps, user: AuthUser, ticketId: number,
         },
         transaction,
       );
-      deps.events.publish({ type: 'ticket.updated', audience: 'all', payload: { id: ticket.id, toolId: tool.id } }, transaction);
+      deps.events.publish({ type: 'ticket.updated', audience: { ticket: ticket.id }, payload: { id: ticket.id, toolId: tool.id } }, transaction);
       return { id: ticket.id, eventId: Number(event.id), version: ticket.version, photos: stored.length };
     }),
   );
@@ -228,7 +231,7 @@ export async function addComment(deps: AppDeps, user: AuthUser, ticketId: number
     const event = await appendEvent(ticket.id, user.id, input.internal ? 'note' : 'reply', { body: input.body, internal: input.internal }, transaction);
     if (input.internal) {
       // Staff-only: the announcement itself must not reach members' sockets.
-      deps.events.publish({ type: 'ticket.updated', audience: 'staff', payload: { id: ticket.id, toolId: ticket.toolId } }, transaction);
+      deps.events.publish({ type: 'ticket.updated', audience: { ticket: ticket.id, staffOnly: true }, payload: { id: ticket.id, toolId: ticket.toolId } }, transaction);
     } else {
       const followers = await ticketFollowers(deps, ticket.id, transaction);
       const recipients = isStaff(user.role) ? followers : [...followers, ticket.assigneeId];
@@ -237,7 +240,7 @@ export async function addComment(deps: AppDeps, user: AuthUser, ticketId: number
         { userIds: recipients, exceptUserId: user.id, kind: 'ticket.reply', title: `[#${ticket.id}] New reply: ${ticket.title}`, text: `${user.name} wrote:\n\n${input.body}`, ticketId: ticket.id },
         transaction,
       );
-      deps.events.publish({ type: 'ticket.updated', audience: 'all', payload: { id: ticket.id, toolId: ticket.toolId } }, transaction);
+      deps.events.publish({ type: 'ticket.updated', audience: { ticket: ticket.id }, payload: { id: ticket.id, toolId: ticket.toolId } }, transaction);
     }
     return { id: ticket.id, eventId: Number(event.id) };
   });
