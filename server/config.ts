@@ -18,7 +18,9 @@ const configSchema = z.object({
   DB_NAME: z.string().min(1).default('faultline'),
   DB_USER: z.string().min(1).default('faultline'),
   DB_PASSWORD: z.string().default(''),
-  DB_POOL_MAX: z.coerce.number().int().min(1).default(10),
+  DB_POOL_MAX: z.coerce.number().int().min(1).default(20),
+  /** How long a request may wait for a free connection: a burst of reads queues rather than fails. */
+  DB_ACQUIRE_TIMEOUT_MS: z.coerce.number().int().positive().default(30_000),
 
   SESSION_SECRET: z.string().min(32, 'SESSION_SECRET must be at least 32 characters'),
   SESSION_IDLE_MINUTES: z.coerce.number().positive().default(120),

@@ -23,6 +23,8 @@ export interface StartOptions {
   /** Run the outbox worker in this process (default true). */
   outboxWorker?: boolean;
   serveClient?: boolean;
+  /** The built client to serve (default dist/). */
+  distDir?: string;
   /** Where log lines go (default stdout); tests capture them. */
   logDestination?: import('pino').DestinationStream;
 }
@@ -43,7 +45,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     session,
     passport,
     catcher,
-    distDir: opts.serveClient === false ? undefined : path.join(root, 'dist'),
+    distDir: opts.serveClient === false ? undefined : (opts.distDir ?? path.join(root, 'dist')),
   });
   const server = http.createServer(app);
   const allowedOrigins = [new URL(config.publicUrl).origin];

@@ -8,7 +8,7 @@ import { benchConfig, buildBenchFacility, loadAverage, measure, signIn, TOOLS } 
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 10);
 const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 10);
 
-const config = benchConfig({ DB_POOL_MAX: process.env.DB_POOL_MAX ?? '10' });
+const config = benchConfig();
 const { displayKey } = await buildBenchFacility();
 
 const server = await startServer(config, { outboxWorker: false, serveClient: false });

@@ -177,7 +177,8 @@ export async function getBoard(sequelize: Sequelize, query: BoardQuery = {}): Pr
     }
     area.tools.push(tool);
   }
-  return { generatedAt: new Date().toISOString(), areas: [...areas.values()], counts, total: tools.length };
+  // No generation time in the body: the same board gives the same ETag, so a client that has it gets 304.
+  return { areas: [...areas.values()], counts, total: tools.length };
 }
 
 function countByStatus(tools: { tool: BoardTool }[]) {
