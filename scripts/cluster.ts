@@ -13,7 +13,13 @@ ensureClusterPackages();
 const port = Number(process.env.PORT ?? 3000);
 // The demo's mail catcher (which the admin mail page reads) runs in the first process only;
 // the others deliver to it over SMTP like to any mail server.
-const cluster = await startCluster({ nodes, env: { ...process.env, MAIL_CATCHER: 'false' }, firstNodeEnv: { MAIL_CATCHER: 'true' }, port, stdio: 'inherit' });
+const cluster = await startCluster({
+  nodes,
+  env: { ...process.env, MAIL_CATCHER: 'false' },
+  firstNodeEnv: { MAIL_CATCHER: 'true' },
+  port,
+  stdio: 'inherit',
+});
 console.log(`\nFaultline runs as ${nodes} processes behind HAProxy: ${process.env.PUBLIC_URL ?? cluster.url}`);
 for (const n of cluster.nodes) console.log(`  process ${n.name}: ${n.url} (pid ${n.process.pid})`);
 console.log(`  Redis: ${cluster.redisUrl}\nCtrl-C stops them all.`);
@@ -31,4 +37,5 @@ for (const signal of ['SIGINT', 'SIGTERM'] as const) {
   });
 }
 // A process that dies on its own is reported; HAProxy sends its clients to the others.
-for (const n of cluster.nodes) n.process.on('exit', (code, signal) => !stopping && console.error(`process ${n.name} exited (${code ?? signal})`));
+for (const n of cluster.nodes)
+  n.process.on('exit', (code, signal) => !stopping && console.error(`process ${n.name} exited (${code ?? signal})`));

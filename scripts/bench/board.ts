@@ -28,8 +28,13 @@ try {
     await measure('GET /api/board (signed-in member)', `${server.url}/api/board`, { ...opts, headers: { cookie } }),
   ];
   const pad = (s: string | number, n: number) => String(s).padStart(n);
-  console.log(`${'endpoint'.padEnd(36)} ${pad('req/s', 8)} ${pad('p50 ms', 7)} ${pad('p90 ms', 7)} ${pad('p99 ms', 7)} ${pad('requests', 9)} ${pad('non-2xx', 8)}`);
-  for (const r of results) console.log(`${r.name.padEnd(36)} ${pad(r.rps.toFixed(0), 8)} ${pad(r.p50, 7)} ${pad(r.p90, 7)} ${pad(r.p99, 7)} ${pad(r.requests, 9)} ${pad(r.bad, 8)}`);
+  console.log(
+    `${'endpoint'.padEnd(36)} ${pad('req/s', 8)} ${pad('p50 ms', 7)} ${pad('p90 ms', 7)} ${pad('p99 ms', 7)} ${pad('requests', 9)} ${pad('non-2xx', 8)}`,
+  );
+  for (const r of results)
+    console.log(
+      `${r.name.padEnd(36)} ${pad(r.rps.toFixed(0), 8)} ${pad(r.p50, 7)} ${pad(r.p90, 7)} ${pad(r.p99, 7)} ${pad(r.requests, 9)} ${pad(r.bad, 8)}`,
+    );
   console.log(`\n${loadAverage()}`);
   if (results.some((r) => r.bad > 0)) process.exitCode = 1;
   // Let the last requests' session writes finish before the pool closes.

@@ -71,7 +71,14 @@ async function openBoards(url: string, count: number, cookies: string[]) {
     });
     boards.push({ socket, headers, shown: new Map() });
   }
-  await Promise.all(boards.map((b) => new Promise<void>((resolve, reject) => (b.socket.connected ? resolve() : (b.socket.once('connect', () => resolve()), b.socket.once('connect_error', reject))))));
+  await Promise.all(
+    boards.map(
+      (b) =>
+        new Promise<void>((resolve, reject) =>
+          b.socket.connected ? resolve() : (b.socket.once('connect', () => resolve()), b.socket.once('connect_error', reject)),
+        ),
+    ),
+  );
   return boards;
 }
 
@@ -158,15 +165,21 @@ async function measureTarget(name: string, url: string): Promise<{ rows: Row[]; 
 function print(results: { rows: Row[]; floor: { p50: number; p99: number } }[]) {
   const pad = (s: string | number, n: number) => String(s).padStart(n);
   const ms = (n: number) => (Number.isFinite(n) ? n.toFixed(0) : '–');
-  console.log(`\n${'setup'.padEnd(26)} ${pad('boards', 6)} ${pad('p50 ms', 7)} ${pad('p99 ms', 7)} ${pad('max ms', 7)} ${pad('refetch', 8)} ${pad('5xx', 5)} ${pad('missed', 7)} ${pad('health p50/p99', 15)}`);
+  console.log(
+    `\n${'setup'.padEnd(26)} ${pad('boards', 6)} ${pad('p50 ms', 7)} ${pad('p99 ms', 7)} ${pad('max ms', 7)} ${pad('refetch', 8)} ${pad('5xx', 5)} ${pad('missed', 7)} ${pad('health p50/p99', 15)}`,
+  );
   for (const { rows, floor } of results) {
     for (const r of rows) {
-      console.log(`${r.label.padEnd(26)} ${pad(r.count, 6)} ${pad(ms(r.p50), 7)} ${pad(ms(r.p99), 7)} ${pad(ms(r.max), 7)} ${pad(r.refetches, 8)} ${pad(r.serverErrors, 5)} ${pad(r.missing, 7)} ${pad(`${floor.p50}/${floor.p99} ms`, 15)}`);
+      console.log(
+        `${r.label.padEnd(26)} ${pad(r.count, 6)} ${pad(ms(r.p50), 7)} ${pad(ms(r.p99), 7)} ${pad(ms(r.max), 7)} ${pad(r.refetches, 8)} ${pad(r.serverErrors, 5)} ${pad(r.missing, 7)} ${pad(`${floor.p50}/${floor.p99} ms`, 15)}`,
+      );
     }
   }
 }
 
-console.log(`Fan-out: ${ROUNDS} state changes per row; boards half signed-in (${MEMBER_SESSIONS} sessions), half display key; websocket transport.`);
+console.log(
+  `Fan-out: ${ROUNDS} state changes per row; boards half signed-in (${MEMBER_SESSIONS} sessions), half display key; websocket transport.`,
+);
 const results: Awaited<ReturnType<typeof measureTarget>>[] = [];
 const single = await startServerProcess(serverEnv);
 try {

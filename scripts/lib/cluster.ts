@@ -32,7 +32,10 @@ export function ensureClusterPackages() {
   console.log('• Installing redis-server and haproxy from Debian’s packages (one time)…');
   const sudo = process.getuid?.() === 0 ? [] : ['sudo'];
   const run = (args: string[]) => {
-    const r = spawnSync(sudo.length ? 'sudo' : args[0], sudo.length ? args : args.slice(1), { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
+    const r = spawnSync(sudo.length ? 'sudo' : args[0], sudo.length ? args : args.slice(1), {
+      stdio: 'inherit',
+      env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' },
+    });
     if (r.status !== 0) throw new Error(`${args.join(' ')} failed`);
   };
   run(['apt-get', 'update', '-qq']);
@@ -99,7 +102,12 @@ function waitUntilHealthy(node: ClusterNode) {
 /** One server process on a free port (no Redis): what `npm start` runs, for benchmarks. */
 export async function startServerProcess(env: NodeJS.ProcessEnv, stdio: 'inherit' | 'ignore' = 'ignore'): Promise<ClusterNode> {
   const port = await freePort();
-  const node = spawnServerProcess('a', port, { ...process.env, ...env, PORT: String(port), HOST: '127.0.0.1', PUBLIC_URL: env.PUBLIC_URL ?? `http://127.0.0.1:${port}` }, stdio);
+  const node = spawnServerProcess(
+    'a',
+    port,
+    { ...process.env, ...env, PORT: String(port), HOST: '127.0.0.1', PUBLIC_URL: env.PUBLIC_URL ?? `http://127.0.0.1:${port}` },
+    stdio,
+  );
   try {
     await waitUntilHealthy(node);
   } catch (error) {
@@ -130,7 +138,11 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
 
   try {
     const redisPort = await freePort();
-    const redis = spawn(which('redis-server') ?? 'redis-server', ['--port', String(redisPort), '--bind', '127.0.0.1', '--save', '', '--appendonly', 'no', '--daemonize', 'no'], { stdio: 'ignore' });
+    const redis = spawn(
+      which('redis-server') ?? 'redis-server',
+      ['--port', String(redisPort), '--bind', '127.0.0.1', '--save', '', '--appendonly', 'no', '--daemonize', 'no'],
+      { stdio: 'ignore' },
+    );
     children.push(redis);
     const redisUrl = `redis://127.0.0.1:${redisPort}`;
     await waitFor(
@@ -151,7 +163,16 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
     for (let i = 0; i < count; i++) {
       const name = String.fromCharCode(97 + i);
       const port = await freePort();
-      const env = { ...process.env, ...opts.env, ...(i === 0 ? opts.firstNodeEnv : {}), PORT: String(port), HOST: '127.0.0.1', REDIS_URL: redisUrl, PUBLIC_URL: opts.env.PUBLIC_URL ?? publicUrl, NODE_NAME: name };
+      const env = {
+        ...process.env,
+        ...opts.env,
+        ...(i === 0 ? opts.firstNodeEnv : {}),
+        PORT: String(port),
+        HOST: '127.0.0.1',
+        REDIS_URL: redisUrl,
+        PUBLIC_URL: opts.env.PUBLIC_URL ?? publicUrl,
+        NODE_NAME: name,
+      };
       const node = spawnServerProcess(name, port, env, opts.stdio);
       children.push(node.process);
       nodes.push(node);

@@ -77,7 +77,8 @@ export function attachRealtime(server: HttpServer, opts: RealtimeOptions): Realt
     ...(opts.adapter ? { adapter: opts.adapter } : {}),
   });
   const onlyForHandshake = (middleware: RequestHandler) => (req: Req, res: ServerResponse, next: (err?: unknown) => void) => {
-    if (req._query?.sid === undefined) (middleware as unknown as (a: Req, b: ServerResponse, c: (err?: unknown) => void) => void)(req, res, next);
+    if (req._query?.sid === undefined)
+      (middleware as unknown as (a: Req, b: ServerResponse, c: (err?: unknown) => void) => void)(req, res, next);
     else next();
   };
   instance.engine.use(onlyForHandshake(opts.session));
@@ -148,7 +149,12 @@ export function attachRealtime(server: HttpServer, opts: RealtimeOptions): Realt
         if (room === socket.id || rooms.has(room)) continue;
         socket.leave(room);
         const ticketId = room.startsWith('ticket:') ? Number(room.slice('ticket:'.length)) : NaN;
-        if (identity.kind === 'user' && Number.isInteger(ticketId) && (await opts.mayWatchTicket(identity.user, ticketId).catch(() => false))) rooms.add(room);
+        if (
+          identity.kind === 'user' &&
+          Number.isInteger(ticketId) &&
+          (await opts.mayWatchTicket(identity.user, ticketId).catch(() => false))
+        )
+          rooms.add(room);
       }
     }
     if (!socket.connected) return;

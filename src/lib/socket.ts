@@ -56,5 +56,9 @@ function subscribeStatus(listener: () => void): () => void {
 
 /** Whether live updates are flowing, for a small indicator in the layout. */
 export function useRealtimeStatus(): RealtimeStatus {
-  return useSyncExternalStore(subscribeStatus, () => status, () => 'off');
+  return useSyncExternalStore(
+    subscribeStatus,
+    () => status,
+    () => 'off',
+  );
 }

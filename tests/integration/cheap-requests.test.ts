@@ -22,7 +22,10 @@ beforeAll(async () => {
   // A small stand-in for vite's output: an app shell and one content-hashed asset.
   distDir = fs.mkdtempSync(path.join(os.tmpdir(), 'faultline-dist-'));
   fs.mkdirSync(path.join(distDir, 'assets'));
-  fs.writeFileSync(path.join(distDir, 'index.html'), `<!doctype html><html><head><script type="module" src="/assets/${assetName}"></script></head><body></body></html>`);
+  fs.writeFileSync(
+    path.join(distDir, 'index.html'),
+    `<!doctype html><html><head><script type="module" src="/assets/${assetName}"></script></head><body></body></html>`,
+  );
   fs.writeFileSync(path.join(distDir, 'assets', assetName), assetText);
   server = await startTestServer({}, { serveClient: true, distDir });
   cookie = (await signedInClient(server.url, 'member')).client.cookie!;
@@ -45,7 +48,8 @@ function get(url: string, headers: Record<string, string>): Promise<{ status: nu
   });
 }
 
-const decode = (encoding: string | undefined, body: Buffer) => (encoding === 'br' ? zlib.brotliDecompressSync(body) : encoding === 'gzip' ? zlib.gunzipSync(body) : body).toString('utf8');
+const decode = (encoding: string | undefined, body: Buffer) =>
+  (encoding === 'br' ? zlib.brotliDecompressSync(body) : encoding === 'gzip' ? zlib.gunzipSync(body) : body).toString('utf8');
 
 describe('compression', () => {
   for (const encoding of ['gzip', 'br']) {
@@ -95,7 +99,9 @@ describe('caching', () => {
     const changed = await get(`${server.url}/api/board`, { cookie, 'accept-encoding': 'gzip', 'if-none-match': etag });
     expect(changed.status).toBe(200);
     expect(changed.headers.etag).not.toBe(etag);
-    const entry = JSON.parse(decode('gzip', changed.body)).areas.flatMap((a: any) => a.tools).find((t: any) => t.id === tool.id);
+    const entry = JSON.parse(decode('gzip', changed.body))
+      .areas.flatMap((a: any) => a.tools)
+      .find((t: any) => t.id === tool.id);
     expect(entry.state).toBe('engineering');
   });
 });
@@ -104,7 +110,9 @@ describe('a burst of reads', () => {
   it('when 120 boards are asked at once of a server with one database connection, then every one is answered 200, none 503', async () => {
     const narrow = await startTestServer({ DB_POOL_MAX: '1' });
     try {
-      const statuses = await Promise.all(Array.from({ length: 120 }, () => get(`${narrow.url}/api/board`, { cookie, 'accept-encoding': 'gzip' }).then((r) => r.status)));
+      const statuses = await Promise.all(
+        Array.from({ length: 120 }, () => get(`${narrow.url}/api/board`, { cookie, 'accept-encoding': 'gzip' }).then((r) => r.status)),
+      );
       expect(statuses.filter((s) => s !== 200)).toEqual([]);
     } finally {
       await narrow.close();

@@ -65,7 +65,12 @@ function open(url: string, cookie: string, reconnection = false) {
 }
 
 const heardState = (packets: { event: string; args: unknown[] }[], toolId: number, state: string) =>
-  packets.some((p) => p.event === 'board.tool_changed' && (p.args[0] as BoardToolChange).tool.id === toolId && (p.args[0] as BoardToolChange).tool.state === state);
+  packets.some(
+    (p) =>
+      p.event === 'board.tool_changed' &&
+      (p.args[0] as BoardToolChange).tool.id === toolId &&
+      (p.args[0] as BoardToolChange).tool.state === state,
+  );
 
 describe('two processes', () => {
   it('when a technician changes a state through process A, then a board connected to process B gets it within a second, and the follower’s mail is sent exactly once', async () => {

@@ -32,7 +32,10 @@ function open(opts: Parameters<typeof openTestSocket>[1]) {
 }
 
 const changesOf = (packets: { event: string; args: unknown[] }[], toolId: number) =>
-  packets.filter((p) => p.event === 'board.tool_changed').map((p) => p.args[0] as BoardToolChange).filter((c) => c.tool.id === toolId);
+  packets
+    .filter((p) => p.event === 'board.tool_changed')
+    .map((p) => p.args[0] as BoardToolChange)
+    .filter((c) => c.tool.id === toolId);
 
 describe('board changes', () => {
   it('when a state changes, then signed-in and display sockets receive the tool’s new board entry and counts, equal to what the board answers', async () => {
@@ -45,7 +48,11 @@ describe('board changes', () => {
     await Promise.all([connected(member.socket), connected(display.socket)]);
 
     await changeState(server.deps, { toolId: tool.id, state: 'engineering', note: 'Recipe work', actorId: admin.id });
-    await waitUntil(() => changesOf(member.packets, tool.id).length > 0 && changesOf(display.packets, tool.id).length > 0, 3000, 'board.tool_changed');
+    await waitUntil(
+      () => changesOf(member.packets, tool.id).length > 0 && changesOf(display.packets, tool.id).length > 0,
+      3000,
+      'board.tool_changed',
+    );
 
     const board = await client.get('/api/board');
     const entry = board.body.areas.flatMap((a: any) => a.tools).find((t: any) => t.id === tool.id);
@@ -69,7 +76,11 @@ describe('board changes', () => {
 
     const t = await fileReport(member, tool.id);
     await waitUntil(() => changesOf(memberEar.packets, tool.id).some((c) => c.tool.openTickets === 1), 3000, 'the new count');
-    await waitUntil(() => staffEar.packets.some((p) => p.event === 'ticket.created' && (p.args[0] as { id: number }).id === t.id), 3000, 'ticket.created');
+    await waitUntil(
+      () => staffEar.packets.some((p) => p.event === 'ticket.created' && (p.args[0] as { id: number }).id === t.id),
+      3000,
+      'ticket.created',
+    );
     expect(memberEar.packets.some((p) => p.event === 'ticket.created')).toBe(false);
   });
 });
@@ -88,7 +99,8 @@ describe('ticket rooms', () => {
     const ack = await watching.socket.timeout(2000).emitWithAck('ticket.watch', t.id);
     expect(ack).toEqual({ ok: true });
 
-    const ticketEvents = (ear: { packets: { event: string; args: unknown[] }[] }) => ear.packets.filter((p) => p.event.startsWith('ticket.') && (p.args[0] as { id: number }).id === t.id);
+    const ticketEvents = (ear: { packets: { event: string; args: unknown[] }[] }) =>
+      ear.packets.filter((p) => p.event.startsWith('ticket.') && (p.args[0] as { id: number }).id === t.id);
     expect((await tech.post(`/api/tickets/${t.id}/comments`, { body: secret, internal: true })).status).toBe(201);
     await waitUntil(() => ticketEvents(staffEar).length === 1, 3000, 'the note announced to staff');
     expect((await tech.post(`/api/tickets/${t.id}/comments`, { body: 'We are on it.' })).status).toBe(201);
@@ -96,12 +108,22 @@ describe('ticket rooms', () => {
 
     // The closed page: the same member's other socket heard nothing of the ticket at all.
     watching.socket.emit('ticket.unwatch', t.id);
-    await waitUntil(async () => (await watching.socket.timeout(2000).emitWithAck('ticket.watch', -1)).ok === false, 3000, 'the unwatch to be handled');
+    await waitUntil(
+      async () => (await watching.socket.timeout(2000).emitWithAck('ticket.watch', -1)).ok === false,
+      3000,
+      'the unwatch to be handled',
+    );
     expect((await tech.post(`/api/tickets/${t.id}/comments`, { body: 'Parts ordered.' })).status).toBe(201);
     await waitUntil(() => ticketEvents(staffEar).length === 3, 3000, 'the second reply announced');
     // Events to one socket leave in order: a board change after the reply proves the reply would have arrived.
     await changeState(server.deps, { toolId: tool.id, state: 'engineering', note: 'Check', actorId: null });
-    await waitUntil(() => changesOf(watching.packets, tool.id).some((c) => c.tool.state === 'engineering') && changesOf(elsewhere.packets, tool.id).length > 0, 3000, 'the board change');
+    await waitUntil(
+      () =>
+        changesOf(watching.packets, tool.id).some((c) => c.tool.state === 'engineering') &&
+        changesOf(elsewhere.packets, tool.id).length > 0,
+      3000,
+      'the board change',
+    );
 
     expect(ticketEvents(watching)).toHaveLength(1);
     expect(ticketEvents(elsewhere)).toHaveLength(0);
@@ -153,7 +175,11 @@ describe('connection-state recovery', () => {
     const back = open({ cookie: tech.cookie!, recovery });
     await connected(back.socket);
     expect(back.socket.recovered).toBe(true);
-    await waitUntil(() => back.packets.some((p) => p.event === 'ticket.updated' && (p.args[0] as { id: number }).id === ticketId), 3000, 'the missed event');
+    await waitUntil(
+      () => back.packets.some((p) => p.event === 'ticket.updated' && (p.args[0] as { id: number }).id === ticketId),
+      3000,
+      'the missed event',
+    );
   });
 
   it('when an old recovery id is sent without a cookie, then the socket is refused and no missed event reaches it', async () => {

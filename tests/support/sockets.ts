@@ -13,7 +13,10 @@ export interface Heard {
  * packet that reached this client, also those that arrived before (or without) a successful
  * connect, so a test sees what travelled over the wire, not only what the client accepted.
  */
-export function openTestSocket(url: string, opts: { cookie?: string; displayKey?: string; recovery?: Recovery; reconnection?: boolean } = {}) {
+export function openTestSocket(
+  url: string,
+  opts: { cookie?: string; displayKey?: string; recovery?: Recovery; reconnection?: boolean } = {},
+) {
   const socket: TestSocket = io(url, {
     path: '/socket.io',
     transports: ['websocket'],

@@ -48,7 +48,9 @@ export async function buildBenchFacility() {
   const started = Date.now();
   try {
     const intervals = await fill(sequelize, displayKey);
-    console.log(`Data: ${TOOLS} tools in ${AREAS} areas, ${intervals} state intervals, 1500 tickets (filled in ${((Date.now() - started) / 1000).toFixed(1)} s).`);
+    console.log(
+      `Data: ${TOOLS} tools in ${AREAS} areas, ${intervals} state intervals, 1500 tickets (filled in ${((Date.now() - started) / 1000).toFixed(1)} s).`,
+    );
   } finally {
     await sequelize.close();
   }
@@ -65,14 +67,25 @@ async function fill(sequelize: ReturnType<typeof createSequelize>, displayKey: s
     ('${MEMBER_EMAIL}', 'Bench member', 'member', '${hash}', 1, 0, NOW(3), NOW(3))`);
   const areas = Array.from({ length: AREAS }, (_, i) => `('Bench area ${i + 1}', 'BA${i + 1}', ${i}, NOW(3), NOW(3))`);
   await q(`INSERT INTO areas (name, code, sort_order, created_at, updated_at) VALUES ${areas.join(',')}`);
-  const tools = Array.from({ length: TOOLS }, (_, i) => `(${(i % AREAS) + 1}, 'Bench tool ${i + 1}', 'BT-${i + 1}', 'normal', 1, NOW(3), NOW(3))`);
+  const tools = Array.from(
+    { length: TOOLS },
+    (_, i) => `(${(i % AREAS) + 1}, 'Bench tool ${i + 1}', 'BT-${i + 1}', 'normal', 1, NOW(3), NOW(3))`,
+  );
   await q(`INSERT INTO tools (area_id, name, code, criticality, primary_engineer_id, created_at, updated_at) VALUES ${tools.join(',')}`);
   const modules: string[] = [];
-  for (let t = 1; t <= TOOLS; t++) if (t % 5 === 0) for (let m = 1; m <= 3; m++) modules.push(`(${t}, 'Chamber ${m}', 'PM${m}', ${m}, NOW(3), NOW(3))`);
+  for (let t = 1; t <= TOOLS; t++)
+    if (t % 5 === 0) for (let m = 1; m <= 3; m++) modules.push(`(${t}, 'Chamber ${m}', 'PM${m}', ${m}, NOW(3), NOW(3))`);
   await q(`INSERT INTO modules (tool_id, name, code, sort_order, created_at, updated_at) VALUES ${modules.join(',')}`);
 
   const states = ['productive', 'standby', 'standby', 'engineering', 'scheduled_downtime', 'unscheduled_downtime', 'non_scheduled'];
-  const reasons: Record<string, string> = { productive: 'none', standby: 'none', engineering: 'process_development', scheduled_downtime: 'preventive_maintenance', unscheduled_downtime: 'repair', non_scheduled: 'not_staffed' };
+  const reasons: Record<string, string> = {
+    productive: 'none',
+    standby: 'none',
+    engineering: 'process_development',
+    scheduled_downtime: 'preventive_maintenance',
+    unscheduled_downtime: 'repair',
+    non_scheduled: 'not_staffed',
+  };
   const rows: string[] = [];
   const log = (toolId: number, moduleId: number | null, count: number) => {
     let t = now - 365 * 86_400_000;
@@ -80,7 +93,9 @@ async function fill(sequelize: ReturnType<typeof createSequelize>, displayKey: s
     for (let i = 0; i < count; i++) {
       const state = i === count - 1 && rnd.chance(0.15) ? rnd.pick(states.slice(3)) : rnd.pick(states);
       const end = i === count - 1 ? null : t + step * (0.5 + rnd.next());
-      rows.push(`(${toolId}, ${moduleId ?? 'NULL'}, '${state}', '${reasons[state]}', ${state === 'productive' || state === 'standby' ? 'NULL' : `'Bench note ${i}'`}, '${fmt(new Date(t))}', ${end ? `'${fmt(new Date(end))}'` : 'NULL'}, 'staff', 1, NOW(3))`);
+      rows.push(
+        `(${toolId}, ${moduleId ?? 'NULL'}, '${state}', '${reasons[state]}', ${state === 'productive' || state === 'standby' ? 'NULL' : `'Bench note ${i}'`}, '${fmt(new Date(t))}', ${end ? `'${fmt(new Date(end))}'` : 'NULL'}, 'staff', 1, NOW(3))`,
+      );
       if (end) t = end;
     }
   };
@@ -88,13 +103,22 @@ async function fill(sequelize: ReturnType<typeof createSequelize>, displayKey: s
   let moduleId = 0;
   for (let t = 1; t <= TOOLS; t++) if (t % 5 === 0) for (let m = 0; m < 3; m++) log(t, ++moduleId, 20);
   for (let i = 0; i < rows.length; i += 5000) {
-    await q(`INSERT INTO state_intervals (tool_id, module_id, state, reason, note, started_at, ended_at, source, confirmed, created_at) VALUES ${rows.slice(i, i + 5000).join(',')}`);
+    await q(
+      `INSERT INTO state_intervals (tool_id, module_id, state, reason, note, started_at, ended_at, source, confirmed, created_at) VALUES ${rows.slice(i, i + 5000).join(',')}`,
+    );
   }
   const statuses = ['reported', 'acknowledged', 'in_repair', 'waiting', 'fixed', 'closed', 'closed', 'closed'];
-  const tickets = Array.from({ length: 1500 }, (_, i) => `(${rnd.int(1, TOOLS)}, 'other', 'Bench ticket ${i}', 'tool_stopped', '[]', '${rnd.pick(statuses)}', 'P3', NOW(3), NOW(3))`);
-  await q(`INSERT INTO tickets (tool_id, category, title, impact, hazards, status, priority, created_at, updated_at) VALUES ${tickets.join(',')}`);
+  const tickets = Array.from(
+    { length: 1500 },
+    (_, i) => `(${rnd.int(1, TOOLS)}, 'other', 'Bench ticket ${i}', 'tool_stopped', '[]', '${rnd.pick(statuses)}', 'P3', NOW(3), NOW(3))`,
+  );
+  await q(
+    `INSERT INTO tickets (tool_id, category, title, impact, hazards, status, priority, created_at, updated_at) VALUES ${tickets.join(',')}`,
+  );
   const keyHash = crypto.createHash('sha256').update(displayKey).digest('hex');
-  await q(`INSERT INTO display_links (name, key_hash, created_by_id, created_at, updated_at) VALUES ('Bench screen', '${keyHash}', 1, NOW(3), NOW(3))`);
+  await q(
+    `INSERT INTO display_links (name, key_hash, created_by_id, created_at, updated_at) VALUES ('Bench screen', '${keyHash}', 1, NOW(3), NOW(3))`,
+  );
   return rows.length;
 }
 
@@ -125,14 +149,29 @@ export interface LatencyRow {
 }
 
 /** autocannon against one URL after a short warm-up, so JIT and pools settle first. */
-export async function measure(name: string, url: string, opts: { headers?: Record<string, string>; connections: number; seconds: number }): Promise<LatencyRow> {
+export async function measure(
+  name: string,
+  url: string,
+  opts: { headers?: Record<string, string>; connections: number; seconds: number },
+): Promise<LatencyRow> {
   const { headers = {}, connections, seconds } = opts;
   await autocannon({ url, headers, connections, duration: 2 });
   const r = await autocannon({ url, headers, connections, duration: seconds });
-  return { name, rps: r.requests.average, p50: r.latency.p50, p90: r.latency.p90, p99: r.latency.p99, requests: r.requests.total, bad: r.non2xx + r.errors + r.timeouts };
+  return {
+    name,
+    rps: r.requests.average,
+    p50: r.latency.p50,
+    p90: r.latency.p90,
+    p99: r.latency.p99,
+    requests: r.requests.total,
+    bad: r.non2xx + r.errors + r.timeouts,
+  };
 }
 
 /** The machine's load while the benchmark ran: its figures mean little without it. */
 export function loadAverage() {
-  return `load average ${os.loadavg().map((n) => n.toFixed(2)).join(' ')} (${os.cpus().length} cores)`;
+  return `load average ${os
+    .loadavg()
+    .map((n) => n.toFixed(2))
+    .join(' ')} (${os.cpus().length} cores)`;
 }
