@@ -18,7 +18,9 @@ const configSchema = z.object({
   DB_NAME: z.string().min(1).default('faultline'),
   DB_USER: z.string().min(1).default('faultline'),
   DB_PASSWORD: z.string().default(''),
-  DB_POOL_MAX: z.coerce.number().int().min(1).default(10),
+  DB_POOL_MAX: z.coerce.number().int().min(1).default(20),
+  /** How long a request may wait for a free connection: a burst of reads queues rather than fails. */
+  DB_ACQUIRE_TIMEOUT_MS: z.coerce.number().int().positive().default(30_000),
 
   SESSION_SECRET: z.string().min(32, 'SESSION_SECRET must be at least 32 characters'),
   SESSION_IDLE_MINUTES: z.coerce.number().positive().default(120),
@@ -74,6 +76,8 @@ const configSchema = z.object({
   UPLOADS_AT_ONCE: z.coerce.number().int().positive().default(8),
   FACILITY_TIME_ZONE: z.string().default('Europe/Berlin'),
   DEMO: bool.default(false),
+  /** Set when several server processes share the sockets (socket.io's Redis adapter). */
+  REDIS_URL: z.url().optional(),
 });
 
 export type Config = z.infer<typeof configSchema> & { publicUrl: string; cookieSecure: boolean };

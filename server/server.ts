@@ -12,6 +12,8 @@ import { createTransport, OutboxWorker } from './lib/mailer';
 import { MailCatcher } from './lib/mail-catcher';
 import { verifyDisplayKey } from './modules/facility/display-links.service';
 import { AccountMailQueue } from './modules/auth/account-links.service';
+import { mayViewTicket } from './modules/tickets/ticket-query.service';
+import { connectRedisAdapter } from './lib/redis-adapter';
 import type { AppDeps } from './lib/http';
 import { photoSweeper } from './modules/tickets/photo-sweep';
 import { warnAdminsOfLateMail } from './modules/mail/mail.service';
@@ -26,6 +28,8 @@ export interface StartOptions {
   /** Answer "mail me a link" requests in the background (default true; tests may run passes by hand). */
   accountMailQueue?: boolean;
   serveClient?: boolean;
+  /** The built client to serve (default dist/). */
+  distDir?: string;
   /** Where log lines go (default stdout); tests capture them. */
   logDestination?: import('pino').DestinationStream;
 }
@@ -46,14 +50,25 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     session,
     passport,
     catcher,
-    distDir: opts.serveClient === false ? undefined : path.join(root, 'dist'),
+    distDir: opts.serveClient === false ? undefined : (opts.distDir ?? path.join(root, 'dist')),
   });
   const accountMail = new AccountMailQueue(deps);
   app.locals.accountMail = accountMail;
   if (opts.accountMailQueue !== false) accountMail.start();
   const server = http.createServer(app);
   const allowedOrigins = [new URL(config.publicUrl).origin];
-  const io = attachRealtime(server, { allowedOrigins, session, passport, events, log, verifyDisplayKey });
+  // One process keeps its sockets to itself; with REDIS_URL, broadcasts reach every process.
+  const redis = config.REDIS_URL ? await connectRedisAdapter(config.REDIS_URL, log) : null;
+  const io = attachRealtime(server, {
+    allowedOrigins,
+    session,
+    passport,
+    events,
+    log,
+    verifyDisplayKey,
+    mayWatchTicket: mayViewTicket,
+    adapter: redis?.adapter,
+  });
 
   const worker = new OutboxWorker(createTransport(config), config, log, {
     pollMs: config.OUTBOX_POLL_MS,
@@ -97,6 +112,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     await worker.stop();
     await accountMail.stop();
     await new Promise<void>((resolve) => io.close(() => resolve()));
+    await redis?.close();
     server.closeAllConnections?.();
     await new Promise<void>((resolve) => server.close(() => resolve()));
     if (catcher) await catcher.stop();

@@ -6,10 +6,10 @@ import type { Config } from '../config';
 import { initModels } from './models';
 
 /** A Sequelize instance; `bindModels: false` for side connections (admin, scratch databases). */
-export function createSequelize(
-  config: Pick<Config, 'DB_HOST' | 'DB_PORT' | 'DB_NAME' | 'DB_USER' | 'DB_PASSWORD' | 'DB_POOL_MAX'>,
-  opts: { bindModels?: boolean } = {},
-) {
+type DbConfig = Pick<Config, 'DB_HOST' | 'DB_PORT' | 'DB_NAME' | 'DB_USER' | 'DB_PASSWORD' | 'DB_POOL_MAX'> &
+  Partial<Pick<Config, 'DB_ACQUIRE_TIMEOUT_MS'>>;
+
+export function createSequelize(config: DbConfig, opts: { bindModels?: boolean } = {}) {
   const sequelize = new Sequelize(config.DB_NAME, config.DB_USER, config.DB_PASSWORD, {
     dialect: 'mariadb',
     host: config.DB_HOST,
@@ -24,7 +24,11 @@ export function createSequelize(
       bigNumberStrings: false,
       decimalAsNumber: true,
     },
-    pool: { max: config.DB_POOL_MAX, min: 0, acquire: 4000, idle: 10_000, evict: 5_000 },
+    // A burst (hundreds of boards reloading after a restart) waits in the pool's queue: each
+    // board read holds a connection for milliseconds, so a long acquire timeout costs nothing
+    // when the database is up. When it is down, opening a connection fails within
+    // connectTimeout and the request gets a 503 then, not after the acquire timeout.
+    pool: { max: config.DB_POOL_MAX, min: 0, acquire: config.DB_ACQUIRE_TIMEOUT_MS ?? 30_000, idle: 10_000, evict: 5_000 },
     define: { underscored: true, timestamps: true },
   });
   if (opts.bindModels !== false) initModels(sequelize);

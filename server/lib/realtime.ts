@@ -1,25 +1,37 @@
 import type { Server as HttpServer, IncomingMessage, ServerResponse } from 'node:http';
-import { Server, type Socket } from 'socket.io';
+import { Server, type ServerOptions, type Socket } from 'socket.io';
 import type { RequestHandler } from 'express';
 import type { PassportStatic } from 'passport';
 import { isStaff } from '../../shared/roles';
-import type { DomainEvent, DomainEvents } from './events';
+import { ticketRoom, type ClientToServerEvents, type ServerToClientEvents } from '../../shared/events';
+import type { Audience, DomainEvent, DomainEvents } from './events';
 import type { Logger } from './logger';
 import type { AuthUser } from './http';
 
 /**
  * The one place that maps domain events to socket rooms:
- *   all       every signed-in user and every lobby display (board-level announcements)
- *   staff     technicians, managers, admins (internal notes and triage-only changes)
- *   user:<id> one person (their notices); session:<sid> one browser session (sign-out)
- * Sockets carry only "what changed" ids; clients refetch through the API and its rules.
+ *   all         every signed-in user and every lobby display (board entries, board changes)
+ *   staff       technicians, managers, admins (staff lists, internal notes, triage changes)
+ *   ticket:<id> sockets whose page shows that ticket (joined on request, access checked)
+ *   user:<id>   one person (their notices); session:<sid> one browser session (sign-out)
+ *   display:<id> one lobby display link (revocation)
+ * Which rooms a socket is in is decided only by `roomsOf`, from a checked identity: on a new
+ * connection and on a recovered one alike.
  */
-let io: Server | null = null;
+export interface SocketData {
+  displayLinkId?: number;
+  userId?: number;
+}
+export type RealtimeServer = Server<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>;
+type RealtimeSocket = Socket<ClientToServerEvents, ServerToClientEvents, Record<string, never>, SocketData>;
 
-export function roomsFor(event: DomainEvent): string[] {
-  if (event.audience === 'all') return ['all'];
-  if (event.audience === 'staff') return ['staff'];
-  return event.audience.users.map((id) => `user:${id}`);
+let io: RealtimeServer | null = null;
+
+export function roomsFor(audience: Audience): string[] {
+  if (audience === 'all') return ['all'];
+  if (audience === 'staff') return ['staff'];
+  if ('ticket' in audience) return audience.staffOnly ? ['staff'] : ['staff', ticketRoom(audience.ticket)];
+  return audience.users.map((id) => `user:${id}`);
 }
 
 type Req = IncomingMessage & { user?: AuthUser; sessionID?: string; _query?: Record<string, string> };
@@ -32,10 +44,25 @@ export interface RealtimeOptions {
   log: Logger;
   /** Resolves a lobby display key to its link id, or null when unknown or revoked. */
   verifyDisplayKey: (key: string) => Promise<number | null>;
+  /** Whether this user may see that ticket (its page, and so its room). */
+  mayWatchTicket: (user: AuthUser, ticketId: number) => Promise<boolean>;
+  /** socket.io's Redis adapter when several processes share the sockets (REDIS_URL). */
+  adapter?: ServerOptions['adapter'];
 }
 
-export function attachRealtime(server: HttpServer, opts: RealtimeOptions) {
-  const instance = new Server(server, {
+/** Who is on the other end, decided from this handshake only (never from a restored session). */
+type Identity = { kind: 'user'; user: AuthUser; sessionId: string | undefined } | { kind: 'display'; linkId: number };
+
+function roomsOf(identity: Identity): string[] {
+  if (identity.kind === 'display') return ['all', `display:${identity.linkId}`];
+  const rooms = ['all', `user:${identity.user.id}`];
+  if (identity.sessionId) rooms.push(`session:${identity.sessionId}`);
+  if (isStaff(identity.user.role)) rooms.push('staff');
+  return rooms;
+}
+
+export function attachRealtime(server: HttpServer, opts: RealtimeOptions): RealtimeServer {
+  const instance: RealtimeServer = new Server(server, {
     path: '/socket.io',
     serveClient: false,
     // Only our own pages may open a socket (the handshake carries the session cookie).
@@ -43,7 +70,11 @@ export function attachRealtime(server: HttpServer, opts: RealtimeOptions) {
       const origin = req.headers.origin;
       callback(null, !origin || opts.allowedOrigins.includes(origin));
     },
-    connectionStateRecovery: { maxDisconnectionDuration: 2 * 60_000 },
+    // A short network drop keeps the socket's id and the events it missed, but a recovered
+    // socket is checked like a new one: the middleware below runs again (socket.io skips it by
+    // default), and the missed events are held back until the check has passed.
+    connectionStateRecovery: { maxDisconnectionDuration: 2 * 60_000, skipMiddlewares: false },
+    ...(opts.adapter ? { adapter: opts.adapter } : {}),
   });
   const onlyForHandshake = (middleware: RequestHandler) => (req: Req, res: ServerResponse, next: (err?: unknown) => void) => {
     if (req._query?.sid === undefined)
@@ -53,43 +84,99 @@ export function attachRealtime(server: HttpServer, opts: RealtimeOptions) {
   instance.engine.use(onlyForHandshake(opts.session));
   instance.engine.use(onlyForHandshake(opts.passport.session() as RequestHandler));
 
+  // Missed events of a recovered socket, keyed by its id, with the rooms they were chosen for.
+  const heldBack = new Map<string, { rooms: Set<string>; packets: unknown[][] }>();
+  const adapter = instance.of('/').adapter;
+  const restoreSession = adapter.restoreSession.bind(adapter);
+  adapter.restoreSession = async (pid, offset) => {
+    const session = await restoreSession(pid, offset);
+    if (!session) return session;
+    heldBack.set(session.sid, { rooms: new Set(session.rooms), packets: session.missedPackets });
+    // Dropped unless the socket reaches the connection handler (a refused socket never does).
+    setTimeout(() => heldBack.delete(session.sid), 30_000).unref();
+    return { ...session, missedPackets: [] };
+  };
+
+  const identities = new WeakMap<RealtimeSocket, Identity>();
   instance.use(async (socket, next) => {
     const req = socket.request as Req;
-    if (req.user) return next();
+    if (req.user) {
+      identities.set(socket, { kind: 'user', user: req.user, sessionId: req.sessionID });
+      return next();
+    }
     const key = typeof socket.handshake.auth?.displayKey === 'string' ? socket.handshake.auth.displayKey : null;
     if (key) {
       try {
         const linkId = await opts.verifyDisplayKey(key);
         if (linkId) {
-          socket.data.displayLinkId = linkId;
+          identities.set(socket, { kind: 'display', linkId });
           return next();
         }
       } catch (error) {
         opts.log.warn({ err: String(error) }, 'display key check failed');
       }
     }
+    heldBack.delete(socket.id);
+    if (socket.recovered) opts.log.info({ socket: socket.id }, 'recovered socket refused: no valid session or display key');
     next(new Error('unauthorized'));
   });
 
-  instance.on('connection', (socket: Socket) => {
-    const req = socket.request as Req;
-    if (req.user) {
-      socket.join(['all', `user:${req.user.id}`]);
-      if (req.sessionID) socket.join(`session:${req.sessionID}`);
-      if (isStaff(req.user.role)) socket.join('staff');
-    } else if (socket.data.displayLinkId) {
-      socket.join(['all', `display:${socket.data.displayLinkId}`]);
+  instance.on('connection', async (socket) => {
+    const identity = identities.get(socket);
+    if (!identity) {
+      // Never happens while the middleware runs for every socket; refuse rather than trust.
+      socket.disconnect(true);
+      return;
+    }
+    socket.data = identity.kind === 'user' ? { userId: identity.user.id } : { displayLinkId: identity.linkId };
+    if (identity.kind === 'user') {
+      socket.on('ticket.watch', async (ticketId, ack) => {
+        const ok = Number.isInteger(ticketId) && ticketId > 0 && (await opts.mayWatchTicket(identity.user, ticketId).catch(() => false));
+        if (ok && socket.connected) socket.join(ticketRoom(ticketId));
+        if (typeof ack === 'function') ack({ ok });
+      });
+      socket.on('ticket.unwatch', (ticketId) => {
+        if (Number.isInteger(ticketId)) socket.leave(ticketRoom(ticketId));
+      });
+    }
+
+    const rooms = new Set(roomsOf(identity));
+    const held = heldBack.get(socket.id);
+    heldBack.delete(socket.id);
+    if (socket.recovered) {
+      // Rooms restored from before the drop are re-decided: a ticket room only if still allowed.
+      for (const room of [...socket.rooms]) {
+        if (room === socket.id || rooms.has(room)) continue;
+        socket.leave(room);
+        const ticketId = room.startsWith('ticket:') ? Number(room.slice('ticket:'.length)) : NaN;
+        if (
+          identity.kind === 'user' &&
+          Number.isInteger(ticketId) &&
+          (await opts.mayWatchTicket(identity.user, ticketId).catch(() => false))
+        )
+          rooms.add(room);
+      }
+    }
+    if (!socket.connected) return;
+    socket.join([...rooms]);
+    // Missed events were chosen for the old rooms; hand them over only when the socket may
+    // still be in all of those rooms. Otherwise the client's refetch after a reconnect covers it.
+    if (held && [...held.rooms].every((room) => room === socket.id || rooms.has(room))) {
+      for (const [event, ...args] of held.packets as [string, ...unknown[]][]) {
+        (socket.emit as (event: string, ...args: unknown[]) => boolean)(event, ...args);
+      }
     }
   });
 
-  const unsubscribe = opts.events.subscribe((event) => {
-    instance.to(roomsFor(event)).emit(event.type, event.payload);
+  const unsubscribe = opts.events.subscribe((event: DomainEvent) => {
+    (instance.to(roomsFor(event.audience)).emit as (event: string, payload: unknown) => boolean)(event.type, event.payload);
   });
-  instance.on('close', unsubscribe);
+  instance.on('close', () => void unsubscribe());
   io = instance;
   return instance;
 }
 
+// These reach sockets on every process when the Redis adapter is in use.
 export function disconnectSession(sid: string) {
   io?.in(`session:${sid}`).disconnectSockets(true);
 }

@@ -213,7 +213,6 @@ export interface BoardArea {
 }
 
 export interface BoardData {
-  generatedAt: string;
   areas: BoardArea[];
   /** Tools per status over the whole board (before the q/area/status filters). */
   counts: Record<BoardStatus, number>;

@@ -1,41 +1,15 @@
-import { useEffect, useSyncExternalStore } from 'react';
+import { useSyncExternalStore } from 'react';
 import { io, type Socket } from 'socket.io-client';
-import { useQueryClient, type QueryClient, type QueryKey } from '@tanstack/react-query';
-import { reportSessionMayHaveEnded } from '@/lib/api-client';
-import { boardKeys } from '@/features/board/api/get-board';
-import { toolKeys } from '@/features/tools/api/tool-keys';
-import { adminKeys } from '@/features/facility-admin/api/admin-keys';
-import { noticeKeys } from '@/features/notices/api/notice-keys';
-import { ticketKeys } from '@/features/tickets/api/ticket-keys';
+import type { ClientToServerEvents, ServerToClientEvents } from '@shared/events';
 
-// The socket only announces that something changed; screens refetch what they show.
-// That keeps permission checks in one place (the API) and avoids a second data path.
+// The page's one socket: a signed-in user's (session cookie) or a lobby display's (its key).
+// Typed by the event catalogue in shared/events.ts. What each event does to the caches is
+// decided in src/app/realtime.ts; this file only connects and reports the connection's state.
 
-/** What the server sends with every event: the id of what changed, and perhaps more. */
-export type RealtimePayload = { id: number | string } & Record<string, unknown>;
-
-type Invalidation = (payload: RealtimePayload) => QueryKey[];
-
-/**
- * The one table from server event to the queries it makes stale. Add a line per event a
- * feature cares about, using that feature's key factory, e.g.
- *   'ticket.updated': (p) => [ticketKeys.detail(p.id), ticketKeys.lists()],
- */
-export const REALTIME_INVALIDATIONS: Record<string, Invalidation> = {
-  'notice.created': () => [['notices']],
-  'notice.read': () => [noticeKeys.all],
-  // Ticket pages show the tool's state too.
-  'tool.state_changed': () => [boardKeys.all, toolKeys.all, ticketKeys.details()],
-  'facility.updated': () => [boardKeys.all, toolKeys.all, adminKeys.all],
-  // The board and tool pages count open tickets.
-  'ticket.created': () => [ticketKeys.lists(), boardKeys.all, toolKeys.all],
-  'ticket.updated': (p) => [ticketKeys.detail(Number(p.id)), ticketKeys.lists(), boardKeys.all, toolKeys.all],
-  'service_targets.updated': () => [ticketKeys.all],
-};
-
+export type RealtimeSocket = Socket<ServerToClientEvents, ClientToServerEvents>;
 export type RealtimeStatus = 'off' | 'connecting' | 'live' | 'reconnecting';
 
-let socket: Socket | null = null;
+let socket: RealtimeSocket | null = null;
 let status: RealtimeStatus = 'off';
 const statusListeners = new Set<() => void>();
 
@@ -45,25 +19,27 @@ function setStatus(next: RealtimeStatus): void {
   for (const listener of statusListeners) listener();
 }
 
-/** The socket of the signed-in user, created on first use. */
-export function openSocket(): Socket {
+/** The page's socket, created on first use; `displayKey` makes it a lobby display's. */
+export function openSocket(opts: { displayKey?: string } = {}): RealtimeSocket {
   if (socket) return socket;
-  socket = io({
+  const s: RealtimeSocket = io({
     path: '/socket.io',
     withCredentials: true,
     autoConnect: false,
     // A fresh manager per sign-in, so nothing of a previous user's connection is reused.
     forceNew: true,
+    ...(opts.displayKey ? { auth: { displayKey: opts.displayKey } } : {}),
   });
+  socket = s;
   setStatus('connecting');
-  socket.on('connect', () => setStatus('live'));
-  socket.on('disconnect', () => setStatus(socket?.active ? 'reconnecting' : 'off'));
-  socket.on('connect_error', () => setStatus(socket?.active ? 'reconnecting' : 'off'));
-  socket.connect();
-  return socket;
+  s.on('connect', () => setStatus('live'));
+  s.on('disconnect', () => setStatus(s.active ? 'reconnecting' : 'off'));
+  s.on('connect_error', () => setStatus(s.active ? 'reconnecting' : 'off'));
+  s.connect();
+  return s;
 }
 
-/** Closes the socket; called at sign-out and when the protected layout goes away. */
+/** Closes the socket; called at sign-out and when the page that opened it goes away. */
 export function closeSocket(): void {
   if (!socket) return;
   socket.removeAllListeners();
@@ -85,72 +61,4 @@ export function useRealtimeStatus(): RealtimeStatus {
     () => status,
     () => 'off',
   );
-}
-
-// A burst of events (a facility-wide power dip changes dozens of tools at once) is folded
-// into one round of invalidations instead of one refetch per event.
-const BATCH_MS = 150;
-
-function createBatcher(queryClient: QueryClient) {
-  const pending = new Map<string, QueryKey>();
-  let timer: ReturnType<typeof setTimeout> | null = null;
-  return {
-    add(keys: QueryKey[]) {
-      for (const key of keys) pending.set(JSON.stringify(key), key);
-      timer ??= setTimeout(() => {
-        timer = null;
-        const keysNow = [...pending.values()];
-        pending.clear();
-        for (const queryKey of keysNow) void queryClient.invalidateQueries({ queryKey });
-      }, BATCH_MS);
-    },
-    cancel() {
-      if (timer) clearTimeout(timer);
-      timer = null;
-      pending.clear();
-    },
-  };
-}
-
-/**
- * Mount once, inside the signed-in part of the app. Opens the socket, turns server events
- * into query invalidations, and after a reconnect refetches everything on screen, since
- * events sent while the connection was down are lost.
- */
-export function useRealtimeInvalidation(): void {
-  const queryClient = useQueryClient();
-
-  useEffect(() => {
-    const s = openSocket();
-    const batcher = createBatcher(queryClient);
-
-    const handlers = Object.entries(REALTIME_INVALIDATIONS).map(([event, toKeys]) => {
-      const handler = (payload: RealtimePayload) => batcher.add(toKeys(payload));
-      s.on(event, handler);
-      return [event, handler] as const;
-    });
-
-    const onReconnect = () => void queryClient.invalidateQueries();
-    s.io.on('reconnect', onReconnect);
-
-    // The server cut us off on purpose (session ended, account disabled) or refused the
-    // handshake: ask the API who we are; if nobody, the router goes to sign-in.
-    const onDisconnect = (reason: Socket.DisconnectReason) => {
-      if (reason === 'io server disconnect') reportSessionMayHaveEnded();
-    };
-    const onConnectError = () => {
-      if (!s.active) reportSessionMayHaveEnded();
-    };
-    s.on('disconnect', onDisconnect);
-    s.on('connect_error', onConnectError);
-
-    return () => {
-      batcher.cancel();
-      for (const [event, handler] of handlers) s.off(event, handler);
-      s.io.off('reconnect', onReconnect);
-      s.off('disconnect', onDisconnect);
-      s.off('connect_error', onConnectError);
-      closeSocket();
-    };
-  }, [queryClient]);
 }

@@ -1,3 +1,4 @@
+import type { BoardToolChange } from '../../shared/events';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { io as connect, type Socket } from 'socket.io-client';
 import { startTestServer, type TestServer } from '../support/server';
@@ -134,7 +135,7 @@ describe('the status board', () => {
     expect(r.status).toBe(401);
   });
 
-  it('when a state changes, then a signed-in socket hears tool.state_changed within a second', async () => {
+  it('when a state changes, then a signed-in socket receives the tool’s new board entry', async () => {
     const { client } = await signedInClient(server.url, 'member');
     const { tool } = await makeTool(server.deps.sequelize);
     const socket: Socket = connect(server.url, {
@@ -148,17 +149,15 @@ describe('the status board', () => {
         socket.once('connect', () => resolve());
         socket.once('connect_error', reject);
       });
-      const heard = new Promise<{ toolId: number; state: string }>((resolve) =>
-        socket.on('tool.state_changed', (p) => p.toolId === tool.id && resolve(p)),
+      const heard = new Promise<BoardToolChange>((resolve) =>
+        socket.on('board.tool_changed', (p: BoardToolChange) => p.tool.id === tool.id && resolve(p)),
       );
-      const started = Date.now();
       await changeState(server.deps, { toolId: tool.id, state: 'engineering', note: 'Recipe work', actorId: null });
       const payload = await Promise.race([
         heard,
-        new Promise<never>((_, reject) => setTimeout(() => reject(new Error('no event within 1 s')), 1000)),
+        new Promise<never>((_, reject) => setTimeout(() => reject(new Error('no event within 3 s')), 3000)),
       ]);
-      expect(payload).toEqual({ toolId: tool.id, moduleId: null, state: 'engineering' });
-      expect(Date.now() - started).toBeLessThan(1000);
+      expect(payload.tool).toMatchObject({ id: tool.id, state: 'engineering', status: 'engineering', note: 'Recipe work' });
     } finally {
       socket.disconnect();
     }

@@ -112,13 +112,13 @@ describe('lobby display links', () => {
     try {
       await waitFor<void>((done) => socket.once('connect', () => done()), 2000, 'connect');
       // The display hears state changes like any board.
-      const heard = waitFor<{ toolId: number }>(
-        (done) => socket.on('tool.state_changed', (p) => p.toolId === tool.id && done(p)),
-        1000,
-        'tool.state_changed',
+      const heard = waitFor<{ tool: { id: number; state: string } }>(
+        (done) => socket.on('board.tool_changed', (p) => p.tool.id === tool.id && done(p)),
+        3000,
+        'board.tool_changed',
       );
       await changeState(server.deps, { toolId: tool.id, state: 'unscheduled_downtime', note: 'x', actorId: null });
-      expect((await heard).toolId).toBe(tool.id);
+      expect((await heard).tool).toMatchObject({ id: tool.id, state: 'unscheduled_downtime' });
 
       const cut = waitFor<string>((done) => socket.once('disconnect', done), 2000, 'disconnect');
       const revoked = await admin.client.delete(`/api/admin/display-links/${id}`);

@@ -4,6 +4,7 @@ import { signedInClient } from '../support/factories';
 import { changeState } from '../../server/modules/facility/state.service';
 import { StateInterval } from '../../server/modules/facility/facility.model';
 import type { DomainEvent } from '../../server/lib/events';
+import { waitUntil } from '../support/sockets';
 import { intervalsOf, logProblems, makeTool } from './facility-fixtures';
 
 let server: TestServer;
@@ -87,7 +88,7 @@ describe('the state log under concurrent changes', () => {
     expect(logProblems([a, b, c]).length).toBeGreaterThanOrEqual(2);
   });
 
-  it('when a change succeeds, then the previous interval closes at the instant the new one opens and tool.state_changed goes to everyone after commit', async () => {
+  it('when a change succeeds, then the previous interval closes at the instant the new one opens and the tool’s new board entry goes to everyone after commit', async () => {
     const { tool } = await makeTool(server.deps.sequelize);
     const seen: DomainEvent[] = [];
     const stop = server.deps.events.subscribe((e) => seen.push(e));
@@ -101,10 +102,11 @@ describe('the state log under concurrent changes', () => {
       });
       expect(result.previous?.state).toBe('standby');
       expect(result.previous?.endedAt?.getTime()).toBe(result.current.startedAt.getTime());
-      expect(seen).toContainEqual({
-        type: 'tool.state_changed',
+      await waitUntil(() => seen.some((e) => e.type === 'board.tool_changed' && e.payload.tool.id === tool.id), 3000, 'board.tool_changed');
+      const event = seen.find((e) => e.type === 'board.tool_changed' && e.payload.tool.id === tool.id)!;
+      expect(event).toMatchObject({
         audience: 'all',
-        payload: { toolId: tool.id, moduleId: null, state: 'unscheduled_downtime' },
+        payload: { tool: { id: tool.id, state: 'unscheduled_downtime', status: 'down' }, stateSetBy: null },
       });
     } finally {
       stop();
@@ -125,7 +127,9 @@ describe('the state log under concurrent changes', () => {
       const log = await intervalsOf(tool.id);
       expect(log).toHaveLength(1);
       expect(log[0].endedAt).toBeNull();
-      expect(seen.filter((e) => e.type === 'tool.state_changed')).toEqual([]);
+      // Board entries are read after commit: give a wrongly sent one time to arrive.
+      await new Promise((r) => setTimeout(r, 200));
+      expect(seen.filter((e) => e.type === 'board.tool_changed')).toEqual([]);
     } finally {
       stop();
     }

@@ -62,6 +62,8 @@ describe('internal notes', () => {
 
     const memberEar = await listen(member);
     const staffEar = await listen(tech);
+    // The member has the ticket's page open.
+    expect(await memberEar.socket.timeout(2000).emitWithAck('ticket.watch', t.id)).toEqual({ ok: true });
 
     const note = await tech.post(`/api/tickets/${t.id}/comments`, { body: secret, internal: true });
     expect(note.status).toBe(201);

@@ -7,6 +7,7 @@ import { Notice } from '../../server/modules/notices/notice.model';
 import { User } from '../../server/modules/users/user.model';
 import { StateInterval } from '../../server/modules/facility/facility.model';
 import type { DomainEvent } from '../../server/lib/events';
+import { waitUntil } from '../support/sockets';
 import { HAZARD_CAUTIONS } from '../../shared/report-options';
 import { createTool, fileReport, jpegBytes, openState, drainOutbox } from './tickets-fixtures';
 
@@ -83,13 +84,19 @@ describe('filing a report', () => {
     const kinds = (await TicketEvent.findAll({ where: { ticketId: ticket!.id }, order: [['id', 'ASC']] })).map((e) => e.kind);
     expect(kinds).toEqual(['reported', 'assignment', 'tool_state']);
 
+    await waitUntil(
+      () => events.slice(seen).some((e) => e.type === 'board.tool_changed' && e.payload.tool.id === tool.id),
+      3000,
+      'board.tool_changed',
+    );
     const newEvents = events.slice(seen);
     expect(newEvents.find((e) => e.type === 'ticket.created')).toMatchObject({
-      audience: 'all',
+      audience: 'staff',
       payload: { id: ticket!.id, toolId: tool.id },
     });
-    expect(newEvents.find((e) => e.type === 'tool.state_changed')).toMatchObject({
-      payload: { toolId: tool.id, state: 'unscheduled_downtime' },
+    expect(newEvents.find((e) => e.type === 'board.tool_changed')).toMatchObject({
+      audience: 'all',
+      payload: { tool: { id: tool.id, state: 'unscheduled_downtime', openTickets: 1 } },
     });
     expect(newEvents.find((e) => e.type === 'notice.created')).toMatchObject({
       audience: { users: expect.arrayContaining([primary.id, backup.id]) },

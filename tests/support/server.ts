@@ -13,6 +13,7 @@ export async function startTestServer(
   overrides: Record<string, string> = {},
   opts: {
     serveClient?: boolean;
+    distDir?: string;
     outboxWorker?: boolean;
     accountMailQueue?: boolean;
     logDestination?: import('pino').DestinationStream;
@@ -30,6 +31,7 @@ export async function startTestServer(
   const running = await startServer(config, {
     catcher,
     serveClient: opts.serveClient ?? false,
+    distDir: opts.distDir,
     outboxWorker: opts.outboxWorker,
     accountMailQueue: opts.accountMailQueue,
     logDestination: opts.logDestination,

@@ -10,6 +10,8 @@ import {
 import { OPEN_STATUSES } from '../../../shared/ticket-workflow';
 import type { BoardData, BoardModule, BoardQuery, BoardTool, ToolCriticality } from '../../../shared/schemas/facility';
 import { summarizeStatus } from './status-summary';
+import type { BoardToolChange } from '../../../shared/events';
+import type { AppDeps } from '../../lib/http';
 
 // The status board: every active tool with its rolled-up status, in two indexed queries
 // (tools with their open interval and open-ticket count; the open intervals of their
@@ -168,8 +170,7 @@ function matches(tool: BoardTool, q: string | undefined) {
  */
 export async function getBoard(sequelize: Sequelize, query: BoardQuery = {}): Promise<BoardData> {
   const { tools } = await loadRows(sequelize, {});
-  const counts = Object.fromEntries(BOARD_STATUSES.map((s) => [s, 0])) as Record<BoardStatus, number>;
-  for (const { tool } of tools) counts[tool.status]++;
+  const counts = countByStatus(tools);
 
   const areas = new Map<number, BoardData['areas'][number]>();
   for (const { tool, areaCode, areaName } of tools) {
@@ -183,7 +184,78 @@ export async function getBoard(sequelize: Sequelize, query: BoardQuery = {}): Pr
     }
     area.tools.push(tool);
   }
-  return { generatedAt: new Date().toISOString(), areas: [...areas.values()], counts, total: tools.length };
+  // No generation time in the body: the same board gives the same ETag, so a client that has it gets 304.
+  return { areas: [...areas.values()], counts, total: tools.length };
+}
+
+function countByStatus(tools: { tool: BoardTool }[]) {
+  const counts = Object.fromEntries(BOARD_STATUSES.map((s) => [s, 0])) as Record<BoardStatus, number>;
+  for (const { tool } of tools) counts[tool.status]++;
+  return counts;
+}
+
+/** Who set the tool's own open state (the tool page shows it); null for the system or unknown. */
+export async function openStateSetter(sequelize: Sequelize, toolId: number, transaction?: Transaction) {
+  const rows = await sequelize.query<{ id: number; name: string }>(
+    `SELECT u.id, u.name FROM state_intervals si JOIN users u ON u.id = si.set_by_id
+      WHERE si.tool_id = :toolId AND si.module_key = 0 AND si.open_flag = 1`,
+    { type: QueryTypes.SELECT, replacements: { toolId }, transaction },
+  );
+  return rows[0] ?? null;
+}
+
+/** The board entries of these tools as everyone now sees them, with the whole board's counts. */
+export async function loadBoardChanges(
+  sequelize: Sequelize,
+  toolIds: Iterable<number>,
+  opts: { stateChange?: boolean } = {},
+): Promise<BoardToolChange[]> {
+  const wanted = new Set(toolIds);
+  const { tools } = await loadRows(sequelize, {});
+  const counts = countByStatus(tools);
+  const changed = tools.filter(({ tool }) => wanted.has(tool.id));
+  return Promise.all(
+    changed.map(async ({ tool }) => ({
+      tool,
+      counts,
+      total: tools.length,
+      ...(opts.stateChange ? { stateSetBy: await openStateSetter(sequelize, tool.id) } : {}),
+    })),
+  );
+}
+
+const pendingAnnouncements = new WeakMap<Transaction, { toolIds: Set<number>; stateChange: boolean }>();
+
+/**
+ * Sends the new board entries of these tools to everyone (`board.tool_changed` to the `all`
+ * room) once the transaction commits; clients write them into their caches instead of
+ * refetching the board. Every change the board shows goes through here: state changes,
+ * open-ticket counts, and any field added to board entries. Several calls in one transaction
+ * send each tool once, read after the commit.
+ */
+export function announceBoardTools(
+  deps: AppDeps,
+  toolIds: number[],
+  transaction: Transaction | null | undefined,
+  opts: { stateChange?: boolean } = {},
+) {
+  if (toolIds.length === 0) return;
+  const pending = transaction ? pendingAnnouncements.get(transaction) : undefined;
+  if (pending) {
+    for (const id of toolIds) pending.toolIds.add(id);
+    pending.stateChange ||= Boolean(opts.stateChange);
+    return;
+  }
+  const batch = { toolIds: new Set(toolIds), stateChange: Boolean(opts.stateChange) };
+  if (transaction) pendingAnnouncements.set(transaction, batch);
+  deps.events.publishAfterCommit(
+    async () => {
+      const changes = await loadBoardChanges(deps.sequelize, batch.toolIds, { stateChange: batch.stateChange });
+      return changes.map((payload) => ({ type: 'board.tool_changed' as const, audience: 'all' as const, payload }));
+    },
+    transaction,
+    (error) => deps.log.error({ err: error, toolIds: [...batch.toolIds] }, 'board entries could not be sent to sockets'),
+  );
 }
 
 /** Worst first, then by name: for summaries such as the lobby display's "needs attention". */

@@ -61,7 +61,12 @@ export function facilityRoutes(opts: { log: Logger }): RouteSpec[] {
       query: boardQuery,
       // A display's "last seen" is kept by /display-link, which the screen re-checks every few
       // minutes; the board itself stays two queries.
-      handle: ({ deps, query }) => getBoard(deps.sequelize, query),
+      handle: ({ deps, query, res }) => {
+        // The same for every viewer and never personal: the browser may keep it, but asks
+        // again each time (If-None-Match, answered 304 while nothing changed; Express's ETag).
+        res.setHeader('Cache-Control', 'private, no-cache');
+        return getBoard(deps.sequelize, query);
+      },
     }),
     route({
       method: 'get',

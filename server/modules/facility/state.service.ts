@@ -3,6 +3,7 @@ import { Tool, ToolModule, StateInterval, type StateSource } from './facility.mo
 import { isReasonAllowed, REASONS_BY_STATE, type E10State, type StateReason } from '../../../shared/equipment-state';
 import { AppError, notFound, badRequest } from '../../lib/errors';
 import type { AppDeps } from '../../lib/http';
+import { announceBoardTools } from './board.service';
 
 export interface StateChange {
   toolId: number;
@@ -104,10 +105,7 @@ export async function changeState(deps: AppDeps, change: StateChange, outer?: Tr
     );
     const result = { previous: open, current };
     for (const hook of afterChangeHooks) await hook(result, transaction, deps);
-    deps.events.publish(
-      { type: 'tool.state_changed', audience: 'all', payload: { toolId: tool.id, moduleId, state: change.state } },
-      transaction,
-    );
+    announceBoardTools(deps, [tool.id], transaction, { stateChange: true });
     return result;
   };
   return outer ? run(outer) : deps.sequelize.transaction(run);

@@ -5,7 +5,7 @@ import { ToolFollow } from './facility.model';
 import { AppError, badRequest, conflict, notFound } from '../../lib/errors';
 import type { AppDeps } from '../../lib/http';
 import { changeState, openInitialState } from './state.service';
-import { loadBoardTools } from './board.service';
+import { loadBoardTools, openStateSetter } from './board.service';
 import { availabilityForPeriod } from './availability.service';
 import { STAFF_ROLES } from './staff';
 import { isStaff, type Role } from '../../../shared/roles';
@@ -352,11 +352,7 @@ export async function getToolDetail(deps: AppDeps, code: string, viewer: { id: n
     }),
     ToolFollow.findOne({ where: { userId: viewerId, toolId: tool.id }, attributes: ['userId'] }),
     availabilityForPeriod(deps.sequelize, { from, to: now, toolIds: [tool.id] }),
-    deps.sequelize.query<{ id: number; name: string }>(
-      `SELECT u.id, u.name FROM state_intervals si JOIN users u ON u.id = si.set_by_id
-        WHERE si.tool_id = :toolId AND si.module_key = 0 AND si.open_flag = 1`,
-      { type: QueryTypes.SELECT, replacements: { toolId: tool.id } },
-    ),
+    openStateSetter(deps.sequelize, tool.id),
   ]);
   const entry = entries[0];
   const area = (tool as Tool & { area: Area }).area;
@@ -370,7 +366,7 @@ export async function getToolDetail(deps: AppDeps, code: string, viewer: { id: n
     retiredAt: iso(tool.retiredAt),
     following: Boolean(follow),
     availability30d: availability.get(tool.id)!,
-    setBy: setBy[0] ?? null,
+    setBy,
   };
 }
 

@@ -8,6 +8,7 @@ import type { AppDeps, AuthUser } from '../../lib/http';
 import { appendEvent, applyStoppedReport } from './ticket-effects';
 import { notifyOnCall, notifyUsers, ticketFollowers } from './ticket-notify';
 import { findTicket } from './ticket-query.service';
+import { announceBoardTools } from '../facility/board.service';
 import { isStaff } from '../../../shared/roles';
 import { computePriority } from '../../../shared/priority';
 import { CATEGORY_LABELS, IMPACTS, IMPACT_LABELS, type Impact } from '../../../shared/report-options';
@@ -251,7 +252,9 @@ export async function createReport(deps: AppDeps, user: AuthUser, input: ReportD
         },
         transaction,
       );
-      deps.events.publish({ type: 'ticket.created', audience: 'all', payload: { id: ticket.id, toolId: locked.id } }, transaction);
+      // Staff lists refetch; everyone else sees the new open-ticket count on the board entry.
+      deps.events.publish({ type: 'ticket.created', audience: 'staff', payload: { id: ticket.id, toolId: locked.id } }, transaction);
+      announceBoardTools(deps, [locked.id], transaction);
       return { id: ticket.id, status: ticket.status, priority: ticket.priority, version: ticket.version, photos: stored.length };
     }),
   );
@@ -344,7 +347,10 @@ export async function addReport(deps: AppDeps, user: AuthUser, ticketId: number,
         },
         transaction,
       );
-      deps.events.publish({ type: 'ticket.updated', audience: 'all', payload: { id: ticket.id, toolId: tool.id } }, transaction);
+      deps.events.publish(
+        { type: 'ticket.updated', audience: { ticket: ticket.id }, payload: { id: ticket.id, toolId: tool.id } },
+        transaction,
+      );
       return { id: ticket.id, eventId: Number(event.id), version: ticket.version, photos: stored.length };
     }),
   );
@@ -366,7 +372,10 @@ export async function addComment(deps: AppDeps, user: AuthUser, ticketId: number
     );
     if (input.internal) {
       // Staff-only: the announcement itself must not reach members' sockets.
-      deps.events.publish({ type: 'ticket.updated', audience: 'staff', payload: { id: ticket.id, toolId: ticket.toolId } }, transaction);
+      deps.events.publish(
+        { type: 'ticket.updated', audience: { ticket: ticket.id, staffOnly: true }, payload: { id: ticket.id, toolId: ticket.toolId } },
+        transaction,
+      );
     } else {
       const followers = await ticketFollowers(deps, ticket.id, transaction);
       const recipients = isStaff(user.role) ? followers : [...followers, ticket.assigneeId];
@@ -382,7 +391,10 @@ export async function addComment(deps: AppDeps, user: AuthUser, ticketId: number
         },
         transaction,
       );
-      deps.events.publish({ type: 'ticket.updated', audience: 'all', payload: { id: ticket.id, toolId: ticket.toolId } }, transaction);
+      deps.events.publish(
+        { type: 'ticket.updated', audience: { ticket: ticket.id }, payload: { id: ticket.id, toolId: ticket.toolId } },
+        transaction,
+      );
     }
     return { id: ticket.id, eventId: Number(event.id) };
   });

@@ -151,6 +151,14 @@ export async function openToolStates(toolId: number, transaction?: Transaction):
   }));
 }
 
+/**
+ * Whether this user may see the ticket: its page, and so its socket room. Every signed-in user
+ * may read every ticket by id (getTicketDetail filters what a member sees inside it).
+ */
+export async function mayViewTicket(_user: AuthUser, id: number): Promise<boolean> {
+  return (await Ticket.count({ where: { id } })) > 0;
+}
+
 export async function getTicketDetail(deps: AppDeps, user: AuthUser, id: number): Promise<TicketDetail> {
   const t = await findTicket(id);
   const staff = isStaff(user.role);

@@ -7,6 +7,7 @@ import type { AppDeps, AuthUser } from '../../lib/http';
 import { appendEvent, changeStateForTicket, intervalsHeldBy } from './ticket-effects';
 import { notifyUsers, ticketFollowers } from './ticket-notify';
 import { worseImpact } from './report.service';
+import { announceBoardTools } from '../facility/board.service';
 import { hasRole, isStaff } from '../../../shared/roles';
 import { ACTIONS, STATUS_LABELS, canPerform, isOpenStatus, type TicketAction, type TicketStatus } from '../../../shared/ticket-workflow';
 import { computePriority } from '../../../shared/priority';
@@ -317,11 +318,12 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
           { data: { intervals: pending.map((s) => ({ moduleId: s.moduleId, state: s.state, since: s.startedAt.toISOString() })) } },
           transaction,
         );
-        for (const s of pending)
-          deps.events.publish(
-            { type: 'tool.state_changed', audience: 'all', payload: { toolId: s.toolId, moduleId: s.moduleId, state: s.state } },
-            transaction,
-          );
+        announceBoardTools(
+          deps,
+          pending.map((s) => s.toolId),
+          transaction,
+          { stateChange: true },
+        );
         break;
       }
       case 'revert_down': {
@@ -394,7 +396,9 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
     }
 
     for (const id of touched)
-      deps.events.publish({ type: 'ticket.updated', audience: 'all', payload: { id, toolId: tool.id } }, transaction);
+      deps.events.publish({ type: 'ticket.updated', audience: { ticket: id }, payload: { id, toolId: tool.id } }, transaction);
+    // A status change may change the tool's open-ticket count on the board.
+    if (isWorkflowAction(input.action)) announceBoardTools(deps, [tool.id], transaction);
     return { id: ticket.id, status: ticket.status, version: ticket.version };
   });
   return result;

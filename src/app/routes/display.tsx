@@ -1,11 +1,15 @@
+import { useCallback } from 'react';
 import { useParams, useSearchParams } from 'react-router';
+import { useQueryClient } from '@tanstack/react-query';
 import { FaultlineGlyph } from '@/components/layout/wordmark';
 import { Spinner } from '@/components/ui/spinner';
 import { isApiError } from '@/lib/api-client';
 import { useDisplayBoard } from '@/features/display/api/get-display-board';
 import { useDisplayLink } from '@/features/display/api/get-display-link';
 import { DisplayBoard } from '@/features/display/components/display-board';
-import { useDisplaySocket } from '@/features/display/hooks/use-display-socket';
+import { displayKeys } from '@/features/display/api/display-keys';
+import { useRealtimeStatus } from '@/lib/socket';
+import { useRealtime } from '@/app/realtime';
 
 function Message({ title, text }: { title: string; text: string }) {
   return (
@@ -30,7 +34,11 @@ export function DisplayPage() {
   const refused = isApiError(link.error) && (link.error.status === 401 || link.error.status === 400);
   const allowed = Boolean(link.data) && !refused;
   const board = useDisplayBoard(key, allowed);
-  const status = useDisplaySocket(key, allowed);
+  const queryClient = useQueryClient();
+  // Cut off or refused: re-check the key, which shows "not valid any more" once it is revoked.
+  const recheck = useCallback(() => void queryClient.invalidateQueries({ queryKey: displayKeys.all }), [queryClient]);
+  useRealtime({ displayKey: key, onRefused: recheck, enabled: allowed });
+  const status = useRealtimeStatus();
 
   if (refused || (isApiError(board.error) && board.error.status === 401)) {
     return (

@@ -3,7 +3,9 @@ import { Navigate, Outlet, redirect, useLocation, type LoaderFunctionArgs } from
 import { AppLayout } from '@/components/layout/app-layout';
 import { PageSpinner } from '@/components/ui/spinner';
 import { queryClient } from '@/lib/query-client';
-import { useRealtimeInvalidation, useRealtimeStatus } from '@/lib/socket';
+import { reportSessionMayHaveEnded } from '@/lib/api-client';
+import { useRealtimeStatus } from '@/lib/socket';
+import { useRealtime } from '@/app/realtime';
 import { sessionQueryOptions, useSession, type SessionUser } from '@/features/auth/api/get-session';
 import { useSignOut } from '@/features/auth/api/sign-out';
 import { signInPathFor } from '@/app/routes/sign-in-path';
@@ -58,7 +60,8 @@ interface SignedInShellProps {
 
 // Split out so the socket exists only while someone is signed in.
 function SignedInShell({ user, onSignOut, signingOut, signOutError }: SignedInShellProps) {
-  useRealtimeInvalidation();
+  // Cut off by the server or refused: ask the API who we are; if nobody, the router goes to sign-in.
+  useRealtime({ onRefused: reportSessionMayHaveEnded });
   const realtime = useRealtimeStatus();
   return (
     <AppLayout user={user} onSignOut={onSignOut} signingOut={signingOut} signOutError={signOutError} realtime={realtime}>

@@ -5,12 +5,14 @@ import { PageSpinner } from '@/components/ui/spinner';
 import { isApiError } from '@/lib/api-client';
 import { useTicket } from '@/features/tickets/api/get-ticket';
 import { TicketView } from '@/features/tickets/components/ticket-view';
+import { useTicketRoom } from '@/app/realtime';
 
 /** /tickets/:id — the ticket with its whole timeline and what the viewer may do next. */
 export function TicketPage() {
   const id = Number(useParams().id);
   const location = useLocation();
   const ticket = useTicket(id);
+  useTicketRoom(id);
   const just = (location.state as { justReported?: 'new' | 'add' } | null)?.justReported;
 
   if (!Number.isInteger(id) || id <= 0) return <Alert tone="warning" title="There is no such ticket" />;

@@ -2,5 +2,6 @@
 export const displayKeys = {
   all: ['display'] as const,
   link: (key: string) => [...displayKeys.all, 'link', key] as const,
-  board: (key: string) => [...displayKeys.all, 'board', key] as const,
+  boards: () => [...displayKeys.all, 'board'] as const,
+  board: (key: string) => [...displayKeys.boards(), key] as const,
 };

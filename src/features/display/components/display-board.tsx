@@ -5,7 +5,7 @@ import { StateBadge } from '@/components/ui/state-badge';
 import { cx } from '@/lib/cx';
 import { formatDuration } from '@/lib/time';
 import { useNow } from '@/lib/use-now';
-import type { DisplaySocketStatus } from '@/features/display/hooks/use-display-socket';
+import type { RealtimeStatus } from '@/lib/socket';
 
 const clock = new Intl.DateTimeFormat(undefined, { hour: '2-digit', minute: '2-digit' });
 const dayTime = new Intl.DateTimeFormat(undefined, { weekday: 'short', hour: '2-digit', minute: '2-digit' });
@@ -46,7 +46,7 @@ function AttentionRow({ tool, now }: { tool: BoardTool; now: number }) {
 export interface DisplayBoardProps {
   name: string;
   data: BoardData;
-  status: DisplaySocketStatus;
+  status: RealtimeStatus;
   /** Area codes to show (a screen in one bay); empty for the whole facility. */
   areaCodes?: string[];
 }

@@ -4,6 +4,7 @@ export const toolKeys = {
   details: () => [...toolKeys.all, 'detail'] as const,
   detail: (code: string) => [...toolKeys.details(), code] as const,
   histories: () => [...toolKeys.all, 'history'] as const,
-  history: (toolId: number, page: { limit: number; offset: number }) => [...toolKeys.histories(), toolId, page] as const,
+  historiesOf: (toolId: number) => [...toolKeys.histories(), toolId] as const,
+  history: (toolId: number, page: { limit: number; offset: number }) => [...toolKeys.historiesOf(toolId), page] as const,
   labels: (areaId: number | null) => [...toolKeys.all, 'labels', areaId] as const,
 };
