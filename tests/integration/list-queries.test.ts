@@ -104,7 +104,8 @@ beforeAll(async () => {
   // before the open ones makeTool created, so the one-open rule holds).
   const logRows = [];
   for (let i = 0; i < 70; i++) {
-    const start = new Date(Date.UTC(2000, 0, 1) + Math.floor(i / 3) * 3_600_000);
+    // Six entries an hour: two each on the tool and on both modules start together.
+    const start = new Date(Date.UTC(2000, 0, 1) + Math.floor(i / 6) * 3_600_000);
     logRows.push({
       toolId: toolA,
       moduleId: i % 3 === 0 ? null : a.modules[i % 2].id,

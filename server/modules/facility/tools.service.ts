@@ -371,7 +371,7 @@ export async function getToolDetail(deps: AppDeps, code: string, viewer: { id: n
 }
 
 /** A state log entry as SQL returns it, before dates become ISO strings and the setter a reference. */
-type HistoryRow = Omit<HistoryEntry, 'startedAt' | 'endedAt' | 'expectedReturnAt' | 'confirmed' | 'setBy'> & {
+type HistoryRow = Omit<HistoryEntry, 'startedAt' | 'endedAt' | 'expectedReturnAt' | 'confirmed' | 'setBy' | 'previousState'> & {
   startedAt: Date;
   endedAt: Date | null;
   expectedReturnAt: Date | null;
@@ -380,6 +380,37 @@ type HistoryRow = Omit<HistoryEntry, 'startedAt' | 'endedAt' | 'expectedReturnAt
   setById: number | null;
   setByName: string | null;
 };
+
+/**
+ * The state each entry replaced: the one before it in its own log (tool or module), by start
+ * time then id. A page is one stretch of the tool's log, so within each module the page's
+ * entries follow one another and only each module's oldest entry on the page needs one seek
+ * further back: the cost is the page's, not the history's.
+ */
+async function previousStates(
+  deps: AppDeps,
+  toolId: number,
+  rows: { id: number; moduleKey: number; state: HistoryRow['state']; startedAt: Date }[],
+) {
+  const previous = new Map<number, HistoryRow['state']>();
+  const byModule = new Map<number, typeof rows>();
+  for (const r of rows) byModule.set(Number(r.moduleKey), [...(byModule.get(Number(r.moduleKey)) ?? []), r]);
+  await Promise.all(
+    [...byModule].map(async ([moduleKey, entries]) => {
+      for (let i = 0; i + 1 < entries.length; i++) previous.set(Number(entries[i].id), entries[i + 1].state);
+      const oldest = entries[entries.length - 1];
+      const [before] = await deps.sequelize.query<{ state: HistoryRow['state'] }>(
+        `SELECT p.state FROM state_intervals p
+          WHERE p.tool_id = :toolId AND p.module_key = :moduleKey AND p.started_at <= :startedAt
+            AND (p.started_at < :startedAt OR p.id < :id)
+          ORDER BY p.started_at DESC, p.id DESC LIMIT 1`,
+        { type: QueryTypes.SELECT, replacements: { toolId, moduleKey, startedAt: oldest.startedAt, id: oldest.id } },
+      );
+      if (before) previous.set(Number(oldest.id), before.state);
+    }),
+  );
+  return previous;
+}
 
 /**
  * The state log of a tool and its modules, newest first, a page at a time. Each entry names
@@ -391,41 +422,38 @@ export async function getToolHistory(deps: AppDeps, toolId: number, query: Histo
   const replacements: Record<string, unknown> = { toolId, limit: query.limit, offset: query.offset };
   let scope = '';
   if (query.moduleId !== undefined) {
-    scope = 'AND si.module_key = :moduleKey';
+    scope = 'AND p.module_key = :moduleKey';
     replacements.moduleKey = query.moduleId === 'tool' ? 0 : query.moduleId;
   }
   const [rows, totals] = await Promise.all([
-    // The page's ids first (from the index, newest first), then each entry's previous state
-    // by one index seek backwards in its own log: the cost is the page's, not the history's.
-    deps.sequelize.query<HistoryRow>(
-      `SELECT si.id, si.module_id AS moduleId, m.name AS moduleName, si.state,
-              (SELECT p.state FROM state_intervals p
-                WHERE p.tool_id = si.tool_id AND p.module_key = si.module_key AND p.started_at <= si.started_at
-                  AND (p.started_at < si.started_at OR p.id < si.id)
-                ORDER BY p.started_at DESC, p.id DESC LIMIT 1) AS previousState,
+    // The page's ids first, read from the index newest first (the hint: MariaDB otherwise
+    // sorts the whole history), then only those rows.
+    deps.sequelize.query<HistoryRow & { moduleKey: number }>(
+      `SELECT si.id, si.module_id AS moduleId, si.module_key AS moduleKey, m.name AS moduleName, si.state,
               si.reason, si.note, si.restriction, si.started_at AS startedAt, si.ended_at AS endedAt,
               si.expected_return_at AS expectedReturnAt, si.ticket_id AS ticketId, si.source, si.confirmed,
               si.set_by_id AS setById, u.name AS setByName
-         FROM (SELECT si.id FROM state_intervals si WHERE si.tool_id = :toolId ${scope}
-                ORDER BY si.started_at DESC, si.id DESC LIMIT :limit OFFSET :offset) page
+         FROM (SELECT p.id FROM state_intervals p FORCE INDEX (${scope ? 'state_tool_time' : 'state_tool_history'})
+                WHERE p.tool_id = :toolId ${scope} ORDER BY p.started_at DESC, p.id DESC LIMIT :limit OFFSET :offset) page
          JOIN state_intervals si ON si.id = page.id
          LEFT JOIN modules m ON m.id = si.module_id
          LEFT JOIN users u ON u.id = si.set_by_id
         ORDER BY si.started_at DESC, si.id DESC`,
       { type: QueryTypes.SELECT, replacements },
     ),
-    deps.sequelize.query<{ n: number }>(`SELECT COUNT(*) AS n FROM state_intervals si WHERE si.tool_id = :toolId ${scope}`, {
+    deps.sequelize.query<{ n: number }>(`SELECT COUNT(*) AS n FROM state_intervals p WHERE p.tool_id = :toolId ${scope}`, {
       type: QueryTypes.SELECT,
       replacements,
     }),
   ]);
+  const previous = await previousStates(deps, toolId, rows);
   return {
     items: rows.map((r) => ({
       id: Number(r.id),
       moduleId: r.moduleId,
       moduleName: r.moduleName,
       state: r.state,
-      previousState: r.previousState,
+      previousState: previous.get(Number(r.id)) ?? null,
       reason: r.reason,
       note: r.note,
       restriction: r.restriction,

@@ -170,46 +170,58 @@ async function cursorKey(id: number, field: 'after' | 'before'): Promise<SortKey
  */
 export async function listTickets(deps: AppDeps, user: AuthUser, q: ListQuery): Promise<TicketList> {
   const count = countSql(user, q);
-  const [{ n }] = await deps.sequelize.query<{ n: number }>(count.sql, { type: QueryTypes.SELECT, replacements: count.replacements });
+  // The count, the service targets and a keyset page's ids do not wait for each other.
+  const [[{ n }], keysetPage, table] = await Promise.all([
+    deps.sequelize.query<{ n: number }>(count.sql, { type: QueryTypes.SELECT, replacements: count.replacements }),
+    readKeysetPage(deps, user, q),
+    loadServiceTargets(),
+  ]);
   const totalCapped = Number(n) > COUNT_CAP;
   const total = Math.min(Number(n), COUNT_CAP);
-  let ids: number[];
-  let hasPrevious: boolean;
-  let hasNext: boolean;
+  const page = keysetPage ?? (await readOffsetPage(deps, user, q, total, totalCapped));
+  const rows = page.ids.length
+    ? await Ticket.findAll({ where: { id: page.ids }, attributes: [...SUMMARY_ATTRIBUTES], include: summaryIncludes() })
+    : [];
+  const byId = new Map(rows.map((r) => [r.id, r as WithIncludes]));
+  const now = new Date();
+  const items = page.ids.flatMap((id) => {
+    const row = byId.get(id);
+    return row ? [toSummary(row, table, now)] : [];
+  });
+  return { items, total, totalCapped, limit: q.limit, offset: q.offset, hasPrevious: page.hasPrevious, hasNext: page.hasNext };
+}
+
+interface PageIds {
+  ids: number[];
+  hasPrevious: boolean;
+  hasNext: boolean;
+}
+
+/** After or before a ticket, or the last page: null when the page is chosen by offset. */
+async function readKeysetPage(deps: AppDeps, user: AuthUser, q: ListQuery): Promise<PageIds | null> {
   if (q.after || q.before) {
     const side = q.after ? 'after' : 'before';
     const key = await cursorKey((q.after ?? q.before)!, side);
     const more = await readIds(deps, user, q, { backward: side === 'before', limit: q.limit + 1, offset: 0, cursor: { side, key } });
-    ids = more.slice(0, q.limit);
+    const ids = more.slice(0, q.limit);
     if (side === 'before') ids.reverse();
-    hasPrevious = side === 'after' || more.length > q.limit;
-    hasNext = side === 'before' || more.length > q.limit;
-  } else if (q.last) {
-    const more = await readIds(deps, user, q, { backward: true, limit: q.limit + 1, offset: 0 });
-    ids = more.slice(0, q.limit).reverse();
-    hasPrevious = more.length > q.limit;
-    hasNext = false;
-  } else if (totalCapped) {
-    const more = await readIds(deps, user, q, { backward: false, limit: q.limit + 1, offset: q.offset });
-    ids = more.slice(0, q.limit);
-    hasPrevious = q.offset > 0;
-    hasNext = more.length > q.limit;
-  } else {
-    const window = pageWindow(total, q.limit, q.offset);
-    ids = window ? await readIds(deps, user, q, window) : [];
-    if (window?.backward) ids.reverse();
-    hasPrevious = q.offset > 0 && total > 0;
-    hasNext = q.offset + q.limit < total;
+    return { ids, hasPrevious: side === 'after' || more.length > q.limit, hasNext: side === 'before' || more.length > q.limit };
   }
-  const rows = ids.length
-    ? await Ticket.findAll({ where: { id: ids }, attributes: [...SUMMARY_ATTRIBUTES], include: summaryIncludes() })
-    : [];
-  const byId = new Map(rows.map((r) => [r.id, r as WithIncludes]));
-  const table = await loadServiceTargets();
-  const now = new Date();
-  const items = ids.flatMap((id) => {
-    const row = byId.get(id);
-    return row ? [toSummary(row, table, now)] : [];
-  });
-  return { items, total, totalCapped, limit: q.limit, offset: q.offset, hasPrevious, hasNext };
+  if (q.last) {
+    const more = await readIds(deps, user, q, { backward: true, limit: q.limit + 1, offset: 0 });
+    return { ids: more.slice(0, q.limit).reverse(), hasPrevious: more.length > q.limit, hasNext: false };
+  }
+  return null;
+}
+
+async function readOffsetPage(deps: AppDeps, user: AuthUser, q: ListQuery, total: number, totalCapped: boolean): Promise<PageIds> {
+  if (totalCapped) {
+    // Past the cap the end is not known: read forwards (the pager pages by keyset anyway).
+    const more = await readIds(deps, user, q, { backward: false, limit: q.limit + 1, offset: q.offset });
+    return { ids: more.slice(0, q.limit), hasPrevious: q.offset > 0, hasNext: more.length > q.limit };
+  }
+  const window = pageWindow(total, q.limit, q.offset);
+  const ids = window ? await readIds(deps, user, q, window) : [];
+  if (window?.backward) ids.reverse();
+  return { ids, hasPrevious: q.offset > 0 && total > 0, hasNext: q.offset + q.limit < total };
 }
