@@ -90,6 +90,14 @@ export async function applyRules(deps: AppDeps, input: RuleInput, transaction: T
     if (isChattering(times, { count: settings.chatterCount, windowMs })) {
       if (!def.chatteringSince) def.chatteringSince = new Date(Math.min(...times));
       for (const c of mine) c.occurrence.chattering = true;
+      // The earlier sets that make up the chatter carry the mark too (tool page, analytics).
+      await deps.sequelize.query(
+        `UPDATE alarm_occurrences SET chattering = 1 WHERE definition_id = :id AND set_at BETWEEN :from AND :to AND chattering = 0`,
+        {
+          replacements: { id: def.id, from: new Date(first - windowMs), to: new Date(last + windowMs) },
+          transaction,
+        },
+      );
     }
   }
 
