@@ -8,14 +8,9 @@
 // floods the tool with follow-on alarms; a personal-safety alarm (gas detector) that clears
 // after a while; and a chamber pressure alarm left set at the end. Times are real (now).
 
-import fs from 'node:fs';
-import path from 'node:path';
 import crypto from 'node:crypto';
-import { fileURLToPath } from 'node:url';
 import { parseArgs } from 'node:util';
-
-const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
-const DEMO_KEYS_FILE = path.join(root, '.data', 'demo-tool-keys.json');
+import { DEMO_KEY_TOOLS, demoToolKey } from '../server/db/seed/alarms';
 
 const { values: args } = parseArgs({
   options: {
@@ -35,11 +30,10 @@ if (!args.tool) {
   process.exit(2);
 }
 const tool = args.tool.toUpperCase();
-let key = args.key ?? process.env.FAULTLINE_TOOL_KEY ?? '';
-if (!key && fs.existsSync(DEMO_KEYS_FILE))
-  key = (JSON.parse(fs.readFileSync(DEMO_KEYS_FILE, 'utf8')) as Record<string, string>)[tool] ?? '';
+// The demo tools' keys are known (see server/db/seed/alarms.ts); any other tool needs --key.
+const key = args.key ?? process.env.FAULTLINE_TOOL_KEY ?? ((DEMO_KEY_TOOLS as readonly string[]).includes(tool) ? demoToolKey(tool) : '');
 if (!key) {
-  console.error(`tool-sim: no key for ${tool}. Give --key, or use a demo tool listed by npm start.`);
+  console.error(`tool-sim: no key for ${tool}. Give --key (made on the tool's page), or use a demo tool: ${DEMO_KEY_TOOLS.join(', ')}.`);
   process.exit(2);
 }
 const base = args.url!.replace(/\/+$/, '');
@@ -76,8 +70,10 @@ async function alarm(alarmId: number, set: boolean, text: string, extra: Record<
   say(`${set ? 'SET  ' : 'CLEAR'} ${alarmId} ${text}`);
 }
 
-let wafers = 1000 + Math.floor(Math.random() * 500);
-let runHours = 400 + Math.random() * 50;
+// Cumulative counters that only grow between runs (as on a real tool): derived from the clock.
+const sinceEpochMs = Date.now() - Date.UTC(2025, 0, 1);
+let wafers = 30_000 + Math.floor(sinceEpochMs / 600_000);
+let runHours = 11_000 + sinceEpochMs / 7_200_000;
 async function counters() {
   wafers += 1 + Math.floor(Math.random() * 3);
   runHours += 0.05;

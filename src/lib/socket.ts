@@ -7,6 +7,7 @@ import { toolKeys } from '@/features/tools/api/tool-keys';
 import { adminKeys } from '@/features/facility-admin/api/admin-keys';
 import { noticeKeys } from '@/features/notices/api/notice-keys';
 import { ticketKeys } from '@/features/tickets/api/ticket-keys';
+import { alarmKeys } from '@/features/alarms/api/alarm-keys';
 
 // The socket only announces that something changed; screens refetch what they show.
 // That keeps permission checks in one place (the API) and avoids a second data path.
@@ -31,6 +32,8 @@ export const REALTIME_INVALIDATIONS: Record<string, Invalidation> = {
   'ticket.created': () => [ticketKeys.lists(), boardKeys.all, toolKeys.all],
   'ticket.updated': (p) => [ticketKeys.detail(Number(p.id)), ticketKeys.lists(), boardKeys.all, toolKeys.all],
   'service_targets.updated': () => [ticketKeys.all],
+  // Alarms a tool reported: its page, the board's alarm line, the ticket's alarm panel.
+  'alarm.changed': () => [alarmKeys.all, boardKeys.all],
 };
 
 export type RealtimeStatus = 'off' | 'connecting' | 'live' | 'reconnecting';
@@ -80,7 +83,11 @@ function subscribeStatus(listener: () => void): () => void {
 
 /** Whether live updates are flowing, for a small indicator in the layout. */
 export function useRealtimeStatus(): RealtimeStatus {
-  return useSyncExternalStore(subscribeStatus, () => status, () => 'off');
+  return useSyncExternalStore(
+    subscribeStatus,
+    () => status,
+    () => 'off',
+  );
 }
 
 // A burst of events (a facility-wide power dip changes dozens of tools at once) is folded

@@ -17,12 +17,15 @@ import { StateHistory } from '@/features/tools/components/state-history';
 import { ToolStatusPanel } from '@/features/tools/components/tool-status-panel';
 import { ToolTickets } from '@/features/tickets/components/tool-tickets';
 import { ToolReliability } from '@/features/analytics/components/tool-reliability';
+import { ToolAlarmsPanel } from '@/features/alarms/components/tool-alarms-panel';
+import { ToolKeysPanel } from '@/features/alarms/components/tool-keys-panel';
 
 export function ToolPage() {
   const { code = '' } = useParams();
   const tool = useTool(code.toUpperCase());
   const { data: session } = useSession();
   const staff = session?.user ? hasRole(session.user.role, 'technician') : false;
+  const admin = session?.user ? hasRole(session.user.role, 'admin') : false;
 
   if (tool.isPending) return <PageSpinner label="Loading the tool…" />;
   if (tool.isError) {
@@ -31,7 +34,16 @@ export function ToolPage() {
       <>
         <title>Tool not found · Faultline</title>
         <PageHeader title={missing ? 'There is no tool with that code' : 'The tool could not be loaded'} />
-        <Alert tone={missing ? 'info' : 'danger'} actions={!missing && <Button variant="secondary" onClick={() => void tool.refetch()}>Try again</Button>}>
+        <Alert
+          tone={missing ? 'info' : 'danger'}
+          actions={
+            !missing && (
+              <Button variant="secondary" onClick={() => void tool.refetch()}>
+                Try again
+              </Button>
+            )
+          }
+        >
           {missing ? (
             <>
               No tool has the code <code className="font-mono">{code}</code>. Find it on the <Link to="/board">status board</Link>.
@@ -59,7 +71,11 @@ export function ToolPage() {
         }
         actions={
           !retired && (
-            <Link to={`/report?tool=${encodeURIComponent(t.code)}`} className={buttonClasses({ variant: 'danger', size: 'lg' })} data-testid="report-problem">
+            <Link
+              to={`/report?tool=${encodeURIComponent(t.code)}`}
+              className={buttonClasses({ variant: 'danger', size: 'lg' })}
+              data-testid="report-problem"
+            >
               Report a problem
             </Link>
           )
@@ -79,6 +95,8 @@ export function ToolPage() {
           )}
 
           <ToolTickets toolId={t.id} />
+
+          <ToolAlarmsPanel code={t.code} staff={staff} />
 
           <Card as="section" title="State history">
             <StateHistory toolId={t.id} />
@@ -105,6 +123,8 @@ export function ToolPage() {
           <Card as="section" title="Reliability">
             <ToolReliability toolId={t.id} />
           </Card>
+
+          {admin && !retired && <ToolKeysPanel code={t.code} />}
 
           <Card as="section" title="Who looks after it">
             <Engineers primary={t.primaryEngineer} backup={t.backupEngineer} />
