@@ -8,6 +8,8 @@ import { mountRoutes, type AppDeps, type RegisteredRoute } from './lib/http';
 import { errorMiddleware } from './lib/error-middleware';
 import { AppError } from './lib/errors';
 import { apiRoutes } from './routes';
+import { ingestRoutes } from './modules/alarms/alarms.routes';
+import { toolKeyAuth } from './modules/alarms/keys.service';
 import { healthRoutes } from './modules/health/health.routes';
 import { sessionLifetime, csrfProtection } from './modules/auth/session-middleware';
 import { anonymousRateLimit } from './lib/throttle';
@@ -101,6 +103,9 @@ export function createApp(deps: AppDeps, opts: AppOptions) {
   });
   // Health first: it must answer even when the session store (MariaDB) is down.
   mountRoutes(api, '', healthRoutes(), deps, registry);
+  // Tools post with their own key, before sessions and CSRF; 500 events fit in 1 MB.
+  api.use('/ingest/v1', toolKeyAuth(log), express.json({ limit: '1mb' }));
+  mountRoutes(api, '', ingestRoutes(), deps, registry);
   api.use(express.json({ limit: '200kb' }));
   api.use(opts.session);
   api.use(opts.passport.initialize());

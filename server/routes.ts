@@ -9,6 +9,7 @@ import { facilityRoutes } from './modules/facility/facility.routes';
 import { noticesRoutes } from './modules/notices/notices.routes';
 import { ticketRoutes } from './modules/tickets/tickets.routes';
 import { analyticsRoutes } from './modules/analytics/analytics.routes';
+import { alarmRoutes } from './modules/alarms/alarms.routes';
 
 export interface RouteOptions {
   log: Logger;
@@ -26,5 +27,6 @@ export function apiRoutes(opts: RouteOptions): RouteSpec[] {
     ...noticesRoutes(),
     ...ticketRoutes(opts.log, opts.config),
     ...analyticsRoutes(),
+    ...alarmRoutes(),
   ];
 }

@@ -17,6 +17,7 @@ import { connectRedisAdapter } from './lib/redis-adapter';
 import type { AppDeps } from './lib/http';
 import { photoSweeper } from './modules/tickets/photo-sweep';
 import { warnAdminsOfLateMail } from './modules/mail/mail.service';
+import { AlarmSweeper } from './modules/alarms/sweep';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -77,6 +78,8 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     afterPass: () => warnAdminsOfLateMail(deps),
   });
   if (opts.outboxWorker !== false) worker.start();
+  const alarmSweeper = new AlarmSweeper(deps);
+  if (opts.outboxWorker !== false) alarmSweeper.start();
 
   // Photo files a crash left without a row go before the first request, then periodically.
   const sweeper = photoSweeper(deps);
@@ -96,6 +99,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     sweeper.stop();
     await worker.stop();
     await accountMail.stop();
+    await alarmSweeper.stop();
     await new Promise<void>((resolve) => io.close(() => resolve()));
     if (catcher) await catcher.stop();
     await releaseSequelize(sequelize);
@@ -111,6 +115,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     sweeper.stop();
     await worker.stop();
     await accountMail.stop();
+    await alarmSweeper.stop();
     await new Promise<void>((resolve) => io.close(() => resolve()));
     await redis?.close();
     server.closeAllConnections?.();

@@ -36,6 +36,8 @@ export interface ServerToClientEvents {
   'notice.created': (payload: { kind: string; ticketId?: number | null }) => void;
   'notice.read': (payload: { id?: number; all?: boolean }) => void;
   'service_targets.updated': (payload: { priority: string }) => void;
+  /** A tool's alarms changed (set, cleared, edited, flagged); its board entry travels separately. */
+  'alarm.changed': (payload: { id: number; toolId: number }) => void;
 }
 
 export type ServerEventName = keyof ServerToClientEvents;

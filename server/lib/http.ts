@@ -20,8 +20,9 @@ export interface AppDeps {
  * - 'public': anyone (health, session, password reset)
  * - a role: signed in with at least that role (member < technician < manager < admin)
  * - 'display': a signed-in member OR a lobby display key (read-only board data)
+ * - 'tool': a tool's API key (Authorization: Bearer); only the ingest API uses it
  */
-export type Access = 'public' | 'display' | Role;
+export type Access = 'public' | 'display' | 'tool' | Role;
 
 export interface AuthUser {
   id: number;
@@ -38,6 +39,8 @@ declare global {
     interface Request {
       /** Set by the display-key middleware when a lobby display calls. */
       displayLinkId?: number;
+      /** Set by the tool-key middleware on the ingest API. */
+      toolKey?: { id: number; toolId: number };
     }
   }
 }
@@ -96,6 +99,11 @@ export interface RegisteredRoute {
 export function requireAccess(access: Access, log: Logger): RequestHandler {
   return (req, _res, next) => {
     if (access === 'public') return next();
+    if (access === 'tool') {
+      if (req.toolKey) return next();
+      securityLog(log, req, 'unauthenticated');
+      return next(unauthorized('Send the tool’s key: Authorization: Bearer <key>.'));
+    }
     if (access === 'display' && (req.user || req.displayLinkId)) return next();
     if (!req.user) {
       securityLog(log, req, 'unauthenticated');

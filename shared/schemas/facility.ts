@@ -202,6 +202,8 @@ export interface BoardTool {
   confirmed: boolean;
   source: string;
   openTickets: number;
+  /** The latest alarm the tool reports as set (and how many are set), or null. */
+  activeAlarm: { alarmId: string; text: string; since: string; count: number } | null;
   modules: BoardModule[];
 }
 

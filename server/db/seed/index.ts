@@ -3,6 +3,7 @@ import { User } from '../../modules/users/user.model';
 import { seedUsers } from './users';
 import { seedFacility } from './facility';
 import { seedTickets } from './tickets';
+import { seedAlarms } from './alarms';
 
 /**
  * The demo facility: invented people, tools and a year of history, generated from a fixed
@@ -12,9 +13,10 @@ export async function seedDemo(sequelize: Sequelize, now = new Date()): Promise<
   if ((await User.count()) > 0) return { seeded: false };
   await sequelize.transaction(async (transaction) => {
     const people = await seedUsers(transaction);
-    await seedFacility(transaction, people, now);
+    const facility = await seedFacility(transaction, people, now);
     // Tickets last: they follow the state history the facility step wrote.
     await seedTickets(transaction, people, now);
+    await seedAlarms(transaction, facility, now);
   });
   return { seeded: true };
 }

@@ -77,7 +77,7 @@ async function loadRows(sequelize: Sequelize, filter: BoardRowFilter, transactio
   const moduleWhere = filter.toolIds ? 'AND m.tool_id IN (:toolIds)' : '';
   const retiredJoin = filter.includeRetired ? '' : 'AND t.retired_at IS NULL';
 
-  const [toolRows, moduleRows] = await Promise.all([
+  const [toolRows, moduleRows, alarmRows] = await Promise.all([
     sequelize.query<ToolRow>(
       `SELECT t.id, t.code, t.name, t.area_id AS areaId, t.criticality,
               a.code AS areaCode, a.name AS areaName,
@@ -102,7 +102,21 @@ async function loadRows(sequelize: Sequelize, filter: BoardRowFilter, transactio
         ORDER BY m.tool_id, m.sort_order, m.name`,
       { type: QueryTypes.SELECT, replacements, transaction },
     ),
+    // Alarms the tools report as set (the alarms module's table), newest first.
+    sequelize.query<{ toolId: number; alarmKey: string; text: string; setAt: Date }>(
+      `SELECT o.tool_id AS toolId, d.alarm_key AS alarmKey, d.text, o.set_at AS setAt
+         FROM alarm_occurrences o JOIN alarm_definitions d ON d.id = o.definition_id
+        WHERE o.cleared_at IS NULL ${filter.toolIds ? 'AND o.tool_id IN (:toolIds)' : ''}
+        ORDER BY o.set_at DESC`,
+      { type: QueryTypes.SELECT, replacements, transaction },
+    ),
   ]);
+  const alarmsByTool = new Map<number, BoardTool['activeAlarm'] & object>();
+  for (const a of alarmRows) {
+    const known = alarmsByTool.get(a.toolId);
+    if (known) known.count++;
+    else alarmsByTool.set(a.toolId, { alarmId: a.alarmKey, text: a.text, since: new Date(a.setAt).toISOString(), count: 1 });
+  }
 
   const modulesByTool = new Map<number, ModuleRow[]>();
   for (const m of moduleRows) {
@@ -150,6 +164,7 @@ async function loadRows(sequelize: Sequelize, filter: BoardRowFilter, transactio
       confirmed: row.confirmed === null ? true : Boolean(row.confirmed),
       source: row.source ?? 'system',
       openTickets: Number(row.openTickets),
+      activeAlarm: alarmsByTool.get(row.id) ?? null,
       modules,
     };
     return { tool, areaCode: row.areaCode, areaName: row.areaName };

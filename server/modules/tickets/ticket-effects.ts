@@ -38,7 +38,7 @@ export interface StateStep {
   reason?: StateReason;
   note?: string | null;
   expectedReturnAt?: Date | null;
-  source?: 'staff' | 'user_report';
+  source?: 'staff' | 'user_report' | 'alarm';
   confirmed?: boolean;
 }
 

@@ -27,6 +27,7 @@ import { ToolRanking } from '@/features/analytics/components/tool-ranking';
 import { useAnalyticsSelection } from '@/features/analytics/hooks/use-analytics-selection';
 import type { AnalyticsMonthRow, AnalyticsReport } from '@shared/schemas/analytics';
 import { cx } from '@/lib/cx';
+import { AlarmLoadSection } from '@/features/alarms/components/alarm-load-section';
 
 // The printed report: one A4 page per scope. Rendered with the page, so it is gone again
 // when the page is left; the app's bar, menu and footer are hidden only while a report is on
@@ -300,6 +301,7 @@ export function AnalyticsPage() {
         </Alert>
       )}
       {data && <Report report={data} />}
+      <AlarmLoadSection />
     </div>
   );
 }

@@ -6,6 +6,7 @@ import { isApiError } from '@/lib/api-client';
 import { useTicket } from '@/features/tickets/api/get-ticket';
 import { TicketView } from '@/features/tickets/components/ticket-view';
 import { useTicketRoom } from '@/app/realtime';
+import { TicketAlarmPanel } from '@/features/alarms/components/ticket-alarm-panel';
 
 /** /tickets/:id — the ticket with its whole timeline and what the viewer may do next. */
 export function TicketPage() {
@@ -44,6 +45,12 @@ export function TicketPage() {
         </Alert>
       )}
       <TicketView ticket={ticket.data} />
+      <div className="mt-6">
+        <TicketAlarmPanel
+          ticketId={ticket.data.id}
+          enabled={ticket.data.viewer.role !== 'member' && ticket.data.events.some((e) => e.kind === 'alarm_reported')}
+        />
+      </div>
     </>
   );
 }

@@ -17,12 +17,15 @@ import { StateHistory } from '@/features/tools/components/state-history';
 import { ToolStatusPanel } from '@/features/tools/components/tool-status-panel';
 import { ToolTickets } from '@/features/tickets/components/tool-tickets';
 import { ToolReliability } from '@/features/analytics/components/tool-reliability';
+import { ToolAlarmsPanel } from '@/features/alarms/components/tool-alarms-panel';
+import { ToolKeysPanel } from '@/features/alarms/components/tool-keys-panel';
 
 export function ToolPage() {
   const { code = '' } = useParams();
   const tool = useTool(code.toUpperCase());
   const { data: session } = useSession();
   const staff = session?.user ? hasRole(session.user.role, 'technician') : false;
+  const admin = session?.user ? hasRole(session.user.role, 'admin') : false;
 
   if (tool.isPending) return <PageSpinner label="Loading the tool…" />;
   if (tool.isError) {
@@ -93,6 +96,8 @@ export function ToolPage() {
 
           <ToolTickets toolId={t.id} />
 
+          <ToolAlarmsPanel code={t.code} staff={staff} />
+
           <Card as="section" title="State history">
             <StateHistory toolId={t.id} />
           </Card>
@@ -118,6 +123,8 @@ export function ToolPage() {
           <Card as="section" title="Reliability">
             <ToolReliability toolId={t.id} />
           </Card>
+
+          {admin && !retired && <ToolKeysPanel code={t.code} />}
 
           <Card as="section" title="Who looks after it">
             <Engineers primary={t.primaryEngineer} backup={t.backupEngineer} />

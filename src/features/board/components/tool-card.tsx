@@ -52,6 +52,13 @@ export function ToolCard({ tool }: { tool: BoardTool }) {
 
       {why && <p className="line-clamp-3 text-sm text-ink">{why}</p>}
       {reported && <p className="text-xs font-medium text-muted">Set by a user’s report; staff have not confirmed it yet.</p>}
+      {tool.activeAlarm && (
+        <p className="text-sm text-ink" data-testid={`board-alarm-${tool.code}`}>
+          <span className="font-semibold">Alarm{tool.activeAlarm.count > 1 ? ` (${tool.activeAlarm.count} set)` : ''}:</span>{' '}
+          <span className="font-mono">{tool.activeAlarm.text}</span>{' '}
+          <RelativeTime value={tool.activeAlarm.since} mode="elapsed" prefix="for" className="text-muted" />
+        </p>
+      )}
 
       <p className="flex flex-wrap gap-x-3 gap-y-1 text-sm text-muted">
         <RelativeTime value={tool.since} mode="elapsed" prefix={`${BOARD_LABELS[tool.status]} for`} />

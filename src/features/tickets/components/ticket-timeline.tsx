@@ -133,6 +133,14 @@ function headline(e: TicketEventView, modules: ModuleName[]): ReactNode {
       return `${who(e)} confirmed the reported Down`;
     case 'facts_changed':
       return `The ticket now stands at ${d.to?.priority} (${IMPACT_LABELS[d.to?.impact as Impact] ?? ''})`;
+    case 'alarm_reported':
+      return `Reported by the tool: alarm ${d.alarmId}`;
+    case 'alarm_repeat':
+      return `Alarm ${d.alarmId} set again: ${d.count} times since ${new Date(d.since).toLocaleString()}${d.chattering ? ' (chattering)' : ''}`;
+    case 'alarm_cleared':
+      return d.by === 'person'
+        ? `${who(e)} cleared alarm ${d.alarmId} by hand`
+        : `Alarm ${d.alarmId} cleared on the tool (the tool is not returned to service by this)`;
     case 'merged_from':
       return `${who(e)} merged ticket #${d.sourceId} into this one`;
     default:

@@ -63,7 +63,8 @@ export function TicketView({ ticket }: { ticket: TicketDetail }) {
         <p className="text-sm text-muted">
           <span className="font-mono">{ticket.tool.code}</span> · {ticket.tool.name}
           {ticket.module ? ` · ${ticket.module.name}` : ''}
-          {ticket.tool.areaName ? ` · ${ticket.tool.areaName}` : ''} · reported by {ticket.reporter?.name ?? 'someone'}{' '}
+          {ticket.tool.areaName ? ` · ${ticket.tool.areaName}` : ''} · reported by{' '}
+          {ticket.reporter?.name ?? (ticket.events.some((e) => e.kind === 'alarm_reported') ? 'the tool' : 'someone')}{' '}
           <RelativeTime value={ticket.createdAt} />
         </p>
         {ticket.priorityReasons.length > 0 && <p className="text-xs text-muted">Priority because: {ticket.priorityReasons.join('; ')}.</p>}
