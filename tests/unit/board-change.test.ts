@@ -19,6 +19,7 @@ const tool = (id: number, areaId: number, extra: Partial<BoardTool> = {}): Board
   confirmed: true,
   source: 'staff',
   openTickets: 0,
+  activeAlarm: null,
   modules: [],
   ...extra,
 });

@@ -201,8 +201,8 @@ export async function recordAlarmRepeats(
     },
     transaction,
   );
-  const ticket = await Ticket.findByPk(ticketId, { attributes: ['id', 'toolId'], transaction });
-  deps.events.publish({ type: 'ticket.updated', audience: 'all', payload: { id: ticketId, toolId: ticket?.toolId } }, transaction);
+  const ticket = await Ticket.findByPk(ticketId, { attributes: ['id', 'toolId'], transaction, rejectOnEmpty: true });
+  deps.events.publish({ type: 'ticket.updated', audience: { ticket: ticketId }, payload: { id: ticketId, toolId: ticket.toolId } }, transaction);
 }
 
 /** The alarm cleared on the tool: noted, but the tool is not returned to service (a person does that). */
@@ -219,8 +219,8 @@ export async function recordAlarmCleared(
     { data: { alarmId: info.alarmId, at: info.at.toISOString(), by: info.by } },
     transaction,
   );
-  const ticket = await Ticket.findByPk(ticketId, { attributes: ['id', 'toolId'], transaction });
-  deps.events.publish({ type: 'ticket.updated', audience: 'all', payload: { id: ticketId, toolId: ticket?.toolId } }, transaction);
+  const ticket = await Ticket.findByPk(ticketId, { attributes: ['id', 'toolId'], transaction, rejectOnEmpty: true });
+  deps.events.publish({ type: 'ticket.updated', audience: { ticket: ticketId }, payload: { id: ticketId, toolId: ticket.toolId } }, transaction);
 }
 
 /**

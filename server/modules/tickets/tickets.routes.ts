@@ -33,16 +33,12 @@ const toolChoicesQuery = z.strictObject({
   limit: z.coerce.number().int().min(1).max(50).default(20),
 });
 
-<<<<<<< HEAD
 const eventsQuery = z.strictObject({
   before: z.coerce.number().int().positive().optional(),
   limit: z.coerce.number().int().min(1).max(500).default(TIMELINE_PAGE),
 });
 
-const staffQuery = z.strictObject({ q: z.string().trim().max(80).optional(), limit: z.coerce.number().int().min(1).max(100).default(50) });
-=======
 const staffQuery = z.strictObject({ q: plainText().trim().max(80).optional(), limit: z.coerce.number().int().min(1).max(100).default(50) });
->>>>>>> cc44f0bfca791daa43fdfcdfca074b448c56bad5
 
 /**
  * Tickets API. Every change to an existing ticket goes through POST /tickets/:id/actions with
