@@ -39,6 +39,9 @@ const configSchema = z.object({
   OUTBOX_POLL_MS: z.coerce.number().int().positive().default(2000),
   OUTBOX_BASE_BACKOFF_MS: z.coerce.number().int().positive().default(2000),
 
+  /** How often the maintenance scheduler looks for plans coming due; 0 turns it off in this process. */
+  MAINTENANCE_SCHEDULER_MS: z.coerce.number().int().min(0).default(60_000),
+
   UPLOAD_DIR: z.string().default('uploads'),
   FACILITY_TIME_ZONE: z.string().default('Europe/Berlin'),
   DEMO: bool.default(false),

@@ -12,6 +12,7 @@ import { createTransport, OutboxWorker } from './lib/mailer';
 import { MailCatcher } from './lib/mail-catcher';
 import { verifyDisplayKey } from './modules/facility/display-links.service';
 import type { AppDeps } from './lib/http';
+import { startScheduler } from './modules/maintenance/scheduler';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -49,6 +50,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
 
   const worker = new OutboxWorker(createTransport(config), config, log, { pollMs: config.OUTBOX_POLL_MS, baseBackoffMs: config.OUTBOX_BASE_BACKOFF_MS });
   if (opts.outboxWorker !== false) worker.start();
+  const maintenanceScheduler = config.MAINTENANCE_SCHEDULER_MS > 0 ? startScheduler(deps, config.MAINTENANCE_SCHEDULER_MS) : null;
 
   await new Promise<void>((resolve) => server.listen(config.PORT, config.HOST, () => resolve()));
   const address = server.address();
@@ -59,6 +61,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     if (closed) return;
     closed = true;
     await worker.stop();
+    await maintenanceScheduler?.stop();
     await new Promise<void>((resolve) => io.close(() => resolve()));
     server.closeAllConnections?.();
     await new Promise<void>((resolve) => server.close(() => resolve()));

@@ -186,6 +186,8 @@ export interface BoardTool {
   confirmed: boolean;
   source: string;
   openTickets: number;
+  /** The next booked maintenance window not yet over (ISO times), or null. */
+  plannedMaintenance: { startsAt: string; endsAt: string } | null;
   modules: BoardModule[];
 }
 
