@@ -57,6 +57,16 @@ export const router = createBrowserRouter([
               //   { element: <RoleGate minimum="technician" />, children: [ ...one line per page... ] },
               { element: <RoleGate minimum="technician" />, children: [{ path: 'labels', lazy: () => import('@/app/routes/tools/labels') }] },
               { element: <RoleGate minimum="technician" />, children: [{ path: 'queue', lazy: () => import('@/app/routes/queue') }] },
+              {
+                element: <RoleGate minimum="technician" />,
+                children: [
+                  { path: 'maintenance', lazy: () => import('@/app/routes/maintenance/index') },
+                  { path: 'maintenance/work-orders/:id', lazy: () => import('@/app/routes/maintenance/work-order') },
+                  { path: 'maintenance/work-orders/:id/print', lazy: () => import('@/app/routes/maintenance/print') },
+                  { path: 'maintenance/parts', lazy: () => import('@/app/routes/maintenance/parts') },
+                ],
+              },
+              { path: 'calendar-feeds', lazy: () => import('@/app/routes/maintenance/calendar-feeds') },
               { element: <RoleGate minimum="manager" />, children: [{ path: 'admin/service-targets', lazy: () => import('@/app/routes/admin-service-targets') }] },
               { element: <RoleGate minimum="manager" />, children: [{ path: 'analytics', lazy: () => import('@/app/routes/analytics') }] },
 

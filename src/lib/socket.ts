@@ -31,6 +31,9 @@ export const REALTIME_INVALIDATIONS: Record<string, Invalidation> = {
   'ticket.created': () => [ticketKeys.lists(), boardKeys.all, toolKeys.all],
   'ticket.updated': (p) => [ticketKeys.detail(Number(p.id)), ticketKeys.lists(), boardKeys.all, toolKeys.all],
   'service_targets.updated': () => [ticketKeys.all],
+  // A booked, moved or cancelled window shows on the board and the tool page at once.
+  'maintenance.window_changed': () => [boardKeys.all, toolKeys.all, ['maintenance']],
+  'maintenance.changed': () => [['maintenance']],
 };
 
 export type RealtimeStatus = 'off' | 'connecting' | 'live' | 'reconnecting';
