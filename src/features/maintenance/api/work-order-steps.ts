@@ -1,7 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api-client';
 import { maintenanceKeys } from '@/features/maintenance/api/maintenance-keys';
-import type { WorkOrder } from '@/features/maintenance/api/types';
+import type { WorkOrder, WorkOrderDetail } from '@/features/maintenance/api/types';
 
 // The steps of a work order (book, start, record progress, complete, skip, use a part): one
 // mutation hook, since they share the refresh that follows each.
@@ -39,6 +39,11 @@ export function useWorkOrderStep(id: number) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (s: WorkOrderStep) => sendWorkOrderStep(id, s),
+    // The answer carries the new version: the next step must not wait for the refetch.
+    onSuccess: (answer, s) => {
+      if (s.step === 'part') return;
+      queryClient.setQueryData<WorkOrderDetail>(maintenanceKeys.workOrder(id), (old) => (old ? { ...old, workOrder: answer } : old));
+    },
     onSettled: () => queryClient.invalidateQueries({ queryKey: maintenanceKeys.all }),
   });
 }

@@ -173,7 +173,7 @@ export function WorkOrderView({ detail, canOverride }: { detail: WorkOrderDetail
             const out = s.asksValue && (isOut(s, typed) || Boolean(r?.outOfLimit && typed === r.value));
             return (
               <li key={i} className="flex flex-wrap items-center gap-3 py-3" data-testid={`step-${i}`}>
-                <label className="flex min-h-11 flex-1 items-center gap-3">
+                <label className="flex min-h-11 flex-1 basis-full items-center gap-3 sm:basis-0">
                   <input
                     type="checkbox"
                     className="size-6"
@@ -193,7 +193,8 @@ export function WorkOrderView({ detail, canOverride }: { detail: WorkOrderDetail
                       value={values[i] ?? ''}
                       disabled={!working}
                       onChange={(e) => setValues({ ...values, [i]: e.target.value })}
-                      onBlur={() => values[i] !== undefined && saveStep(i, r?.done ?? false)}
+                      // A ticked step saves a changed reading when the field is left; an unticked one saves it with the tick.
+                      onBlur={() => r?.done && values[i] !== undefined && saveStep(i, true)}
                       aria-label={`Reading for step ${i + 1} (${limits(s)})`}
                       aria-invalid={out}
                       className={`min-h-11 w-24 rounded-lg border px-2 text-right font-mono ${out ? 'border-2 border-danger' : 'border-control'}`}
@@ -322,7 +323,7 @@ export function WorkOrderView({ detail, canOverride }: { detail: WorkOrderDetail
         </div>
       </Card>
 
-      {requal.data && requal.data.length > 0 && (
+      {!closed && requal.data && requal.data.length > 0 && (
         <Card
           as="section"
           title="Requalification"
