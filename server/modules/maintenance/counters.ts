@@ -31,3 +31,20 @@ export async function recordCounterReading(
     transaction,
   });
 }
+
+/** The latest reading of every counter of the given tools, keyed `${toolId}|${counter}` (for lists). */
+export async function latestReadings(sequelize: Sequelize, toolIds: number[], transaction?: Transaction): Promise<Map<string, number>> {
+  const map = new Map<string, number>();
+  if (toolIds.length === 0) return map;
+  const rows = await sequelize.query<{ toolId: number; counter: string; value: number }>(
+    `SELECT r.tool_id AS toolId, r.counter, r.value FROM usage_readings r
+       JOIN (SELECT tool_id, counter, MAX(at) AS at FROM usage_readings WHERE tool_id IN (:toolIds) GROUP BY tool_id, counter) m
+         ON m.tool_id = r.tool_id AND m.counter = r.counter AND m.at = r.at
+      ORDER BY r.id`,
+    { type: QueryTypes.SELECT, replacements: { toolIds: [...new Set(toolIds)] }, transaction },
+  );
+  for (const r of rows) map.set(`${r.toolId}|${r.counter}`, Number(r.value));
+  return map;
+}
+
+export const readingKey = (toolId: number, counter: string) => `${toolId}|${counter}`;

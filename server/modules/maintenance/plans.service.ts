@@ -1,6 +1,6 @@
 import type { Transaction } from 'sequelize';
 import { MaintenancePlan, PlanChange, WorkOrder } from './maintenance.model';
-import { counterReading } from './counters';
+import { counterReading, latestReadings, readingKey } from './counters';
 import { moduleBelongs, toolInfo } from './lookups';
 import { AppError, badRequest, notFound } from '../../lib/errors';
 import type { AppDeps } from '../../lib/http';
@@ -52,6 +52,10 @@ export function isOverdue(due: NextDue, now: Date, counterNow: number | null) {
 
 export async function presentPlan(deps: AppDeps, plan: MaintenancePlan, now = new Date(), transaction?: Transaction): Promise<PlanView> {
   const counterNow = plan.counterName ? await counterReading(deps.sequelize, plan.toolId, plan.counterName, transaction) : null;
+  return presentWithReading(plan, counterNow, now);
+}
+
+function presentWithReading(plan: MaintenancePlan, counterNow: number | null, now: Date): PlanView {
   const due = planDue(plan, counterNow);
   return {
     id: plan.id,
@@ -177,7 +181,13 @@ export async function listPlans(deps: AppDeps, query: { toolId?: number; limit: 
     offset: query.offset,
   });
   const now = new Date();
-  const items = await Promise.all(rows.map((p) => presentPlan(deps, p, now)));
+  const readings = await latestReadings(
+    deps.sequelize,
+    rows.filter((p) => p.counterName).map((p) => p.toolId),
+  );
+  const items = rows.map((p) =>
+    presentWithReading(p, p.counterName ? (readings.get(readingKey(p.toolId, p.counterName)) ?? null) : null, now),
+  );
   return { items, total: count, limit: query.limit, offset: query.offset };
 }
 

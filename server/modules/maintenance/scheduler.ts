@@ -1,6 +1,6 @@
 import { QueryTypes, UniqueConstraintError } from 'sequelize';
 import { MaintenancePlan, WorkOrder } from './maintenance.model';
-import { counterReading } from './counters';
+import { latestReadings, readingKey } from './counters';
 import { planDue } from './plans.service';
 import type { AppDeps } from '../../lib/http';
 import { isWithinLead, type NextDue } from '../../../shared/maintenance-plan';
@@ -42,10 +42,15 @@ export async function runSchedulerPass(deps: AppDeps, now = new Date(), batchSiz
         { type: QueryTypes.SELECT, replacements: { ids: plans.map((p) => p.id), open: OPEN }, transaction },
       );
       const hasOpen = new Set(open.map((o) => Number(o.planId)));
+      const readings = await latestReadings(
+        deps.sequelize,
+        plans.filter((p) => p.counterName).map((p) => p.toolId),
+        transaction,
+      );
       let made = 0;
       for (const plan of plans) {
         if (hasOpen.has(plan.id)) continue;
-        const counterNow = plan.counterName ? await counterReading(deps.sequelize, plan.toolId, plan.counterName, transaction) : null;
+        const counterNow = plan.counterName ? (readings.get(readingKey(plan.toolId, plan.counterName)) ?? null) : null;
         const due = planDue(plan, counterNow);
         if (!isWithinLead(due, plan, now, counterNow)) continue;
         try {
