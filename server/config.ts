@@ -70,6 +70,9 @@ const configSchema = z.object({
   /** How long a worker's claim on outbox rows lasts without a heartbeat (a dead worker's rows return after it). */
   OUTBOX_LEASE_MS: z.coerce.number().int().positive().default(15_000),
 
+  /** How often the maintenance scheduler looks for plans coming due; 0 turns it off in this process. */
+  MAINTENANCE_SCHEDULER_MS: z.coerce.number().int().min(0).default(60_000),
+
   UPLOAD_DIR: z.string().default('uploads'),
   /** Uploads with photos one account may send at once, and that one process receives at once. */
   UPLOADS_PER_ACCOUNT: z.coerce.number().int().positive().default(2),

@@ -10,6 +10,7 @@ import { noticesRoutes } from './modules/notices/notices.routes';
 import { ticketRoutes } from './modules/tickets/tickets.routes';
 import { analyticsRoutes } from './modules/analytics/analytics.routes';
 import { alarmRoutes } from './modules/alarms/alarms.routes';
+import { maintenanceRoutes } from './modules/maintenance/maintenance.routes';
 
 export interface RouteOptions {
   log: Logger;
@@ -28,5 +29,6 @@ export function apiRoutes(opts: RouteOptions): RouteSpec[] {
     ...ticketRoutes(opts.log, opts.config),
     ...analyticsRoutes(),
     ...alarmRoutes(),
+    ...maintenanceRoutes(),
   ];
 }

@@ -18,6 +18,7 @@ import type { AppDeps } from './lib/http';
 import { photoSweeper } from './modules/tickets/photo-sweep';
 import { warnAdminsOfLateMail } from './modules/mail/mail.service';
 import { AlarmSweeper } from './modules/alarms/sweep';
+import { startScheduler } from './modules/maintenance/scheduler';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -80,6 +81,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
   if (opts.outboxWorker !== false) worker.start();
   const alarmSweeper = new AlarmSweeper(deps);
   if (opts.outboxWorker !== false) alarmSweeper.start();
+  const maintenanceScheduler = config.MAINTENANCE_SCHEDULER_MS > 0 ? startScheduler(deps, config.MAINTENANCE_SCHEDULER_MS) : null;
 
   // Photo files a crash left without a row go before the first request, then periodically.
   const sweeper = photoSweeper(deps);
@@ -116,6 +118,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     await worker.stop();
     await accountMail.stop();
     await alarmSweeper.stop();
+    await maintenanceScheduler?.stop();
     await new Promise<void>((resolve) => io.close(() => resolve()));
     await redis?.close();
     server.closeAllConnections?.();

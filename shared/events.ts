@@ -38,6 +38,10 @@ export interface ServerToClientEvents {
   'service_targets.updated': (payload: { priority: string }) => void;
   /** A tool's alarms changed (set, cleared, edited, flagged); its board entry travels separately. */
   'alarm.changed': (payload: { id: number; toolId: number }) => void;
+  /** Staff only: plans, work orders, parts or requalification changed. */
+  'maintenance.changed': (payload: { toolId?: number; planId?: number; workOrderId?: number | null; ticketId?: number | null }) => void;
+  /** A maintenance window was booked, moved or cancelled; the board entry travels separately. */
+  'maintenance.window_changed': (payload: { toolId: number }) => void;
 }
 
 export type ServerEventName = keyof ServerToClientEvents;

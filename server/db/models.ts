@@ -6,6 +6,7 @@ import { initFacilityModels } from '../modules/facility/facility.model';
 import { initNoticeModel } from '../modules/notices/notice.model';
 import { initTicketModels } from '../modules/tickets/ticket.model';
 import { initAlarmModels } from '../modules/alarms/alarms.model';
+import { initMaintenanceModels } from '../modules/maintenance/maintenance.model';
 
 /** Binds every model to the one Sequelize instance of this process. Order matters for associations. */
 export function initModels(sequelize: Sequelize) {
@@ -16,4 +17,5 @@ export function initModels(sequelize: Sequelize) {
   initNoticeModel(sequelize);
   initTicketModels(sequelize);
   initAlarmModels(sequelize);
+  initMaintenanceModels(sequelize);
 }

@@ -204,6 +204,8 @@ export interface BoardTool {
   openTickets: number;
   /** The latest alarm the tool reports as set (and how many are set), or null. */
   activeAlarm: { alarmId: string; text: string; since: string; count: number } | null;
+  /** The next booked maintenance window not yet over (ISO times), or null. */
+  plannedMaintenance: { startsAt: string; endsAt: string } | null;
   modules: BoardModule[];
 }
 

@@ -10,6 +10,7 @@ import { adminKeys } from '@/features/facility-admin/api/admin-keys';
 import { noticeKeys } from '@/features/notices/api/notice-keys';
 import { ticketKeys } from '@/features/tickets/api/ticket-keys';
 import { alarmKeys } from '@/features/alarms/api/alarm-keys';
+import { maintenanceKeys } from '@/features/maintenance/api/maintenance-keys';
 
 // The one table from server event to what it does to the caches (events: shared/events.ts).
 // A board change carries the tool's new entry: it is written into the board, the lobby
@@ -82,6 +83,8 @@ export const REALTIME_EVENTS: EventHandlers = {
   'service_targets.updated': (_p, { invalidate }) => invalidate([ticketKeys.all]),
   // Tool pages and ticket alarm panels; the board's alarm line came with 'board.tool_changed'.
   'alarm.changed': (_p, { invalidate }) => invalidate([alarmKeys.all]),
+  'maintenance.changed': (_p, { invalidate }) => invalidate([maintenanceKeys.all]),
+  'maintenance.window_changed': (_p, { invalidate }) => invalidate([maintenanceKeys.all]),
 };
 
 // A burst of announcements (a facility-wide power dip) is folded into one round of refetches.

@@ -64,6 +64,16 @@ export const router = createBrowserRouter([
               },
               { element: <RoleGate minimum="technician" />, children: [{ path: 'queue', lazy: () => import('@/app/routes/queue') }] },
               {
+                element: <RoleGate minimum="technician" />,
+                children: [
+                  { path: 'maintenance', lazy: () => import('@/app/routes/maintenance/index') },
+                  { path: 'maintenance/work-orders/:id', lazy: () => import('@/app/routes/maintenance/work-order') },
+                  { path: 'maintenance/work-orders/:id/print', lazy: () => import('@/app/routes/maintenance/print') },
+                  { path: 'maintenance/parts', lazy: () => import('@/app/routes/maintenance/parts') },
+                ],
+              },
+              { path: 'calendar-feeds', lazy: () => import('@/app/routes/maintenance/calendar-feeds') },
+              {
                 element: <RoleGate minimum="manager" />,
                 children: [{ path: 'admin/service-targets', lazy: () => import('@/app/routes/admin-service-targets') }],
               },

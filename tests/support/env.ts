@@ -21,6 +21,8 @@ export function testConfig(overrides: Record<string, string> = {}): Config {
       SESSION_SECRET: 'test-secret-test-secret-test-secret-0123',
       PORT: '0',
       OUTBOX_POLL_MS: '200',
+      // Tests run maintenance scheduler passes themselves, when they need one.
+      MAINTENANCE_SCHEDULER_MS: '0',
       // Every test signs in from 127.0.0.1; the per-address limit gets its own test.
       SIGNIN_MAX_FAILURES_PER_ADDRESS: '100000',
       ANONYMOUS_REQUESTS_PER_MINUTE: '100000',

@@ -20,6 +20,7 @@ const tool = (id: number, areaId: number, extra: Partial<BoardTool> = {}): Board
   source: 'staff',
   openTickets: 0,
   activeAlarm: null,
+  plannedMaintenance: null,
   modules: [],
   ...extra,
 });

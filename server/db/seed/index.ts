@@ -4,6 +4,7 @@ import { seedUsers } from './users';
 import { seedFacility } from './facility';
 import { seedTickets } from './tickets';
 import { seedAlarms } from './alarms';
+import { seedMaintenance } from './maintenance';
 
 /**
  * The demo facility: invented people, tools and a year of history, generated from a fixed
@@ -17,6 +18,7 @@ export async function seedDemo(sequelize: Sequelize, now = new Date()): Promise<
     // Tickets last: they follow the state history the facility step wrote.
     await seedTickets(transaction, people, now);
     await seedAlarms(transaction, facility, now);
+    await seedMaintenance(sequelize, transaction, now);
   });
   return { seeded: true };
 }

@@ -77,7 +77,7 @@ async function loadRows(sequelize: Sequelize, filter: BoardRowFilter, transactio
   const moduleWhere = filter.toolIds ? 'AND m.tool_id IN (:toolIds)' : '';
   const retiredJoin = filter.includeRetired ? '' : 'AND t.retired_at IS NULL';
 
-  const [toolRows, moduleRows, alarmRows] = await Promise.all([
+  const [toolRows, moduleRows, alarmRows, windowRows] = await Promise.all([
     sequelize.query<ToolRow>(
       `SELECT t.id, t.code, t.name, t.area_id AS areaId, t.criticality,
               a.code AS areaCode, a.name AS areaName,
@@ -110,6 +110,7 @@ async function loadRows(sequelize: Sequelize, filter: BoardRowFilter, transactio
         ORDER BY o.set_at DESC`,
       { type: QueryTypes.SELECT, replacements, transaction },
     ),
+    loadPlannedWindows(sequelize, filter.toolIds, transaction),
   ]);
   const alarmsByTool = new Map<number, BoardTool['activeAlarm'] & object>();
   for (const a of alarmRows) {
@@ -117,6 +118,10 @@ async function loadRows(sequelize: Sequelize, filter: BoardRowFilter, transactio
     if (known) known.count++;
     else alarmsByTool.set(a.toolId, { alarmId: a.alarmKey, text: a.text, since: new Date(a.setAt).toISOString(), count: 1 });
   }
+  const windowByTool = new Map<number, { startsAt: string; endsAt: string }>();
+  for (const w of windowRows)
+    if (!windowByTool.has(w.toolId))
+      windowByTool.set(w.toolId, { startsAt: new Date(w.startsAt).toISOString(), endsAt: new Date(w.endsAt).toISOString() });
 
   const modulesByTool = new Map<number, ModuleRow[]>();
   for (const m of moduleRows) {
@@ -165,11 +170,26 @@ async function loadRows(sequelize: Sequelize, filter: BoardRowFilter, transactio
       source: row.source ?? 'system',
       openTickets: Number(row.openTickets),
       activeAlarm: alarmsByTool.get(row.id) ?? null,
+      plannedMaintenance: windowByTool.get(row.id) ?? null,
       modules,
     };
     return { tool, areaCode: row.areaCode, areaName: row.areaName };
   });
   return { tools };
+}
+
+/**
+ * Booked maintenance windows not yet over whose work order is still open, soonest first
+ * (the maintenance module owns the tables; the board only shows the next one per tool).
+ */
+function loadPlannedWindows(sequelize: Sequelize, toolIds: number[] | undefined, transaction?: Transaction) {
+  return sequelize.query<{ toolId: number; startsAt: Date; endsAt: Date }>(
+    `SELECT mw.tool_id AS toolId, mw.starts_at AS startsAt, mw.ends_at AS endsAt FROM maintenance_windows mw
+       JOIN work_orders w ON w.id = mw.work_order_id AND w.status IN ('scheduled','in_progress')
+      WHERE mw.status = 'booked' AND mw.ends_at > :now ${toolIds ? 'AND mw.tool_id IN (:toolIds)' : ''}
+      ORDER BY mw.starts_at`,
+    { type: QueryTypes.SELECT, replacements: { now: new Date(), toolIds: toolIds ?? [0] }, transaction },
+  );
 }
 
 function matches(tool: BoardTool, q: string | undefined) {

@@ -14,6 +14,7 @@ import { computePriority } from '../../../shared/priority';
 import { E10_LABELS, REASONS_BY_STATE, type StateReason } from '../../../shared/equipment-state';
 import { FIX_KIND_LABELS, WAIT_REASON_LABELS, type WaitReason } from '../../../shared/report-options';
 import { STAFF_ONLY_ACTIONS, type TicketActionData } from '../../../shared/schemas/tickets';
+import { returnToServiceProof } from '../maintenance/requal.service';
 
 /** The client saved on top of a version someone else already changed. */
 export class StaleTicketError extends AppError {
@@ -174,6 +175,21 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
         };
         statusNote = input.workDone;
         if (input.returnToService) {
+          // Back to Running only with proof when the tool has a requalification template.
+          const proof = await returnToServiceProof(
+            deps,
+            { toolId: tool.id, since: ticket.createdAt, user, overrideReason: input.returnOverrideReason },
+            transaction,
+          );
+          statusData.returnProof = proof;
+          if (proof.kind !== 'no_template')
+            await appendEvent(
+              ticket.id,
+              user.id,
+              'return_proof',
+              { body: proof.kind === 'override' ? proof.reason : null, data: proof },
+              transaction,
+            );
           for (const held of await intervalsHeldBy(ticket.id, transaction)) {
             await changeStateForTicket(
               deps,

@@ -20,6 +20,8 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { to: '/report', label: 'Report a problem', minimumRole: 'member', ready: true },
   { to: '/my-reports', label: 'My reports', minimumRole: 'member', ready: true },
   { to: '/queue', label: 'Queue', minimumRole: 'technician', ready: true },
+  { to: '/maintenance', label: 'Maintenance', minimumRole: 'technician', ready: true },
+  { to: '/calendar-feeds', label: 'Calendar feeds', minimumRole: 'member', ready: true, inMenu: false },
   { to: '/analytics', label: 'Analytics', minimumRole: 'manager', ready: true },
   { to: '/admin', label: 'Admin', minimumRole: 'admin', ready: true },
   { to: '/admin/service-targets', label: 'Service targets', minimumRole: 'manager', ready: true },

@@ -19,6 +19,8 @@ import { ToolTickets } from '@/features/tickets/components/tool-tickets';
 import { ToolReliability } from '@/features/analytics/components/tool-reliability';
 import { ToolAlarmsPanel } from '@/features/alarms/components/tool-alarms-panel';
 import { ToolKeysPanel } from '@/features/alarms/components/tool-keys-panel';
+import { RequalCharts } from '@/features/maintenance/components/requal-charts';
+import { formatWindow } from '@/lib/maintenance-window';
 
 export function ToolPage() {
   const { code = '' } = useParams();
@@ -88,6 +90,15 @@ export function ToolPage() {
             <ToolStatusPanel tool={t} />
           </Card>
 
+          {t.plannedMaintenance && (
+            <Alert tone="info" title="Maintenance planned">
+              <span data-testid="tool-planned-maintenance">
+                {formatWindow(t.plannedMaintenance.startsAt, t.plannedMaintenance.endsAt)}: the tool is in scheduled downtime for preventive
+                maintenance then.
+              </span>
+            </Alert>
+          )}
+
           {t.modules.length > 0 && (
             <Card as="section" title="Modules" description="Some modules down make the tool Limited; all of them down make it Down.">
               <ModuleStates modules={t.modules} />
@@ -101,6 +112,8 @@ export function ToolPage() {
           <Card as="section" title="State history">
             <StateHistory toolId={t.id} />
           </Card>
+
+          <RequalCharts toolId={t.id} />
         </div>
 
         <div className="flex min-w-0 flex-col gap-6">

@@ -5,6 +5,7 @@ import { RelativeTime } from '@/components/ui/relative-time';
 import { StateBadge } from '@/components/ui/state-badge';
 import { cx } from '@/lib/cx';
 import { useNow } from '@/lib/use-now';
+import { formatWindow } from '@/lib/maintenance-window';
 
 // The coloured edge repeats the badge's colour; the badge's shape and word carry the meaning.
 const EDGE: Record<BoardTool['status'], string> = {
@@ -51,6 +52,11 @@ export function ToolCard({ tool }: { tool: BoardTool }) {
       </div>
 
       {why && <p className="line-clamp-3 text-sm text-ink">{why}</p>}
+      {tool.plannedMaintenance && tool.status !== 'maintenance' && (
+        <p className="text-sm font-medium text-ink" data-testid="planned-maintenance">
+          Maintenance planned {formatWindow(tool.plannedMaintenance.startsAt, tool.plannedMaintenance.endsAt)}
+        </p>
+      )}
       {reported && <p className="text-xs font-medium text-muted">Set by a user’s report; staff have not confirmed it yet.</p>}
       {tool.activeAlarm && (
         <p className="text-sm text-ink" data-testid={`board-alarm-${tool.code}`}>
