@@ -251,7 +251,7 @@ describe('the repair workflow', () => {
     expect(fromMerged.find((e: any) => e.kind === 'reported')).toMatchObject({ actor: { id: bUser.id }, photos: [expect.objectContaining({ url: expect.stringMatching(/^\/api\/photos\/\d+$/) })] });
 
     expect((await b.post(`/api/tickets/${second.body.id}/reports`, { description: 'more' })).status).toBe(409);
-    expect((await act(tech, first.id, { action: 'fix', fixKind: 'assist', workDone: 'Cleaned the chuck O-ring' })).status).toBe(200);
+    expect((await act(tech, first.id, { action: 'fix', fixKind: 'assist', workDone: 'Cleaned the chuck O-ring', wafersRecovered: 1, wafersReturned: 1 })).status).toBe(200);
     await sendMail();
     await server.catcher.waitFor((m) => m.to.includes(bUser.email) && m.subject.includes(`[#${first.id}] Fixed`));
   });

@@ -115,6 +115,13 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
         await syncDowntimeReason(deps, ticket, user.id, 'repair', transaction);
         break;
       case 'fix': {
+        if (ticket.wafersCount > 0) {
+          // Wafers were reported in the tool: what became of them is asked, never assumed.
+          const fields: Record<string, string[]> = {};
+          if (input.wafersRecovered === null) fields.wafersRecovered = ['Say how many wafers were recovered (0 if none).'];
+          if (input.wafersReturned === null) fields.wafersReturned = ['Say how many wafers went back to their owner (0 if none).'];
+          if (Object.keys(fields).length) throw badRequest('Say what became of the wafers.', fields);
+        }
         Object.assign(ticket, {
           fixKind: input.fixKind,
           failureMode: input.failureMode,

@@ -83,7 +83,10 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
   // A tool from the QR label (or a link) fills the form, unless it would replace someone's unsent words.
   const byCode = useToolChoices({ code: code ?? undefined }, Boolean(code) && draft.toolCode !== code);
   const applyTool = (tool: ToolChoice, keep = true) => update({ toolId: tool.id, toolCode: tool.code, toolName: tool.name, moduleId: null, addToTicketId: keep ? draft.addToTicketId : null });
-  const lookedUp = byCode.data?.items[0];
+  // Only a tool whose code was in the address may fill the form: the lookup's cache entry (and its
+  // placeholder) is shared with the search list, so without this check the first tool of any
+  // list would be picked by itself.
+  const lookedUp = code ? byCode.data?.items.find((t) => t.code.toUpperCase() === code) : undefined;
   useEffect(() => {
     if (lookedUp && !otherToolDraft && draft.toolId !== lookedUp.id) update({ toolId: lookedUp.id, toolCode: lookedUp.code, toolName: lookedUp.name, moduleId: null });
   }, [lookedUp, otherToolDraft, draft.toolId, update]);

@@ -164,14 +164,15 @@ function ActionForm({ form, seen, busy, onSubmit, onCancel }: { form: FormName; 
   const [values, setValues] = useState<Record<string, string | boolean>>(() => ({
     waitReason: 'parts',
     fixKind: 'failure',
-    returnToService: seen.toolStates.some((s) => s.ticketId === seen.id && s.state === 'unscheduled_downtime'),
+    // Returning the tool to service and the wafer outcomes are answers, never assumptions.
+    returnToService: false,
     priority: seen.priority,
     assigneeId: seen.assignee ? String(seen.assignee.id) : '',
     state: 'unscheduled_downtime',
     moduleId: seen.module ? String(seen.module.id) : '',
     reason: '',
-    wafersRecovered: seen.wafersCount ? String(seen.wafersCount) : '',
-    wafersReturned: seen.wafersCount ? String(seen.wafersCount) : '',
+    wafersRecovered: '',
+    wafersReturned: '',
   }));
   const v = (k: string) => String(values[k] ?? '');
   const set = (k: string) => (e: { target: { value: string } }) => setValues((old) => ({ ...old, [k]: e.target.value }));
