@@ -80,3 +80,73 @@ describe('marking a ticket fixed in the browser', () => {
     await screenshot(page, 'ticket-fix-defaults-desktop');
   });
 });
+
+describe('hazard reports', () => {
+  it('when an admin sets the emergency number and procedure, then a member who ticks "Someone is hurt" on a phone sees cautions for an injury at once, with that number, and the limits line last', async () => {
+    const admin = await createUser('admin');
+    const adminApi = new TestClient(server.url);
+    await adminApi.signIn(admin.email, TEST_PASSWORD);
+    const before = (await adminApi.get('/api/facility-settings')).body;
+    try {
+      // Admin → Facility settings, at desktop width; a bad time zone is shown on its field.
+      const desk = await signedInPage(admin.email, VIEWPORTS.desktop);
+      await desk.page.goto(`${server.url}/admin`);
+      await desk.page.getByRole('link', { name: /Open facility settings/ }).click();
+      const form = desk.page.getByRole('form', { name: 'Facility settings' });
+      await form.getByLabel(/^Facility name/).fill('Test cleanroom (fictional)');
+      await form.getByLabel(/^Time zone/).fill('Nowhere/Atlantis');
+      await form.getByLabel(/^Emergency number/).fill('4444');
+      await form.getByLabel(/^Local procedure/).fill('Assembly point: the north car park.');
+      await form.getByRole('button', { name: 'Save settings' }).click();
+      await form.getByText(/Enter a time zone such as/).waitFor();
+      expect(await desk.page.evaluate(() => (document.activeElement as HTMLInputElement | null)?.value)).toBe('Nowhere/Atlantis');
+      await screenshot(desk.page, 'facility-settings-error-desktop');
+      await form.getByLabel(/^Time zone/).fill('Europe/Lisbon');
+      await form.getByRole('button', { name: 'Save settings' }).click();
+      await form.getByText('The new settings apply at once.').waitFor();
+      expect((await adminApi.get('/api/facility-settings')).body).toMatchObject({
+        facilityName: 'Test cleanroom (fictional)',
+        timeZone: 'Europe/Lisbon',
+        emergencyNumber: '4444',
+      });
+      await screenshot(desk.page, 'facility-settings-desktop');
+
+      const member = await createUser('member');
+      const { tool } = await createTool(server.deps.sequelize, { name: 'Wet bench acids (e2e)' });
+      const { page } = await signedInPage(member.email, VIEWPORTS.phone);
+      await page.goto(`${server.url}/report?tool=${tool.code}`);
+      await page.getByTestId('chosen-tool').waitFor();
+      // The danger question comes before the description.
+      const dangerY = (await page.getByText('Is anyone or anything in danger?').boundingBox())!.y;
+      const whatY = (await page.getByLabel(/^What happened\?/).boundingBox())!.y;
+      expect(dangerY).toBeLessThan(whatY);
+
+      await page.getByText('Is anyone or anything in danger?').evaluate((el) => el.scrollIntoView({ block: 'start' }));
+      await page.getByLabel('Someone is hurt').check();
+      const cautions = page.getByTestId('hazard-cautions');
+      await cautions.waitFor();
+      // Where the user is looking: the cautions' number and first steps are on screen now.
+      const inView = async (locator: ReturnType<typeof page.locator>) => {
+        const box = (await locator.boundingBox())!;
+        return box.y >= 0 && box.y + box.height <= VIEWPORTS.phone.height;
+      };
+      await expect.poll(() => inView(page.getByTestId('emergency-number'))).toBe(true);
+      expect(await inView(cautions.locator('[data-hazard="injury"]'))).toBe(true);
+      expect(await page.getByTestId('emergency-number').innerText()).toContain('4444');
+      expect(await page.getByTestId('local-procedure').innerText()).toContain('Assembly point: the north car park.');
+      const text = await cautions.innerText();
+      expect(text).toContain('Call for help on the emergency number');
+      expect(text).not.toContain('Step back from the smell');
+      expect(text).not.toMatch(/usual cautions/i);
+      const lines = await cautions.getByTestId('caution-lines').locator('li').allInnerTexts();
+      expect(lines[lines.length - 1]).toMatch(/does not replace the facility's alarm systems/);
+      await screenshot(page, 'report-hazard-injury-phone', { fullPage: false });
+
+      // Ticking a second hazard adds its own first steps.
+      await page.getByLabel('Unusual smell').check();
+      await cautions.locator('[data-hazard="smell"]').waitFor();
+    } finally {
+      await adminApi.put('/api/admin/facility-settings', before);
+    }
+  });
+});

@@ -175,7 +175,7 @@ describe('reporting a fault from a phone and fixing it', () => {
 });
 
 describe('safety and concurrent edits in the browser', () => {
-  it('when a member ticks a hazard, then the form shows the usual cautions before anything is sent', async () => {
+  it('when a member ticks a hazard, then the form shows the cautions before anything is sent', async () => {
     const member = await createUser('member');
     const { tool } = await createTool(server.deps.sequelize, { name: 'Wet bench (e2e)' });
     const { page } = await signedInPage(member.email, VIEWPORTS.phone);

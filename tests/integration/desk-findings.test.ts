@@ -3,7 +3,9 @@ import { startTestServer, type TestServer } from '../support/server';
 import { createUser, signedInClient, TEST_PASSWORD } from '../support/factories';
 import { TestClient } from '../support/client';
 import { Ticket, TicketEvent } from '../../server/modules/tickets/ticket.model';
-import { createTool, drainOutbox, fileReport, openState } from './tickets-fixtures';
+import { User } from '../../server/modules/users/user.model';
+import { GENERIC_CAUTIONS, HAZARD_FIRST_STEPS, LIMITS_CAUTION } from '../../shared/hazard-cautions';
+import { createTool, drainOutbox, fileReport, jpegBytes, multipartReport, openState, reportBody } from './tickets-fixtures';
 
 // What people at the tools and at the desk ran into, checked at the API: each answer must
 // be given by a person, not assumed by the app.
@@ -45,7 +47,13 @@ describe('marking a ticket fixed', () => {
     expect(await TicketEvent.count({ where: { ticketId: t.id } })).toBe(eventsBefore);
 
     // Zero is an answer.
-    const ok = await act(tech, t.id, { action: 'fix', fixKind: 'failure', workDone: 'Replaced the lift pin', wafersRecovered: 0, wafersReturned: 0 });
+    const ok = await act(tech, t.id, {
+      action: 'fix',
+      fixKind: 'failure',
+      workDone: 'Replaced the lift pin',
+      wafersRecovered: 0,
+      wafersReturned: 0,
+    });
     expect(ok.status).toBe(200);
     expect(await Ticket.findByPk(t.id)).toMatchObject({ status: 'fixed', wafersRecovered: 0, wafersReturned: 0 });
   });
@@ -57,5 +65,119 @@ describe('marking a ticket fixed', () => {
     const t = await fileReport(member, tool.id, { impact: 'tool_stopped' });
     expect((await act(tech, t.id, { action: 'fix', fixKind: 'assist', workDone: 'Reset the controller' })).status).toBe(200);
     expect((await openState(tool.id))!.state).toBe('unscheduled_downtime');
+  });
+});
+
+describe('facility settings', () => {
+  const valid = {
+    facilityName: 'Test facility (fictional)',
+    timeZone: 'America/Chicago',
+    emergencyNumber: '4444',
+    localProcedure: 'Assembly point: the north car park.',
+    memberTicketVisibility: 'all',
+  };
+
+  it('when an admin saves valid settings, then everyone signed in reads them; bad input is a 400 with field messages and writes nothing', async () => {
+    const { client: admin } = await staffClient('admin');
+    const before = (await admin.get('/api/facility-settings')).body;
+    try {
+      const saved = await admin.put('/api/admin/facility-settings', valid);
+      expect(saved.status).toBe(200);
+      expect(saved.body).toEqual(valid);
+      const { client: member } = await signedInClient(server.url, 'member');
+      expect((await member.get('/api/facility-settings')).body).toEqual(valid);
+
+      const bad = await admin.put('/api/admin/facility-settings', {
+        ...valid,
+        facilityName: '  ',
+        timeZone: 'Mars/Olympus',
+        emergencyNumber: 'call someone',
+        memberTicketVisibility: 'nobody',
+        extra: 1,
+      });
+      expect(bad.status).toBe(400);
+      expect(Object.keys(bad.body.error.fields).sort()).toEqual([
+        'emergencyNumber',
+        'extra',
+        'facilityName',
+        'memberTicketVisibility',
+        'timeZone',
+      ]);
+      expect((await member.get('/api/facility-settings')).body).toEqual(valid);
+
+      expect((await member.put('/api/admin/facility-settings', valid)).status).toBe(403);
+    } finally {
+      await admin.put('/api/admin/facility-settings', before);
+    }
+  });
+
+  it('when a hazard is reported, then the on-call mail carries the cautions for that hazard and the facility emergency number, with the limits line last', async () => {
+    const { client: admin } = await staffClient('admin');
+    const before = (await admin.get('/api/facility-settings')).body;
+    const onCall = await createUser('technician', { onCall: true });
+    try {
+      await admin.put('/api/admin/facility-settings', valid);
+      const { tool } = await createTool(server.deps.sequelize);
+      const { client: member } = await signedInClient(server.url, 'member');
+      const t = await fileReport(member, tool.id, { hazards: ['injury'] });
+      await server.worker.runOnce();
+      const mail = await server.catcher.waitFor((m) => m.to.includes(onCall.email) && m.subject.includes(`#${t.id}`));
+      expect(mail.text).toContain('Emergency number: 4444');
+      expect(mail.text).toContain('Assembly point: the north car park.');
+      expect(mail.text).toContain(HAZARD_FIRST_STEPS.injury[0]);
+      expect(mail.text).not.toContain(HAZARD_FIRST_STEPS.smell[0]);
+      expect(mail.text).not.toMatch(/usual cautions/i);
+      // The limits line comes after every caution line.
+      const at = (line: string) => mail.text.indexOf(line);
+      expect(at(LIMITS_CAUTION)).toBeGreaterThan(
+        Math.max(at(GENERIC_CAUTIONS[GENERIC_CAUTIONS.length - 1]), at(HAZARD_FIRST_STEPS.injury[2])),
+      );
+    } finally {
+      await User.update({ onCall: false }, { where: { id: onCall.id } });
+      await admin.put('/api/admin/facility-settings', before);
+    }
+  });
+});
+
+describe('who may read tickets', () => {
+  it('when the facility lets members see only their own reports, then another member gets 404 for the ticket, its photos, replies and actions, and lists show only their own; staff still see all', async () => {
+    const { client: admin } = await staffClient('admin');
+    const before = (await admin.get('/api/facility-settings')).body;
+    const { tool } = await createTool(server.deps.sequelize);
+    const { client: owner } = await signedInClient(server.url, 'member');
+    const { client: other } = await signedInClient(server.url, 'member');
+    const form = multipartReport(reportBody(tool.id, { description: 'Owner report with a photo' }), [
+      { bytes: await jpegBytes(), name: 'a.jpg' },
+    ]);
+    const created = await owner.post('/api/tickets', form);
+    expect(created.status).toBe(201);
+    const id = created.body.id as number;
+    const photoId = (await owner.get(`/api/tickets/${id}`)).body.events.find((e: any) => e.photos.length).photos[0].id as number;
+    const own = await fileReport(other, tool.id, { description: 'Other member report' });
+
+    // The default is an open facility: everyone reads everything.
+    expect((await other.get(`/api/tickets/${id}`)).status).toBe(200);
+    try {
+      expect((await admin.put('/api/admin/facility-settings', { ...before, memberTicketVisibility: 'own' })).status).toBe(200);
+      expect((await other.get(`/api/tickets/${id}`)).status).toBe(404);
+      expect((await other.get(`/api/photos/${photoId}`)).status).toBe(404);
+      expect((await other.get(`/api/photos/${photoId}/thumb`)).status).toBe(404);
+      expect((await other.post(`/api/tickets/${id}/comments`, { body: 'hello', internal: false })).status).toBe(404);
+      expect((await other.post(`/api/tickets/${id}/reports`, { description: 'me too' })).status).toBe(404);
+      expect((await other.post(`/api/tickets/${id}/actions`, { version: 0, action: 'close' })).status).toBe(404);
+      const list = await other.get(`/api/tickets?toolId=${tool.id}&status=all`);
+      expect(list.body.items.map((t: any) => t.id)).toEqual([own.id]);
+
+      expect((await owner.get(`/api/tickets/${id}`)).status).toBe(200);
+      expect((await owner.get(`/api/photos/${photoId}`)).status).toBe(200);
+      const { client: tech } = await staffClient();
+      expect((await tech.get(`/api/tickets/${id}`)).status).toBe(200);
+      expect((await tech.get(`/api/tickets?toolId=${tool.id}&status=all`)).body.items).toHaveLength(2);
+      // The board stays public: it still counts both open tickets.
+      const board = await other.get('/api/board');
+      expect(JSON.stringify(board.body)).toContain(tool.code);
+    } finally {
+      await admin.put('/api/admin/facility-settings', before);
+    }
   });
 });

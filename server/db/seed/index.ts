@@ -3,6 +3,7 @@ import { User } from '../../modules/users/user.model';
 import { seedUsers } from './users';
 import { seedFacility } from './facility';
 import { seedTickets } from './tickets';
+import { seedSettings } from './settings';
 
 /**
  * The demo facility: invented people, tools and a year of history, generated from a fixed
@@ -15,6 +16,7 @@ export async function seedDemo(sequelize: Sequelize, now = new Date()): Promise<
     await seedFacility(transaction, people, now);
     // Tickets last: they follow the state history the facility step wrote.
     await seedTickets(transaction, people, now);
+    await seedSettings(transaction);
   });
   return { seeded: true };
 }

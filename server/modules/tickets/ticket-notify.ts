@@ -3,7 +3,9 @@ import { User } from '../users/user.model';
 import { Notice } from '../notices/notice.model';
 import { queueMail } from '../../lib/mailer';
 import type { AppDeps } from '../../lib/http';
-import { HAZARD_CAUTIONS, HAZARD_LABELS, type Hazard } from '../../../shared/report-options';
+import { HAZARD_LABELS, type Hazard } from '../../../shared/report-options';
+import { cautionLines, cautionsFor } from '../../../shared/hazard-cautions';
+import { getFacilitySettings } from '../settings/settings.service';
 
 export const ticketLink = (deps: AppDeps, ticketId: number) => `${deps.config.publicUrl}/tickets/${ticketId}`;
 
@@ -39,7 +41,7 @@ export async function notifyUsers(deps: AppDeps, n: Notification, transaction: T
   return users.map((u) => u.id);
 }
 
-/** A hazard goes to everyone on call at once, with the usual cautions in the message. */
+/** A hazard goes to everyone on call at once, with the cautions for what was named in the message. */
 export async function notifyOnCall(
   deps: AppDeps,
   input: { ticketId: number; toolName: string; toolCode: string; hazards: readonly Hazard[]; description: string; exceptUserId?: number | null },
@@ -47,6 +49,7 @@ export async function notifyOnCall(
 ) {
   const onCall = await User.findAll({ where: { onCall: true, active: true }, attributes: ['id'], transaction });
   const hazards = input.hazards.map((h) => HAZARD_LABELS[h].toLowerCase()).join(', ');
+  const cautions = cautionsFor(input.hazards, await getFacilitySettings(deps, transaction));
   return notifyUsers(
     deps,
     {
@@ -59,8 +62,8 @@ export async function notifyOnCall(
         '',
         input.description,
         '',
-        'The usual cautions:',
-        ...HAZARD_CAUTIONS.map((c) => `- ${c}`),
+        'Cautions:',
+        ...cautionLines(cautions),
       ].join('\n'),
       ticketId: input.ticketId,
     },

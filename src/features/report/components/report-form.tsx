@@ -1,6 +1,8 @@
 import { useEffect, useId, useRef, type FormEvent } from 'react';
+import type { Hazard } from '@shared/report-options';
+import { HazardCautions } from '@/components/hazard-cautions';
 import { useNavigate } from 'react-router';
-import { CATEGORY_LABELS, HAZARDS, HAZARD_CAUTIONS, HAZARD_LABELS, IMPACTS, IMPACT_HELP, IMPACT_LABELS, TICKET_CATEGORIES } from '@shared/report-options';
+import { CATEGORY_LABELS, HAZARDS, HAZARD_LABELS, IMPACTS, IMPACT_HELP, IMPACT_LABELS, TICKET_CATEGORIES } from '@shared/report-options';
 import { WAFER_RECOVERABLE, WAFER_RECOVERABLE_LABELS, type ToolChoice } from '@shared/schemas/tickets';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
@@ -15,18 +17,6 @@ import { CheckCards, RadioCards } from '@/features/report/components/choice-card
 import { ToolPicker } from '@/features/report/components/tool-picker';
 import { PhotoPicker } from '@/features/report/components/photo-picker';
 import { DuplicateList } from '@/features/report/components/duplicate-list';
-
-function Cautions() {
-  return (
-    <Alert tone="danger" live title="Safety first — the usual cautions">
-      <ul className="list-disc space-y-1 pl-5" data-testid="hazard-cautions">
-        {HAZARD_CAUTIONS.map((line) => (
-          <li key={line}>{line}</li>
-        ))}
-      </ul>
-    </Alert>
-  );
-}
 
 function WaferStepper({ value, onChange }: { value: number; onChange: (n: number) => void }) {
   const id = useId();
@@ -116,6 +106,23 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
     triedOnLoad.current = true;
     void send();
   }, [draft.pending, photoStore, send]);
+
+  // A newly ticked hazard brings its cautions into view at once: on a phone they would
+  // otherwise sit below the fold, under the boxes just tapped.
+  const cautionsRef = useRef<HTMLDivElement>(null);
+  const revealCautions = useRef(false);
+  const tickHazards = (next: Hazard[]) => {
+    revealCautions.current = next.some((h) => !draft.hazards.includes(h));
+    update({ hazards: next });
+  };
+  useEffect(() => {
+    const el = cautionsRef.current;
+    if (!revealCautions.current || !el) return;
+    revealCautions.current = false;
+    const top = el.getBoundingClientRect().top;
+    // Leave the last boxes in sight above the cautions, so a second tick stays one tap away.
+    if (top < 0 || top > window.innerHeight * 0.45) window.scrollBy({ top: top - window.innerHeight * 0.3 });
+  }, [draft.hazards]);
 
   const busy = state === 'sending';
   const adding = draft.addToTicketId !== null;
@@ -222,6 +229,9 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
         draft.toolId && open.data && <DuplicateList items={open.data.items} typed={`${draft.description} ${draft.alarmText}`} onAddTo={(t) => update({ addToTicketId: t.id })} />
       )}
 
+      <CheckCards legend="Is anyone or anything in danger?" hint="Tick what applies. Staff on call are alerted at once." tone="danger" choices={HAZARDS.map((h) => ({ value: h, label: HAZARD_LABELS[h] }))} values={draft.hazards} onChange={tickHazards} />
+      {draft.hazards.length > 0 && <HazardCautions ref={cautionsRef} hazards={draft.hazards} live className="scroll-mt-20" />}
+
       <TextAreaBig label="What happened?" required value={draft.description} onChange={(v) => update({ description: v })} errors={fields.description} hint="What you were doing, what you saw or heard." />
 
       <TextField label="Alarm text on the tool's screen" hint="Copy it exactly, with any number." value={draft.alarmText} onChange={(e) => update({ alarmText: e.target.value })} maxLength={1000} inputClassName="min-h-13 font-mono text-lg" autoCapitalize="characters" errors={fields.alarmText} />
@@ -278,8 +288,6 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
         )}
       </div>
 
-      <CheckCards legend="Is anyone or anything in danger?" hint="Tick what applies. Staff on call are alerted at once." tone="danger" choices={HAZARDS.map((h) => ({ value: h, label: HAZARD_LABELS[h] }))} values={draft.hazards} onChange={(v) => update({ hazards: v })} />
-      {draft.hazards.length > 0 && <Cautions />}
 
       <PhotoPicker photos={photos} onAdd={(f) => void addPhotos(f)} onRemove={(id) => void removePhoto(id)} disabled={busy} stored={photoStore} />
 
