@@ -5,6 +5,7 @@ import { createUser, TEST_PASSWORD } from '../support/factories';
 import { launchBrowser, screenshot, signInThroughPage, VIEWPORTS } from '../support/browser';
 import { createTool, drainOutbox, fileReport } from '../integration/tickets-fixtures';
 import { TestClient } from '../support/client';
+import { Ticket } from '../../server/modules/tickets/ticket.model';
 
 // What people at the tools and at the desk ran into, checked in Chromium at phone and desktop
 // width.
@@ -148,5 +149,33 @@ describe('hazard reports', () => {
     } finally {
       await adminApi.put('/api/admin/facility-settings', before);
     }
+  });
+});
+
+describe('the same draft in two tabs', () => {
+  it('when a member types in a second tab and sends from the first, then both tabs held the same words and the second tab says the draft went elsewhere', async () => {
+    const member = await createUser('member');
+    const { tool } = await createTool(server.deps.sequelize, { name: 'Oxidation furnace (e2e)' });
+    const { context, page: first } = await signedInPage(member.email, VIEWPORTS.desktop);
+    await first.goto(`${server.url}/report?tool=${tool.code}`);
+    await first.getByTestId('chosen-tool').waitFor();
+    await first.getByLabel(/^What happened\?/).fill('Words from the first tab');
+
+    const second = await context.newPage();
+    await second.goto(`${server.url}/report`);
+    await second.getByTestId('chosen-tool').waitFor();
+    expect(await second.getByLabel(/^What happened\?/).inputValue()).toBe('Words from the first tab');
+    await second.getByLabel(/^What happened\?/).fill('Words from the first tab, and more typed in the second tab');
+    // The first tab now shows the second tab's words: neither will overwrite the other.
+    await expect.poll(() => first.getByLabel(/^What happened\?/).inputValue()).toBe('Words from the first tab, and more typed in the second tab');
+
+    await first.getByLabel(/^Still usable/).check();
+    await first.getByLabel('Other', { exact: true }).check();
+    await first.getByRole('button', { name: 'Send report' }).click();
+    await first.waitForURL(/\/tickets\/\d+$/);
+    await second.getByText('This draft was sent or discarded in another tab').waitFor();
+    await screenshot(second, 'report-two-tabs-desktop');
+    const sent = await Ticket.findAll({ where: { toolId: tool.id } });
+    expect(sent.map((t) => t.description)).toEqual(['Words from the first tab, and more typed in the second tab']);
   });
 });

@@ -181,3 +181,21 @@ describe('who may read tickets', () => {
     }
   });
 });
+
+describe('one draft in two tabs', () => {
+  it('when a draft key already sent comes back with other words, then it is refused with 409 and no ticket is made; the same words again are a resend', async () => {
+    const { tool } = await createTool(server.deps.sequelize);
+    const { client } = await signedInClient(server.url, 'member');
+    const clientKey = `two-tabs-${Date.now()}`;
+    const first = await client.post('/api/tickets', reportBody(tool.id, { description: 'Words from the first tab', clientKey }));
+    expect(first.status).toBe(201);
+    const again = await client.post('/api/tickets', reportBody(tool.id, { description: 'Words from the first tab', clientKey }));
+    expect(again.body.id).toBe(first.body.id);
+
+    const other = await client.post('/api/tickets', reportBody(tool.id, { description: 'Different words typed in the second tab', clientKey }));
+    expect(other.status).toBe(409);
+    expect(other.body.error.code).toBe('draft_sent_elsewhere');
+    expect(other.body.error.message).toContain(`#${first.body.id}`);
+    expect(await Ticket.count({ where: { toolId: tool.id } })).toBe(1);
+  });
+});

@@ -65,7 +65,7 @@ function ChosenTool({ tool, onChange }: { tool: { name: string; code: string; ar
  */
 export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCode: string | null; addTo: number | null }) {
   const navigate = useNavigate();
-  const { draft, update, photos, addPhotos, removePhoto, discard, restored, photoStore } = useReportDraft(userId);
+  const { draft, update, photos, addPhotos, removePhoto, discard, restored, photoStore, endedElsewhere } = useReportDraft(userId);
   const code = toolCode?.trim().toUpperCase() || null;
   const hasContent = draftHasContent(draft, photos.length);
   const otherToolDraft = Boolean(code && draft.toolCode && draft.toolCode !== code && hasContent);
@@ -151,7 +151,21 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
           Faultline could not be reached. Your report and photos are kept on this device and go out by themselves as soon as the connection is back. You can close this page.
         </Alert>
       )}
-      {restored && hasContent && state !== 'waiting' && !otherToolDraft && (
+      {endedElsewhere && (
+        <Alert
+          tone="info"
+          live
+          title="This draft was sent or discarded in another tab"
+          actions={
+            <Button variant="secondary" onClick={() => navigate('/my-reports')}>
+              See my reports
+            </Button>
+          }
+        >
+          Both tabs showed the same words, so nothing you typed here was lost. The form is empty for a new report.
+        </Alert>
+      )}
+      {restored && hasContent && state !== 'waiting' && !otherToolDraft && !endedElsewhere && (
         <Alert
           tone="info"
           title="Your unsent report is back"
