@@ -4,6 +4,7 @@ import { createUser, signedInClient, TEST_PASSWORD } from '../support/factories'
 import { TestClient } from '../support/client';
 import { Ticket, TicketEvent } from '../../server/modules/tickets/ticket.model';
 import { User } from '../../server/modules/users/user.model';
+import { Area } from '../../server/modules/facility/facility.model';
 import { GENERIC_CAUTIONS, HAZARD_FIRST_STEPS, LIMITS_CAUTION } from '../../shared/hazard-cautions';
 import { createTool, drainOutbox, fileReport, jpegBytes, multipartReport, openState, reportBody } from './tickets-fixtures';
 
@@ -197,5 +198,25 @@ describe('one draft in two tabs', () => {
     expect(other.body.error.code).toBe('draft_sent_elsewhere');
     expect(other.body.error.message).toContain(`#${first.body.id}`);
     expect(await Ticket.count({ where: { toolId: tool.id } })).toBe(1);
+  });
+});
+
+describe('search', () => {
+  it('when a code is typed in lower case without its hyphen or with a space, or a bay name is typed, then the board and the report form find the tool', async () => {
+    const { tool } = await createTool(server.deps.sequelize);
+    const area = await Area.findByPk(tool.areaId);
+    const { client } = await signedInClient(server.url, 'member');
+    const loose = tool.code.toLowerCase().replace('-', ' ');
+    const squashed = tool.code.replace('-', '');
+    const bay = area!.name.toLowerCase().replace('-', ' ');
+    for (const q of [loose, squashed, bay]) {
+      const picks = await client.get(`/api/report-tools?q=${encodeURIComponent(q)}`);
+      expect(picks.status).toBe(200);
+      expect(picks.body.items.map((t: any) => t.code)).toContain(tool.code);
+      const board = await client.get(`/api/board?q=${encodeURIComponent(q)}`);
+      expect(board.body.areas.flatMap((a: any) => a.tools.map((t: any) => t.code))).toContain(tool.code);
+    }
+    const none = await client.get(`/api/report-tools?q=${encodeURIComponent(tool.code + 'zz')}`);
+    expect(none.body.items).toEqual([]);
   });
 });

@@ -2,6 +2,7 @@ import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import { BOARD_LOOK, BOARD_STATUSES, boardStatusOf, type BoardStatus, type E10State, type StateReason } from '../../../shared/equipment-state';
 import { OPEN_STATUSES } from '../../../shared/ticket-workflow';
 import type { BoardData, BoardModule, BoardQuery, BoardTool, ToolCriticality } from '../../../shared/schemas/facility';
+import { matchesSearch } from '../../../shared/search';
 import { summarizeStatus } from './status-summary';
 
 // The status board: every active tool with its rolled-up status, in two indexed queries
@@ -148,11 +149,6 @@ async function loadRows(sequelize: Sequelize, filter: BoardRowFilter, transactio
   return { tools };
 }
 
-function matches(tool: BoardTool, q: string | undefined) {
-  if (!q) return true;
-  const needle = q.toLowerCase();
-  return tool.name.toLowerCase().includes(needle) || tool.code.toLowerCase().includes(needle);
-}
 
 /**
  * Everything the board shows, in one call. The whole facility is a bounded set (hundreds of
@@ -168,7 +164,7 @@ export async function getBoard(sequelize: Sequelize, query: BoardQuery = {}): Pr
   for (const { tool, areaCode, areaName } of tools) {
     if (query.areaId && tool.areaId !== query.areaId) continue;
     if (query.status && tool.status !== query.status) continue;
-    if (!matches(tool, query.q)) continue;
+    if (!matchesSearch(query.q, [tool.code, tool.name, areaName])) continue;
     let area = areas.get(tool.areaId);
     if (!area) {
       area = { id: tool.areaId, code: areaCode, name: areaName, tools: [] };
