@@ -220,3 +220,25 @@ describe('search', () => {
     expect(none.body.items).toEqual([]);
   });
 });
+
+describe('"tool limited" reports', () => {
+  it('when a member reports "tool limited", then the board reads Limited as reported by a user, and returning to service after the fix clears it', async () => {
+    const { tool } = await createTool(server.deps.sequelize);
+    const { client: member } = await signedInClient(server.url, 'member');
+    const t = await fileReport(member, tool.id, { impact: 'tool_limited', description: 'The 150 mm chuck cannot be used' });
+    const open = await openState(tool.id);
+    expect(open).toMatchObject({ ticketId: t.id, source: 'user_report', confirmed: false });
+    expect(open!.restriction).toContain('The 150 mm chuck cannot be used');
+    const board = await member.get(`/api/board?q=${tool.code}`);
+    const entry = board.body.areas.flatMap((a: any) => a.tools).find((x: any) => x.code === tool.code);
+    expect(entry.status).toBe('limited');
+
+    const { client: tech } = await staffClient();
+    expect((await act(tech, t.id, { action: 'start_repair' })).status).toBe(200);
+    expect((await openState(tool.id))!.restriction).not.toBeNull();
+    expect((await act(tech, t.id, { action: 'fix', fixKind: 'failure', workDone: 'Replaced the chuck seal', returnToService: true })).status).toBe(200);
+    const after = await openState(tool.id);
+    expect(after!.restriction).toBeNull();
+    expect(after!.state).toBe('standby');
+  });
+});

@@ -5,7 +5,7 @@ import { User } from '../users/user.model';
 import { AppError, badRequest, forbidden } from '../../lib/errors';
 import { storePhotos, removePhotos, type IncomingFile, type StoredPhoto } from '../../lib/uploads';
 import type { AppDeps, AuthUser } from '../../lib/http';
-import { appendEvent, applyStoppedReport } from './ticket-effects';
+import { appendEvent, applyLimitedReport, applyStoppedReport } from './ticket-effects';
 import { notifyOnCall, notifyUsers, ticketFollowers } from './ticket-notify';
 import { findTicket } from './ticket-query.service';
 import { isStaff } from '../../../shared/roles';
@@ -139,6 +139,7 @@ export async function createReport(deps: AppDeps, user: AuthUser, input: ReportD
       await savePhotos(ticket.id, Number(event.id), user.id, stored, transaction);
       if (assignee) await appendEvent(ticket.id, null, 'assignment', { data: { from: null, to: { id: assignee.id, name: assignee.name }, automatic: true } }, transaction);
       if (input.impact === 'tool_stopped') await applyStoppedReport(deps, ticket, locked, input.moduleId, user.id, transaction);
+      else if (input.impact === 'tool_limited') await applyLimitedReport(deps, ticket, locked, input.moduleId, user.id, transaction);
 
       const where = `${locked.name} (${locked.code})`;
       let alreadyTold: number[] = [];

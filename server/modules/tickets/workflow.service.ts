@@ -53,7 +53,8 @@ function checkPermission(user: AuthUser, ticket: Ticket, action: TicketActionDat
 /** Keeps the reason of a Down held by this ticket in step with the ticket (repair or which delay). */
 async function syncDowntimeReason(deps: AppDeps, ticket: Ticket, actorId: number, reason: StateReason, transaction: Transaction) {
   for (const held of await intervalsHeldBy(ticket.id, transaction)) {
-    if (held.reason === reason) continue;
+    // A limited (restricted, still running) interval keeps its running reason.
+    if (held.state !== 'unscheduled_downtime' || held.reason === reason) continue;
     await changeStateForTicket(deps, ticket, actorId, { toolId: held.toolId, moduleId: held.moduleId, state: 'unscheduled_downtime', reason, note: held.note, expectedReturnAt: held.expectedReturnAt, source: held.source === 'user_report' ? 'user_report' : 'staff', confirmed: held.confirmed }, transaction);
   }
 }

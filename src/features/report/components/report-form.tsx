@@ -258,7 +258,7 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
           </>
         }
         hint={adding ? 'Only if it changed since the first report.' : undefined}
-        choices={IMPACTS.map((i) => ({ value: i, label: IMPACT_LABELS[i], help: i === 'tool_stopped' ? `${IMPACT_HELP[i]} It will show as Down on the board at once.` : IMPACT_HELP[i] }))}
+        choices={IMPACTS.map((i) => ({ value: i, label: IMPACT_LABELS[i], help: i === 'tool_stopped' ? `${IMPACT_HELP[i]} It will show as Down on the board at once.` : i === 'tool_limited' ? `${IMPACT_HELP[i]} It will show as Limited on the board at once.` : IMPACT_HELP[i] }))}
         value={draft.impact}
         onChange={(v) => update({ impact: v })}
         errors={fields.impact}

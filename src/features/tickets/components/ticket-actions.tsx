@@ -69,12 +69,15 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
 
   const buttons: ReactNode[] = [];
   if (allowed.has('confirm_down')) {
+    // A "tool limited" report holds a restriction on a running tool rather than a Down.
+    const held = ticket.toolStates.find((s) => s.ticketId === ticket.id && s.source === 'user_report' && !s.confirmed);
+    const word = held && held.state !== 'unscheduled_downtime' ? 'Limited' : 'Down';
     buttons.push(
       <Button key="confirm_down" size="lg" variant="danger" busy={action.isPending && action.variables?.action === 'confirm_down'} onClick={() => send({ action: 'confirm_down' }, ticket)}>
-        Confirm it is Down
+        Confirm it is {word}
       </Button>,
       <Button key="revert_down" size="lg" variant="secondary" busy={action.isPending && action.variables?.action === 'revert_down'} onClick={() => send({ action: 'revert_down', note: null }, ticket)}>
-        Not down: revert
+        Not {word.toLowerCase()}: revert
       </Button>,
     );
   }
