@@ -242,3 +242,20 @@ describe('"tool limited" reports', () => {
     expect(after!.state).toBe('standby');
   });
 });
+
+describe('stale words on the board', () => {
+  it('when a technician waits with a note and then resumes the repair, then the board no longer shows the waiting note', async () => {
+    const { tool } = await createTool(server.deps.sequelize);
+    const { client: member } = await signedInClient(server.url, 'member');
+    const t = await fileReport(member, tool.id, { impact: 'tool_stopped' });
+    const { client: tech } = await staffClient();
+    expect((await act(tech, t.id, { action: 'acknowledge' })).status).toBe(200);
+    expect((await act(tech, t.id, { action: 'wait', waitReason: 'parts', note: 'Waiting for a new pressure gauge' })).status).toBe(200);
+    const boardEntry = async () => (await member.get(`/api/board?q=${tool.code}`)).body.areas.flatMap((a: any) => a.tools).find((x: any) => x.code === tool.code);
+    expect((await boardEntry()).note).toBe('Waiting for a new pressure gauge');
+    expect((await act(tech, t.id, { action: 'resume' })).status).toBe(200);
+    const entry = await boardEntry();
+    expect(entry.status).toBe('down');
+    expect(entry.note ?? '').not.toContain('pressure gauge');
+  });
+});

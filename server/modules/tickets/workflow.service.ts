@@ -51,11 +51,16 @@ function checkPermission(user: AuthUser, ticket: Ticket, action: TicketActionDat
 }
 
 /** Keeps the reason of a Down held by this ticket in step with the ticket (repair or which delay). */
-async function syncDowntimeReason(deps: AppDeps, ticket: Ticket, actorId: number, reason: StateReason, transaction: Transaction) {
+/**
+ * The Down this ticket holds follows the workflow: its reason, and its note, which the board
+ * shows. A note belongs to the reason it was written for, so a new reason brings its own note
+ * (the wait's note, or none) instead of keeping words like "waiting for a gauge" after a resume.
+ */
+async function syncDowntimeReason(deps: AppDeps, ticket: Ticket, actorId: number, reason: StateReason, transaction: Transaction, note: string | null = null) {
   for (const held of await intervalsHeldBy(ticket.id, transaction)) {
     // A limited (restricted, still running) interval keeps its running reason.
     if (held.state !== 'unscheduled_downtime' || held.reason === reason) continue;
-    await changeStateForTicket(deps, ticket, actorId, { toolId: held.toolId, moduleId: held.moduleId, state: 'unscheduled_downtime', reason, note: held.note, expectedReturnAt: held.expectedReturnAt, source: held.source === 'user_report' ? 'user_report' : 'staff', confirmed: held.confirmed }, transaction);
+    await changeStateForTicket(deps, ticket, actorId, { toolId: held.toolId, moduleId: held.moduleId, state: 'unscheduled_downtime', reason, note, expectedReturnAt: held.expectedReturnAt, source: held.source === 'user_report' ? 'user_report' : 'staff', confirmed: held.confirmed }, transaction);
   }
 }
 
@@ -107,7 +112,7 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
         ticket.waitReason = input.waitReason;
         statusNote = input.note;
         statusData = { waitReason: input.waitReason };
-        await syncDowntimeReason(deps, ticket, user.id, WAIT_STATE_REASON[input.waitReason], transaction);
+        await syncDowntimeReason(deps, ticket, user.id, WAIT_STATE_REASON[input.waitReason], transaction, input.note);
         break;
       case 'resume':
         ticket.waitReason = null;
