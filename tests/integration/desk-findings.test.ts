@@ -5,6 +5,8 @@ import { TestClient } from '../support/client';
 import { Ticket, TicketEvent } from '../../server/modules/tickets/ticket.model';
 import { User } from '../../server/modules/users/user.model';
 import { Area } from '../../server/modules/facility/facility.model';
+import { Notice } from '../../server/modules/notices/notice.model';
+import { OutboxMail } from '../../server/modules/mail/outbox.model';
 import { GENERIC_CAUTIONS, HAZARD_FIRST_STEPS, LIMITS_CAUTION } from '../../shared/hazard-cautions';
 import { createTool, drainOutbox, fileReport, jpegBytes, multipartReport, openState, reportBody } from './tickets-fixtures';
 
@@ -257,5 +259,58 @@ describe('stale words on the board', () => {
     const entry = await boardEntry();
     expect(entry.status).toBe('down');
     expect(entry.note ?? '').not.toContain('pressure gauge');
+  });
+});
+
+describe('notices without the flood', () => {
+  it('when a reporter who follows the tool sees one repair through, then they get one notice per step and no follower notices, and another follower hears only Down and back', async () => {
+    const { tool } = await createTool(server.deps.sequelize);
+    const { client: reporter, user: reporterUser } = await signedInClient(server.url, 'member');
+    const { client: watcher, user: watcherUser } = await signedInClient(server.url, 'member');
+    expect((await reporter.put(`/api/tools/${tool.id}/follow`)).status).toBe(200);
+    expect((await watcher.put(`/api/tools/${tool.id}/follow`)).status).toBe(200);
+    const t = await fileReport(reporter, tool.id, { impact: 'tool_stopped' });
+    const { client: tech } = await staffClient();
+    for (const step of [{ action: 'acknowledge' }, { action: 'wait', waitReason: 'parts', note: 'Gauge ordered' }, { action: 'resume' }, { action: 'fix', fixKind: 'failure', workDone: 'New gauge fitted', returnToService: true }]) {
+      expect((await act(tech, t.id, step)).status).toBe(200);
+    }
+    const mine = await Notice.findAll({ where: { userId: reporterUser.id }, order: [['id', 'ASC']] });
+    expect(mine.map((n) => n.kind)).toEqual(['ticket.acknowledged', 'ticket.waiting', 'ticket.in_repair', 'ticket.fixed']);
+    const theirs = await Notice.findAll({ where: { userId: watcherUser.id }, order: [['id', 'ASC']] });
+    expect(theirs.map((n) => n.title)).toEqual([expect.stringMatching(/is now Down$/), expect.stringMatching(/is now Running$/)]);
+    const watcherMail = await OutboxMail.findAll({ where: { toAddress: watcherUser.email } });
+    expect(watcherMail).toHaveLength(2);
+    expect(watcherMail.some((m) => /from Down to Down/.test(m.textBody))).toBe(false);
+  });
+
+  it('when several updates on one ticket come within the fold window, then the person gets one mail carrying all of them', async () => {
+    const folding = await startTestServer({ MAIL_FOLD_MS: '120000' }, { outboxWorker: false });
+    try {
+      const { tool } = await createTool(folding.deps.sequelize);
+      const { client: reporter, user: reporterUser } = await signedInClient(folding.url, 'member');
+      const t = await fileReport(reporter, tool.id, { impact: 'tool_stopped' });
+      const techUser = await createUser('technician');
+      const tech = new TestClient(folding.url);
+      await tech.signIn(techUser.email, TEST_PASSWORD);
+      for (const step of [{ action: 'acknowledge' }, { action: 'start_repair' }, { action: 'fix', fixKind: 'assist', workDone: 'Reset the controller', returnToService: true }]) {
+        const current = await tech.get(`/api/tickets/${t.id}`);
+        expect((await tech.post(`/api/tickets/${t.id}/actions`, { version: current.body.version, ...step })).status).toBe(200);
+      }
+      const rows = await OutboxMail.findAll({ where: { toAddress: reporterUser.email } });
+      expect(rows).toHaveLength(1);
+      expect(rows[0].nextAttemptAt.getTime()).toBeGreaterThan(Date.now());
+      // The window passes: the one mail goes out with every update in order.
+      await rows[0].update({ nextAttemptAt: new Date() });
+      await folding.worker.runOnce();
+      const mail = await folding.catcher.waitFor((m) => m.to.includes(reporterUser.email));
+      expect(mail.subject).toContain('(3 updates)');
+      const at = (s: string) => mail.text.indexOf(s);
+      expect(at('acknowledged your report')).toBeGreaterThan(-1);
+      expect(at('acknowledged your report')).toBeLessThan(at('The repair has started'));
+      expect(at('The repair has started')).toBeLessThan(at('The problem is fixed'));
+    } finally {
+      await drainOutbox(folding);
+      await folding.close();
+    }
   });
 });

@@ -95,7 +95,7 @@ describe('filing a report', () => {
     expect(detail.body.allowedActions).not.toContain('acknowledge');
   });
 
-  it('when a report names a hazard, then it is P1 and everyone on call gets an e-mail with the usual cautions at once', async () => {
+  it('when a report names a hazard, then it is P1 and everyone on call gets an e-mail with the cautions at once', async () => {
     const onCall = await createUser('technician', { onCall: true });
     onCallUsers.push(onCall.id);
     const { tool } = await createTool(server.deps.sequelize, { criticality: 'low' });

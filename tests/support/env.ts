@@ -21,6 +21,8 @@ export function testConfig(overrides: Record<string, string> = {}): Config {
       SESSION_SECRET: 'test-secret-test-secret-test-secret-0123',
       PORT: '0',
       OUTBOX_POLL_MS: '200',
+      // Mail goes out at once in tests; folding gets its own test.
+      MAIL_FOLD_MS: '0',
       // Every test signs in from 127.0.0.1; the per-address limit gets its own test.
       SIGNIN_MAX_FAILURES_PER_ADDRESS: '100000',
       UPLOAD_DIR: path.join(root, 'test-results/uploads'),

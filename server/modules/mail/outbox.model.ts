@@ -11,6 +11,8 @@ export class OutboxMail extends Model<InferAttributes<OutboxMail>, InferCreation
   declare nextAttemptAt: Date;
   declare lastError: string | null;
   declare sentAt: Date | null;
+  /** Pending mail with the same key, not yet due, takes later messages in (see queueMail). */
+  declare foldKey: CreationOptional<string | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -28,6 +30,7 @@ export function initOutboxModel(sequelize: Sequelize) {
       nextAttemptAt: { type: DataTypes.DATE(3), allowNull: false },
       lastError: { type: DataTypes.STRING(1000), allowNull: true },
       sentAt: { type: DataTypes.DATE(3), allowNull: true },
+      foldKey: { type: DataTypes.STRING(120), allowNull: true, defaultValue: null },
       createdAt: DataTypes.DATE(3),
       updatedAt: DataTypes.DATE(3),
     },

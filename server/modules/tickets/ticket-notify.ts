@@ -30,7 +30,13 @@ export async function notifyUsers(deps: AppDeps, n: Notification, transaction: T
   if (users.length === 0) return [];
   const link = ticketLink(deps, n.ticketId);
   await queueMail(
-    users.map((u) => ({ to: u.email, subject: n.title, text: `Hello ${u.name},\n\n${n.text}\n\nOpen the ticket: ${link}\n\n— Faultline` })),
+    users.map((u) => ({
+      to: u.email,
+      subject: n.title,
+      text: `Hello ${u.name},\n\n${n.text}\n\nOpen the ticket: ${link}\n\n— Faultline`,
+      // A burst of updates on one ticket reaches each person as one mail; safety mail never waits.
+      fold: n.kind === 'ticket.hazard' || n.kind === 'ticket.created' ? undefined : { key: `ticket:${n.ticketId}:user:${u.id}`, ms: deps.config.MAIL_FOLD_MS },
+    })),
     transaction,
   );
   await Notice.bulkCreate(
