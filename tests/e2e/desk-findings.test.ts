@@ -167,7 +167,9 @@ describe('the same draft in two tabs', () => {
     expect(await second.getByLabel(/^What happened\?/).inputValue()).toBe('Words from the first tab');
     await second.getByLabel(/^What happened\?/).fill('Words from the first tab, and more typed in the second tab');
     // The first tab now shows the second tab's words: neither will overwrite the other.
-    await expect.poll(() => first.getByLabel(/^What happened\?/).inputValue()).toBe('Words from the first tab, and more typed in the second tab');
+    await expect
+      .poll(() => first.getByLabel(/^What happened\?/).inputValue())
+      .toBe('Words from the first tab, and more typed in the second tab');
 
     await first.getByLabel(/^Still usable/).check();
     await first.getByLabel('Other', { exact: true }).check();
