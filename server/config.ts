@@ -66,6 +66,8 @@ const configSchema = z.object({
   MAIL_FROM: z.string().default('Faultline <faultline@facility.invalid>'),
   MAIL_CATCHER: bool.default(false),
   OUTBOX_POLL_MS: z.coerce.number().int().positive().default(2000),
+  /** Updates on one ticket to one person within this window go out as one mail (0: no folding). */
+  MAIL_FOLD_MS: z.coerce.number().int().min(0).default(180_000),
   OUTBOX_BASE_BACKOFF_MS: z.coerce.number().int().positive().default(2000),
   /** How long a worker's claim on outbox rows lasts without a heartbeat (a dead worker's rows return after it). */
   OUTBOX_LEASE_MS: z.coerce.number().int().positive().default(15_000),

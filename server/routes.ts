@@ -11,6 +11,7 @@ import { ticketRoutes } from './modules/tickets/tickets.routes';
 import { analyticsRoutes } from './modules/analytics/analytics.routes';
 import { alarmRoutes } from './modules/alarms/alarms.routes';
 import { maintenanceRoutes } from './modules/maintenance/maintenance.routes';
+import { settingsRoutes } from './modules/settings/settings.routes';
 
 export interface RouteOptions {
   log: Logger;
@@ -30,5 +31,6 @@ export function apiRoutes(opts: RouteOptions): RouteSpec[] {
     ...analyticsRoutes(),
     ...alarmRoutes(),
     ...maintenanceRoutes(),
+    ...settingsRoutes(),
   ];
 }

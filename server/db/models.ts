@@ -7,6 +7,7 @@ import { initNoticeModel } from '../modules/notices/notice.model';
 import { initTicketModels } from '../modules/tickets/ticket.model';
 import { initAlarmModels } from '../modules/alarms/alarms.model';
 import { initMaintenanceModels } from '../modules/maintenance/maintenance.model';
+import { initSettingsModel } from '../modules/settings/settings.model';
 
 /** Binds every model to the one Sequelize instance of this process. Order matters for associations. */
 export function initModels(sequelize: Sequelize) {
@@ -18,4 +19,5 @@ export function initModels(sequelize: Sequelize) {
   initTicketModels(sequelize);
   initAlarmModels(sequelize);
   initMaintenanceModels(sequelize);
+  initSettingsModel(sequelize);
 }

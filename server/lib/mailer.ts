@@ -9,6 +9,18 @@ export interface MailMessage {
   subject: string;
   text: string;
   html?: string;
+  /**
+   * Messages with the same key within `foldMs` become one mail: the first waits that long in
+   * the outbox, later ones are added to it (e.g. one person's updates on one ticket).
+   */
+  fold?: { key: string; ms: number };
+}
+
+/** How a folded mail reads: the latest subject, then every update, oldest first. */
+function foldInto(row: OutboxMail, m: MailMessage) {
+  const count = (row.textBody.match(/^— Update \d+ —$/gm) ?? []).length || 1;
+  const first = count === 1 ? `— Update 1 —\n${row.textBody}` : row.textBody;
+  return { subject: `${m.subject} (${count + 1} updates)`.slice(0, 255), textBody: `${first}\n\n— Update ${count + 1} —\n${m.text}` };
 }
 
 /**
@@ -16,9 +28,40 @@ export interface MailMessage {
  * change that caused it was committed. Nothing is sent here; the outbox worker sends.
  */
 export async function queueMail(messages: MailMessage | MailMessage[], transaction?: Transaction | null) {
-  const list = Array.isArray(messages) ? messages : [messages];
-  if (list.length === 0) return;
+  const all = Array.isArray(messages) ? messages : [messages];
+  if (all.length === 0) return;
   const now = new Date();
+  const list: MailMessage[] = [];
+  for (const m of all) {
+    if (!m.fold || m.fold.ms <= 0) {
+      list.push(m);
+      continue;
+    }
+    // Only a row still waiting well before its send time is joined, so the worker never
+    // claims a row while it grows.
+    const open = await OutboxMail.findOne({
+      where: { foldKey: m.fold.key, status: 'pending', attempts: 0, nextAttemptAt: { [Op.gt]: new Date(now.getTime() + 5_000) } },
+      order: [['id', 'DESC']],
+      lock: transaction ? transaction.LOCK.UPDATE : undefined,
+      transaction: transaction ?? undefined,
+    });
+    if (open) await open.update(foldInto(open, m), { transaction: transaction ?? undefined });
+    else
+      await OutboxMail.create(
+        {
+          toAddress: m.to,
+          subject: m.subject.slice(0, 255),
+          textBody: m.text,
+          htmlBody: m.html ?? null,
+          nextAttemptAt: new Date(now.getTime() + m.fold.ms),
+          lastError: null,
+          sentAt: null,
+          foldKey: m.fold.key,
+        },
+        { transaction: transaction ?? undefined },
+      );
+  }
+  if (list.length === 0) return;
   await OutboxMail.bulkCreate(
     list.map((m) => ({
       toAddress: m.to,

@@ -54,6 +54,7 @@ export const router = createBrowserRouter([
                   { path: 'admin/mail', lazy: () => import('@/app/routes/admin/mail') },
                   { path: 'admin/facility', lazy: () => import('@/app/routes/admin/facility') },
                   { path: 'admin/displays', lazy: () => import('@/app/routes/admin/displays') },
+                  { path: 'admin/settings', lazy: () => import('@/app/routes/admin/facility-settings') },
                 ],
               },
               // Pages for technicians or managers go in their own group, like the admin one:

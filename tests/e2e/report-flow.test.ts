@@ -103,7 +103,9 @@ describe('reporting a fault from a phone and fixing it', () => {
     await form.getByLabel(/^What was done/).fill('Re-seated the arm encoder cable and re-taught the transfer positions.');
     await form.getByLabel('Failure mode').fill('Transfer arm encoder');
     await form.getByLabel('Hands-on time (minutes)').fill('45');
-    expect(await form.getByLabel(/Return the tool to service now/).isChecked()).toBe(true);
+    // Returning to service is a deliberate tick, never the default.
+    expect(await form.getByLabel(/Return the tool to service now/).isChecked()).toBe(false);
+    await form.getByLabel(/Return the tool to service now/).check();
     await screenshot(staff.page, 'ticket-fix-form-desktop');
     await form.getByRole('button', { name: 'Mark fixed' }).click();
     await staff.page.locator('[data-testid="ticket-view"][data-ticket-status="fixed"]').waitFor();
@@ -182,7 +184,7 @@ describe('reporting a fault from a phone and fixing it', () => {
 });
 
 describe('safety and concurrent edits in the browser', () => {
-  it('when a member ticks a hazard, then the form shows the usual cautions before anything is sent', async () => {
+  it('when a member ticks a hazard, then the form shows the cautions before anything is sent', async () => {
     const member = await createUser('member');
     const { tool } = await createTool(server.deps.sequelize, { name: 'Wet bench (e2e)' });
     const { page } = await signedInPage(member.email, VIEWPORTS.phone);

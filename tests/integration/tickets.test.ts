@@ -119,7 +119,7 @@ describe('filing a report', () => {
     expect(detail.body.allowedActions).not.toContain('acknowledge');
   });
 
-  it('when a report names a hazard, then it is P1 and everyone on call gets an e-mail with the usual cautions at once', async () => {
+  it('when a report names a hazard, then it is P1 and everyone on call gets an e-mail with the cautions at once', async () => {
     const onCall = await createUser('technician', { onCall: true });
     onCallUsers.push(onCall.id);
     const { tool } = await createTool(server.deps.sequelize, { criticality: 'low' });
@@ -317,7 +317,17 @@ describe('the repair workflow', () => {
     });
 
     expect((await b.post(`/api/tickets/${second.body.id}/reports`, { description: 'more' })).status).toBe(409);
-    expect((await act(tech, first.id, { action: 'fix', fixKind: 'assist', workDone: 'Cleaned the chuck O-ring' })).status).toBe(200);
+    expect(
+      (
+        await act(tech, first.id, {
+          action: 'fix',
+          fixKind: 'assist',
+          workDone: 'Cleaned the chuck O-ring',
+          wafersRecovered: 1,
+          wafersReturned: 1,
+        })
+      ).status,
+    ).toBe(200);
     await sendMail();
     await server.catcher.waitFor((m) => m.to.includes(bUser.email) && m.subject.includes(`[#${first.id}] Fixed`));
   });

@@ -27,11 +27,11 @@ export const VIEWPORTS = {
 
 const shotsDir = path.join(projectRoot, 'test-results/screenshots');
 
-/** Saves a full-page screenshot as test-results/screenshots/<name>.png for people to look at. */
-export async function screenshot(page: Page, name: string) {
+/** Saves a screenshot (the full page unless told otherwise) as test-results/screenshots/<name>.png for people to look at. */
+export async function screenshot(page: Page, name: string, opts: { fullPage?: boolean } = {}) {
   fs.mkdirSync(shotsDir, { recursive: true });
   const file = path.join(shotsDir, `${name}.png`);
-  await page.screenshot({ path: file, fullPage: true });
+  await page.screenshot({ path: file, fullPage: opts.fullPage ?? true });
   return file;
 }
 

@@ -5,6 +5,7 @@ import { seedFacility } from './facility';
 import { seedTickets } from './tickets';
 import { seedAlarms } from './alarms';
 import { seedMaintenance } from './maintenance';
+import { seedSettings } from './settings';
 
 /**
  * The demo facility: invented people, tools and a year of history, generated from a fixed
@@ -19,6 +20,7 @@ export async function seedDemo(sequelize: Sequelize, now = new Date()): Promise<
     await seedTickets(transaction, people, now);
     await seedAlarms(transaction, facility, now);
     await seedMaintenance(sequelize, transaction, now);
+    await seedSettings(transaction);
   });
   return { seeded: true };
 }

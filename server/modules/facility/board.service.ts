@@ -9,6 +9,7 @@ import {
 } from '../../../shared/equipment-state';
 import { OPEN_STATUSES } from '../../../shared/ticket-workflow';
 import type { BoardData, BoardModule, BoardQuery, BoardTool, ToolCriticality } from '../../../shared/schemas/facility';
+import { matchesSearch } from '../../../shared/search';
 import { summarizeStatus } from './status-summary';
 import type { BoardToolChange } from '../../../shared/events';
 import type { AppDeps } from '../../lib/http';
@@ -192,12 +193,6 @@ function loadPlannedWindows(sequelize: Sequelize, toolIds: number[] | undefined,
   );
 }
 
-function matches(tool: BoardTool, q: string | undefined) {
-  if (!q) return true;
-  const needle = q.toLowerCase();
-  return tool.name.toLowerCase().includes(needle) || tool.code.toLowerCase().includes(needle);
-}
-
 /**
  * Everything the board shows, in one call. The whole facility is a bounded set (hundreds of
  * tools), and the status counts describe all of it, so filters apply after the roll-up:
@@ -211,7 +206,7 @@ export async function getBoard(sequelize: Sequelize, query: BoardQuery = {}): Pr
   for (const { tool, areaCode, areaName } of tools) {
     if (query.areaId && tool.areaId !== query.areaId) continue;
     if (query.status && tool.status !== query.status) continue;
-    if (!matches(tool, query.q)) continue;
+    if (!matchesSearch(query.q, [tool.code, tool.name, areaName])) continue;
     let area = areas.get(tool.areaId);
     if (!area) {
       area = { id: tool.areaId, code: areaCode, name: areaName, tools: [] };

@@ -50,15 +50,17 @@ export async function unfollowByToken(token: string) {
 const RUNNING: readonly E10State[] = ['productive', 'standby'];
 
 /**
- * Productive ↔ standby is the tool going busy or idle; both read Running, and telling
- * followers of every wafer lot would bury the changes they care about.
+ * Followers hear when the board's word for the tool changes (Down → Running, Running →
+ * Limited…). Productive ↔ standby is the tool going busy or idle, and a Down whose reason
+ * moves from repair to waiting is still Down: telling followers of those would bury the
+ * changes they care about ("changed from Down to Down").
  */
 export function isWorthTelling(change: StateChangeResult): boolean {
   const { previous, current } = change;
   if (!previous) return false;
-  const quietFlip =
-    RUNNING.includes(previous.state) && RUNNING.includes(current.state) && (previous.restriction ?? null) === (current.restriction ?? null);
-  return !quietFlip;
+  const sameWord = boardStatusOf(previous.state) === boardStatusOf(current.state);
+  const sameRestriction = (previous.restriction ?? null) === (current.restriction ?? null);
+  return !(sameWord && (sameRestriction || !RUNNING.includes(current.state)));
 }
 
 interface Follower {
@@ -67,6 +69,16 @@ interface Follower {
   email: string;
   name: string;
 }
+
+/**
+ * A change made by a ticket is told to that ticket's reporters by the ticket's own notices
+ * (acknowledged, fixed and back in service…); a reporter who also follows the tool is not
+ * told a second time.
+ */
+const TICKET_PEOPLE_EXCLUDED = `AND f.user_id NOT IN (
+  SELECT t.reporter_id FROM tickets t WHERE (t.id = :ticketId OR t.merged_into_id = :ticketId) AND t.reporter_id IS NOT NULL
+  UNION SELECT e.actor_id FROM ticket_events e JOIN tickets t ON t.id = e.ticket_id
+   WHERE (t.id = :ticketId OR t.merged_into_id = :ticketId) AND e.kind = 'added_report' AND e.actor_id IS NOT NULL)`;
 
 function formatTime(d: Date, timeZone: string) {
   return new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeStyle: 'short', timeZone }).format(d) + ` (${timeZone})`;
@@ -78,8 +90,13 @@ async function notifyFollowers(change: StateChangeResult, transaction: Transacti
   const followers = await deps.sequelize.query<Follower>(
     `SELECT f.user_id AS userId, f.unfollow_token AS token, u.email, u.name
        FROM tool_follows f JOIN users u ON u.id = f.user_id
-      WHERE f.tool_id = :toolId AND u.active = 1 ${current.setById ? 'AND f.user_id <> :actorId' : ''}`,
-    { type: QueryTypes.SELECT, replacements: { toolId: current.toolId, actorId: current.setById }, transaction },
+      WHERE f.tool_id = :toolId AND u.active = 1 ${current.setById ? 'AND f.user_id <> :actorId' : ''}
+        ${current.ticketId ? TICKET_PEOPLE_EXCLUDED : ''}`,
+    {
+      type: QueryTypes.SELECT,
+      replacements: { toolId: current.toolId, actorId: current.setById, ticketId: current.ticketId },
+      transaction,
+    },
   );
   if (followers.length === 0) return;
 

@@ -14,6 +14,8 @@ export class OutboxMail extends Model<InferAttributes<OutboxMail>, InferCreation
   declare sentAt: Date | null;
   /** When admins were told that this mail is late (once per mail). */
   declare warnedAt: CreationOptional<Date | null>;
+  /** Pending mail with the same key, not yet due, takes later messages in (see queueMail). */
+  declare foldKey: CreationOptional<string | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -32,6 +34,7 @@ export function initOutboxModel(sequelize: Sequelize) {
       lastError: { type: DataTypes.STRING(1000), allowNull: true },
       sentAt: { type: DataTypes.DATE(3), allowNull: true },
       warnedAt: { type: DataTypes.DATE(3), allowNull: true },
+      foldKey: { type: DataTypes.STRING(120), allowNull: true, defaultValue: null },
       createdAt: DataTypes.DATE(3),
       updatedAt: DataTypes.DATE(3),
     },

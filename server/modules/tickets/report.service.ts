@@ -5,7 +5,7 @@ import { User } from '../users/user.model';
 import { AppError, badRequest, forbidden } from '../../lib/errors';
 import { storePhotos, removePhotos, linkPhotos, type IncomingFile, type StoredPhoto } from '../../lib/uploads';
 import type { AppDeps, AuthUser } from '../../lib/http';
-import { appendEvent, applyStoppedReport } from './ticket-effects';
+import { appendEvent, applyLimitedReport, applyStoppedReport } from './ticket-effects';
 import { notifyOnCall, notifyUsers, ticketFollowers } from './ticket-notify';
 import { findTicket } from './ticket-query.service';
 import { announceBoardTools } from '../facility/board.service';
@@ -124,22 +124,36 @@ function reportFacts(
 
 const RESEND_WINDOW_MS = 3 * 24 * 60 * 60_000;
 
-/** The ticket this user already filed (or added to) with the same draft key, if any. */
+/**
+ * The ticket this user already filed (or added to) with the same draft key, if any. The same
+ * key with other words is not a resend but a second browser tab that held the same draft:
+ * refused, so that tab keeps its words instead of being thanked for the other tab's ticket.
+ */
 async function alreadySent(
   deps: AppDeps,
   userId: number,
   clientKey: string | null,
+  description: string,
   kind: 'reported' | 'added_report',
   transaction: Transaction,
 ): Promise<number | null> {
   if (!clientKey) return null;
-  const rows = await deps.sequelize.query<{ ticketId: number }>(
-    `SELECT e.ticket_id AS ticketId FROM ticket_events e
+  const rows = await deps.sequelize.query<{ ticketId: number; body: string | null }>(
+    `SELECT e.ticket_id AS ticketId, e.body FROM ticket_events e
       WHERE e.actor_id = :userId AND e.kind = :kind AND e.created_at > :since AND JSON_VALUE(e.data, '$.clientKey') = :clientKey
       LIMIT 1`,
     { replacements: { userId, kind, since: new Date(Date.now() - RESEND_WINDOW_MS), clientKey }, type: QueryTypes.SELECT, transaction },
   );
-  return rows.length ? Number(rows[0].ticketId) : null;
+  if (!rows.length) return null;
+  const ticketId = Number(rows[0].ticketId);
+  if ((rows[0].body ?? '') !== description) {
+    throw new AppError(
+      409,
+      'draft_sent_elsewhere',
+      `This draft was already sent from another tab or window as ticket #${ticketId}, with other words. Yours are kept here: send them as a new report if they describe something else.`,
+    );
+  }
+  return ticketId;
 }
 
 export async function createReport(deps: AppDeps, user: AuthUser, input: ReportData, files: readonly IncomingFile[]) {
@@ -150,7 +164,7 @@ export async function createReport(deps: AppDeps, user: AuthUser, input: ReportD
       // instead of deadlocking between the ticket insert and the state change.
       const locked = await Tool.findByPk(tool.id, { transaction, lock: transaction.LOCK.UPDATE });
       if (!locked || locked.retiredAt) throw badRequest('That tool cannot take reports.', { toolId: ['Unknown or retired tool.'] });
-      const earlier = await alreadySent(deps, user.id, input.clientKey, 'reported', transaction);
+      const earlier = await alreadySent(deps, user.id, input.clientKey, input.description, 'reported', transaction);
       if (earlier) throw new AlreadySent(earlier);
       const priority = computePriority({
         impact: input.impact,
@@ -214,6 +228,7 @@ export async function createReport(deps: AppDeps, user: AuthUser, input: ReportD
           transaction,
         );
       if (input.impact === 'tool_stopped') await applyStoppedReport(deps, ticket, locked, input.moduleId, user.id, transaction);
+      else if (input.impact === 'tool_limited') await applyLimitedReport(deps, ticket, locked, input.moduleId, user.id, transaction);
 
       const where = `${locked.name} (${locked.code})`;
       let alreadyTold: number[] = [];
@@ -272,7 +287,7 @@ export async function addReport(deps: AppDeps, user: AuthUser, ticketId: number,
     deps.sequelize.transaction(async (transaction) => {
       const tool = await Tool.findByPk(existing.toolId, { transaction, lock: transaction.LOCK.UPDATE });
       const ticket = await Ticket.findByPk(ticketId, { transaction, lock: transaction.LOCK.UPDATE });
-      const earlier = await alreadySent(deps, user.id, input.clientKey, 'added_report', transaction);
+      const earlier = await alreadySent(deps, user.id, input.clientKey, input.description, 'added_report', transaction);
       if (earlier) throw new AlreadySent(earlier);
       if (!tool || !ticket || !isOpenStatus(ticket.status))
         throw new AppError(409, 'ticket_not_open', 'This ticket closed in the meantime. Report the problem as a new one.');

@@ -1,9 +1,9 @@
-import type { Transaction } from 'sequelize';
+import { Op, type Transaction } from 'sequelize';
 import { Ticket, TicketEvent } from './ticket.model';
 import { StateInterval, type Tool } from '../facility/facility.model';
 import { changeState } from '../facility/state.service';
 import type { AppDeps } from '../../lib/http';
-import { E10_LABELS, type E10State, type StateReason } from '../../../shared/equipment-state';
+import { E10_LABELS, boardStatusOf, type E10State, type StateReason } from '../../../shared/equipment-state';
 
 /** Appends one timeline entry; the timeline is never edited afterwards. */
 export function appendEvent(
@@ -40,6 +40,8 @@ export interface StateStep {
   expectedReturnAt?: Date | null;
   source?: 'staff' | 'user_report' | 'alarm';
   confirmed?: boolean;
+  /** A restriction in force while the tool runs (the board reads Limited). */
+  restriction?: string | null;
 }
 
 /**
@@ -62,6 +64,7 @@ export async function changeStateForTicket(
       reason: step.reason,
       note: step.note ?? null,
       expectedReturnAt: step.expectedReturnAt ?? null,
+      restriction: step.restriction ?? null,
       ticketId: ticket.id,
       source: step.source ?? 'staff',
       confirmed: step.confirmed ?? true,
@@ -136,7 +139,67 @@ export async function applyStoppedReport(
   return true;
 }
 
-/** Open intervals this ticket holds down (tool and modules). */
+/**
+ * "Tool limited" makes the tool read Limited at once, marked as a user's report: the module
+ * named goes Down (so the tool reads Limited), or, for the whole tool, a restriction is put
+ * on its running state. A tool that is already not running, or already limited, is left
+ * as it is and the timeline says why.
+ */
+export async function applyLimitedReport(
+  deps: AppDeps,
+  ticket: Ticket,
+  tool: Tool,
+  moduleId: number | null,
+  actorId: number,
+  transaction: Transaction,
+) {
+  if (moduleId !== null) return applyStoppedReport(deps, ticket, tool, moduleId, actorId, transaction);
+  const open = await openInterval(tool.id, null, transaction);
+  if (!open || boardStatusOf(open.state) !== 'running' || open.restriction) {
+    const body = open?.restriction
+      ? 'Already limited; the state was left as it is.'
+      : `Already ${E10_LABELS[open?.state ?? 'standby'].toLowerCase()}; the state was left as it is.`;
+    await appendEvent(
+      ticket.id,
+      null,
+      'tool_state_unchanged',
+      {
+        data: {
+          moduleId: null,
+          state: open?.state ?? null,
+          since: open?.startedAt.toISOString() ?? null,
+          byTicketId: open?.ticketId ?? null,
+        },
+        body,
+      },
+      transaction,
+    );
+    return false;
+  }
+  const restriction = `Reported by a user: ${ticket.title}`.slice(0, 200);
+  await changeStateForTicket(
+    deps,
+    ticket,
+    actorId,
+    {
+      toolId: tool.id,
+      moduleId: null,
+      state: open.state,
+      reason: open.reason,
+      note: restriction,
+      restriction,
+      source: 'user_report',
+      confirmed: false,
+    },
+    transaction,
+  );
+  return true;
+}
+
+/** Open intervals this ticket holds down or limited (tool and modules). */
 export async function intervalsHeldBy(ticketId: number, transaction: Transaction) {
-  return StateInterval.findAll({ where: { ticketId, endedAt: null, state: 'unscheduled_downtime' }, transaction });
+  return StateInterval.findAll({
+    where: { ticketId, endedAt: null, [Op.or]: [{ state: 'unscheduled_downtime' }, { restriction: { [Op.ne]: null } }] },
+    transaction,
+  });
 }

@@ -3,7 +3,9 @@ import { User } from '../users/user.model';
 import { Notice } from '../notices/notice.model';
 import { queueMail } from '../../lib/mailer';
 import type { AppDeps } from '../../lib/http';
-import { HAZARD_CAUTIONS, HAZARD_LABELS, type Hazard } from '../../../shared/report-options';
+import { HAZARD_LABELS, type Hazard } from '../../../shared/report-options';
+import { cautionLines, cautionsFor } from '../../../shared/hazard-cautions';
+import { getFacilitySettings } from '../settings/settings.service';
 
 export const ticketLink = (deps: AppDeps, ticketId: number) => `${deps.config.publicUrl}/tickets/${ticketId}`;
 
@@ -28,7 +30,16 @@ export async function notifyUsers(deps: AppDeps, n: Notification, transaction: T
   if (users.length === 0) return [];
   const link = ticketLink(deps, n.ticketId);
   await queueMail(
-    users.map((u) => ({ to: u.email, subject: n.title, text: `Hello ${u.name},\n\n${n.text}\n\nOpen the ticket: ${link}\n\n— Faultline` })),
+    users.map((u) => ({
+      to: u.email,
+      subject: n.title,
+      text: `Hello ${u.name},\n\n${n.text}\n\nOpen the ticket: ${link}\n\n— Faultline`,
+      // A burst of updates on one ticket reaches each person as one mail; safety mail never waits.
+      fold:
+        n.kind === 'ticket.hazard' || n.kind === 'ticket.created'
+          ? undefined
+          : { key: `ticket:${n.ticketId}:user:${u.id}`, ms: deps.config.MAIL_FOLD_MS },
+    })),
     transaction,
   );
   await Notice.bulkCreate(
@@ -49,7 +60,7 @@ export async function notifyUsers(deps: AppDeps, n: Notification, transaction: T
   return users.map((u) => u.id);
 }
 
-/** A hazard goes to everyone on call at once, with the usual cautions in the message. */
+/** A hazard goes to everyone on call at once, with the cautions for what was named in the message. */
 export async function notifyOnCall(
   deps: AppDeps,
   input: {
@@ -64,6 +75,7 @@ export async function notifyOnCall(
 ) {
   const onCall = await User.findAll({ where: { onCall: true, active: true }, attributes: ['id'], transaction });
   const hazards = input.hazards.map((h) => HAZARD_LABELS[h].toLowerCase()).join(', ');
+  const cautions = cautionsFor(input.hazards, await getFacilitySettings(deps, transaction));
   return notifyUsers(
     deps,
     {
@@ -76,8 +88,8 @@ export async function notifyOnCall(
         '',
         input.description,
         '',
-        'The usual cautions:',
-        ...HAZARD_CAUTIONS.map((c) => `- ${c}`),
+        'Cautions:',
+        ...cautionLines(cautions),
       ].join('\n'),
       ticketId: input.ticketId,
     },

@@ -1,4 +1,4 @@
-import { Op, literal, type Transaction, type Includeable } from 'sequelize';
+import { Op, literal, where as where_, type Transaction, type WhereOptions, type Includeable } from 'sequelize';
 import { Ticket, TicketEvent, Photo, ServiceTarget } from './ticket.model';
 import { loadTimeline, timelineTicketIds } from './ticket-timeline.service';
 import { Tool, ToolModule, Area, StateInterval } from '../facility/facility.model';
@@ -24,6 +24,8 @@ import type {
   ServiceTargetView,
   ToolStateView,
 } from '../../../shared/schemas/tickets';
+import type { z } from 'zod';
+import { searchKey, sqlSearchKey } from '../../../shared/search';
 
 const person = (u: User | null | undefined) => (u ? { id: u.id, name: u.name } : null);
 const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
@@ -251,12 +253,20 @@ export async function listStaff(q: { search?: string; limit: number }) {
 
 /** Tools to pick on the report form (by search text, exact code from a QR label, or id). */
 export async function listToolChoices(query: { q?: string; code?: string; id?: number; limit: number }) {
-  const like = (s: string) => `%${s.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+  // The shared search rule (shared/search.ts) in SQL: code, name and bay name, ignoring case and separators.
+  const needle = query.q ? searchKey(query.q) : '';
+  const pattern = `%${needle.replace(/[\\%]/g, (c) => `\\${c}`)}%`;
   const where = {
     retiredAt: null,
     ...(query.id ? { id: query.id } : {}),
     ...(query.code ? { code: query.code.toUpperCase() } : {}),
-    ...(query.q ? { [Op.or]: [{ name: { [Op.like]: like(query.q) } }, { code: { [Op.like]: like(query.q) } }] } : {}),
+    ...(needle
+      ? {
+          [Op.or]: ['`Tool`.`code`', '`Tool`.`name`', '`area`.`name`'].map((column) =>
+            where_(literal(sqlSearchKey(column)), Op.like, pattern),
+          ),
+        }
+      : {}),
   };
   const tools = await Tool.findAll({
     where,

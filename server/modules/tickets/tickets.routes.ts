@@ -11,6 +11,7 @@ import { findVisiblePhoto, getTicketDetail, listServiceTargets, listStaff, listT
 import { listTickets } from './ticket-list.service';
 import { TIMELINE_PAGE, getTicketEvents } from './ticket-timeline.service';
 import { updateServiceTarget } from './service-targets.service';
+import { assertMayReadTicket, limitedToOwnReports } from './ticket-visibility';
 import {
   addReportInputSchema,
   commentInputSchema,
@@ -61,7 +62,8 @@ export function ticketRoutes(log: Logger, config: Config): RouteSpec[] {
       access: 'member',
       summary: 'Tickets, filtered and paginated in SQL (the queue, my reports, a tool’s tickets)',
       query: ticketListQuerySchema,
-      handle: ({ deps, user, query }) => listTickets(deps, user!, query),
+      handle: async ({ deps, user, query }) =>
+        listTickets(deps, user!, (await limitedToOwnReports(deps, user!)) ? { ...query, reportedByMe: true } : query),
     }),
     route({
       method: 'post',
@@ -79,7 +81,10 @@ export function ticketRoutes(log: Logger, config: Config): RouteSpec[] {
       access: 'member',
       summary: 'One ticket with its timeline (internal notes only for staff)',
       params: idParams,
-      handle: ({ deps, user, params }) => getTicketDetail(deps, user!, params.id),
+      handle: async ({ deps, user, params }) => {
+        await assertMayReadTicket(deps, user!, params.id);
+        return getTicketDetail(deps, user!, params.id);
+      },
     }),
     route({
       method: 'get',
@@ -99,7 +104,10 @@ export function ticketRoutes(log: Logger, config: Config): RouteSpec[] {
       before: [uploadLimit, slots, upload],
       body: z.preprocess(unwrapReportField, addReportInputSchema),
       status: 201,
-      handle: ({ deps, user, params, body, req }) => addReport(deps, user!, params.id, body, files(req)),
+      handle: async ({ deps, user, params, body, req }) => {
+        await assertMayReadTicket(deps, user!, params.id);
+        return addReport(deps, user!, params.id, body, files(req));
+      },
     }),
     route({
       method: 'post',
@@ -110,7 +118,10 @@ export function ticketRoutes(log: Logger, config: Config): RouteSpec[] {
       before: [commentLimit],
       body: commentInputSchema,
       status: 201,
-      handle: ({ deps, user, params, body }) => addComment(deps, user!, params.id, body),
+      handle: async ({ deps, user, params, body }) => {
+        await assertMayReadTicket(deps, user!, params.id);
+        return addComment(deps, user!, params.id, body);
+      },
     }),
     route({
       method: 'post',
@@ -120,6 +131,7 @@ export function ticketRoutes(log: Logger, config: Config): RouteSpec[] {
       params: idParams,
       body: ticketActionSchema,
       handle: async ({ deps, user, params, body, res }) => {
+        await assertMayReadTicket(deps, user!, params.id);
         try {
           return await performAction(deps, user!, params.id, body);
         } catch (error) {
@@ -139,6 +151,7 @@ export function ticketRoutes(log: Logger, config: Config): RouteSpec[] {
       params: photoParams,
       handle: async ({ deps, user, params, res }) => {
         const photo = await findVisiblePhoto(user!, params.id);
+        await assertMayReadTicket(deps, user!, photo.ticketId);
         sendPhoto(res, await readPhoto(deps.config, photo.storedName), photo.id);
         return undefined;
       },
@@ -151,6 +164,7 @@ export function ticketRoutes(log: Logger, config: Config): RouteSpec[] {
       params: photoParams,
       handle: async ({ deps, user, params, res }) => {
         const photo = await findVisiblePhoto(user!, params.id);
+        await assertMayReadTicket(deps, user!, photo.ticketId);
         sendPhoto(res, await readPhoto(deps.config, photo.thumbName), photo.id);
         return undefined;
       },

@@ -63,9 +63,22 @@ function checkPermission(user: AuthUser, ticket: Ticket, action: TicketActionDat
 }
 
 /** Keeps the reason of a Down held by this ticket in step with the ticket (repair or which delay). */
-async function syncDowntimeReason(deps: AppDeps, ticket: Ticket, actorId: number, reason: StateReason, transaction: Transaction) {
+/**
+ * The Down this ticket holds follows the workflow: its reason, and its note, which the board
+ * shows. A note belongs to the reason it was written for, so a new reason brings its own note
+ * (the wait's note, or none) instead of keeping words like "waiting for a gauge" after a resume.
+ */
+async function syncDowntimeReason(
+  deps: AppDeps,
+  ticket: Ticket,
+  actorId: number,
+  reason: StateReason,
+  transaction: Transaction,
+  note: string | null = null,
+) {
   for (const held of await intervalsHeldBy(ticket.id, transaction)) {
-    if (held.reason === reason) continue;
+    // A limited (restricted, still running) interval keeps its running reason.
+    if (held.state !== 'unscheduled_downtime' || held.reason === reason) continue;
     await changeStateForTicket(
       deps,
       ticket,
@@ -75,7 +88,7 @@ async function syncDowntimeReason(deps: AppDeps, ticket: Ticket, actorId: number
         moduleId: held.moduleId,
         state: 'unscheduled_downtime',
         reason,
-        note: held.note,
+        note,
         expectedReturnAt: held.expectedReturnAt,
         source: held.source === 'user_report' ? 'user_report' : 'staff',
         confirmed: held.confirmed,
@@ -139,7 +152,7 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
         ticket.waitReason = input.waitReason;
         statusNote = input.note;
         statusData = { waitReason: input.waitReason };
-        await syncDowntimeReason(deps, ticket, user.id, WAIT_STATE_REASON[input.waitReason], transaction);
+        await syncDowntimeReason(deps, ticket, user.id, WAIT_STATE_REASON[input.waitReason], transaction, input.note);
         break;
       case 'resume':
         ticket.waitReason = null;
@@ -148,6 +161,13 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
         await syncDowntimeReason(deps, ticket, user.id, 'repair', transaction);
         break;
       case 'fix': {
+        if (ticket.wafersCount > 0) {
+          // Wafers were reported in the tool: what became of them is asked, never assumed.
+          const fields: Record<string, string[]> = {};
+          if (input.wafersRecovered === null) fields.wafersRecovered = ['Say how many wafers were recovered (0 if none).'];
+          if (input.wafersReturned === null) fields.wafersReturned = ['Say how many wafers went back to their owner (0 if none).'];
+          if (Object.keys(fields).length) throw badRequest('Say what became of the wafers.', fields);
+        }
         Object.assign(ticket, {
           fixKind: input.fixKind,
           failureMode: input.failureMode,

@@ -12,6 +12,12 @@ interface AdminPage {
 
 // One line per admin page. Cards for pages not built yet stay hidden until `ready` flips.
 const ADMIN_PAGES: readonly AdminPage[] = [
+  {
+    to: '/admin/settings',
+    title: 'Facility settings',
+    text: 'Name, time zone, emergency number and local procedure shown with hazard cautions, and who may read tickets.',
+    ready: true,
+  },
   { to: '/admin/users', title: 'Users', text: 'Invite people, set roles and on-call duty, disable accounts.', ready: true },
   {
     to: '/admin/facility',

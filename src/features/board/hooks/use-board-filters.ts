@@ -1,3 +1,4 @@
+import { matchesSearch } from '@shared/search';
 import { useCallback, useEffect, useRef, useState } from 'react';
 import { useSearchParams } from 'react-router';
 import { BOARD_STATUSES, type BoardStatus } from '@shared/equipment-state';
@@ -65,16 +66,15 @@ export function useBoardFilters() {
   return { filters, setFilters };
 }
 
-function matches(tool: BoardTool, filters: BoardFilters): boolean {
+function matches(tool: BoardTool, areaName: string, filters: BoardFilters): boolean {
   if (filters.status && tool.status !== filters.status) return false;
   if (filters.areaId && tool.areaId !== filters.areaId) return false;
-  const q = filters.q.trim().toLowerCase();
-  return !q || tool.name.toLowerCase().includes(q) || tool.code.toLowerCase().includes(q);
+  return matchesSearch(filters.q, [tool.code, tool.name, areaName]);
 }
 
 /** The board's areas with only the tools that pass the filters; empty areas are dropped. */
 export function filterBoard(data: BoardData, filters: BoardFilters): BoardArea[] {
   return data.areas
-    .map((area) => ({ ...area, tools: area.tools.filter((t) => matches(t, filters)) }))
+    .map((area) => ({ ...area, tools: area.tools.filter((t) => matches(t, area.name, filters)) }))
     .filter((area) => area.tools.length > 0);
 }

@@ -1,15 +1,8 @@
 import { useEffect, useId, useRef, type FormEvent } from 'react';
+import type { Hazard } from '@shared/report-options';
+import { HazardCautions } from '@/components/hazard-cautions';
 import { useNavigate } from 'react-router';
-import {
-  CATEGORY_LABELS,
-  HAZARDS,
-  HAZARD_CAUTIONS,
-  HAZARD_LABELS,
-  IMPACTS,
-  IMPACT_HELP,
-  IMPACT_LABELS,
-  TICKET_CATEGORIES,
-} from '@shared/report-options';
+import { CATEGORY_LABELS, HAZARDS, HAZARD_LABELS, IMPACTS, IMPACT_HELP, IMPACT_LABELS, TICKET_CATEGORIES } from '@shared/report-options';
 import { WAFER_RECOVERABLE, WAFER_RECOVERABLE_LABELS, type ToolChoice } from '@shared/schemas/tickets';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
@@ -24,18 +17,6 @@ import { CheckCards, RadioCards } from '@/features/report/components/choice-card
 import { ToolPicker } from '@/features/report/components/tool-picker';
 import { PhotoPicker } from '@/features/report/components/photo-picker';
 import { DuplicateList } from '@/features/report/components/duplicate-list';
-
-function Cautions() {
-  return (
-    <Alert tone="danger" live title="Safety first — the usual cautions">
-      <ul className="list-disc space-y-1 pl-5" data-testid="hazard-cautions">
-        {HAZARD_CAUTIONS.map((line) => (
-          <li key={line}>{line}</li>
-        ))}
-      </ul>
-    </Alert>
-  );
-}
 
 function WaferStepper({ value, onChange }: { value: number; onChange: (n: number) => void }) {
   const id = useId();
@@ -106,7 +87,7 @@ function ChosenTool({ tool, onChange }: { tool: { name: string; code: string; ar
  */
 export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCode: string | null; addTo: number | null }) {
   const navigate = useNavigate();
-  const { draft, update, photos, addPhotos, removePhoto, discard, restored, photoStore } = useReportDraft(userId);
+  const { draft, update, photos, addPhotos, removePhoto, discard, restored, photoStore, endedElsewhere } = useReportDraft(userId);
   const code = toolCode?.trim().toUpperCase() || null;
   const hasContent = draftHasContent(draft, photos.length);
   const otherToolDraft = Boolean(code && draft.toolCode && draft.toolCode !== code && hasContent);
@@ -115,7 +96,10 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
   const byCode = useToolChoices({ code: code ?? undefined }, Boolean(code) && draft.toolCode !== code);
   const applyTool = (tool: ToolChoice, keep = true) =>
     update({ toolId: tool.id, toolCode: tool.code, toolName: tool.name, moduleId: null, addToTicketId: keep ? draft.addToTicketId : null });
-  const lookedUp = byCode.data?.items[0];
+  // Only a tool whose code was in the address may fill the form: the lookup's cache entry (and its
+  // placeholder) is shared with the search list, so without this check the first tool of any
+  // list would be picked by itself.
+  const lookedUp = code ? byCode.data?.items.find((t) => t.code.toUpperCase() === code) : undefined;
   useEffect(() => {
     if (lookedUp && !otherToolDraft && draft.toolId !== lookedUp.id)
       update({ toolId: lookedUp.id, toolCode: lookedUp.code, toolName: lookedUp.name, moduleId: null });
@@ -146,6 +130,23 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
     triedOnLoad.current = true;
     void send();
   }, [draft.pending, photoStore, send]);
+
+  // A newly ticked hazard brings its cautions into view at once: on a phone they would
+  // otherwise sit below the fold, under the boxes just tapped.
+  const cautionsRef = useRef<HTMLDivElement>(null);
+  const revealCautions = useRef(false);
+  const tickHazards = (next: Hazard[]) => {
+    revealCautions.current = next.some((h) => !draft.hazards.includes(h));
+    update({ hazards: next });
+  };
+  useEffect(() => {
+    const el = cautionsRef.current;
+    if (!revealCautions.current || !el) return;
+    revealCautions.current = false;
+    const top = el.getBoundingClientRect().top;
+    // Leave the last boxes in sight above the cautions, so a second tick stays one tap away.
+    if (top < 0 || top > window.innerHeight * 0.45) window.scrollBy({ top: top - window.innerHeight * 0.3 });
+  }, [draft.hazards]);
 
   const busy = state === 'sending';
   const adding = draft.addToTicketId !== null;
@@ -179,7 +180,21 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
           is back. You can close this page.
         </Alert>
       )}
-      {restored && hasContent && state !== 'waiting' && !otherToolDraft && (
+      {endedElsewhere && (
+        <Alert
+          tone="info"
+          live
+          title="This draft was sent or discarded in another tab"
+          actions={
+            <Button variant="secondary" onClick={() => navigate('/my-reports')}>
+              See my reports
+            </Button>
+          }
+        >
+          Both tabs showed the same words, so nothing you typed here was lost. The form is empty for a new report.
+        </Alert>
+      )}
+      {restored && hasContent && state !== 'waiting' && !otherToolDraft && !endedElsewhere && (
         <Alert
           tone="info"
           title="Your unsent report is back"
@@ -267,6 +282,16 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
         )
       )}
 
+      <CheckCards
+        legend="Is anyone or anything in danger?"
+        hint="Tick what applies. Staff on call are alerted at once."
+        tone="danger"
+        choices={HAZARDS.map((h) => ({ value: h, label: HAZARD_LABELS[h] }))}
+        values={draft.hazards}
+        onChange={tickHazards}
+      />
+      {draft.hazards.length > 0 && <HazardCautions ref={cautionsRef} hazards={draft.hazards} live className="scroll-mt-20" />}
+
       <TextAreaBig
         label="What happened?"
         required
@@ -294,7 +319,12 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
         choices={IMPACTS.map((i) => ({
           value: i,
           label: IMPACT_LABELS[i],
-          help: i === 'tool_stopped' ? `${IMPACT_HELP[i]} It will show as Down on the board at once.` : IMPACT_HELP[i],
+          help:
+            i === 'tool_stopped'
+              ? `${IMPACT_HELP[i]} It will show as Down on the board at once.`
+              : i === 'tool_limited'
+                ? `${IMPACT_HELP[i]} It will show as Limited on the board at once.`
+                : IMPACT_HELP[i],
         }))}
         value={draft.impact}
         onChange={(v) => update({ impact: v })}
@@ -354,16 +384,6 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
           </>
         )}
       </div>
-
-      <CheckCards
-        legend="Is anyone or anything in danger?"
-        hint="Tick what applies. Staff on call are alerted at once."
-        tone="danger"
-        choices={HAZARDS.map((h) => ({ value: h, label: HAZARD_LABELS[h] }))}
-        values={draft.hazards}
-        onChange={(v) => update({ hazards: v })}
-      />
-      {draft.hazards.length > 0 && <Cautions />}
 
       <PhotoPicker
         photos={photos}

@@ -33,11 +33,12 @@ export interface DraftPhoto {
   url: string;
 }
 
-const newKey = () => (crypto.randomUUID ? crypto.randomUUID() : `${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 14)}`);
+export const newDraftKey = () =>
+  crypto.randomUUID ? crypto.randomUUID() : `${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 14)}`;
 
 export function emptyDraft(): ReportDraft {
   return {
-    clientKey: newKey(),
+    clientKey: newDraftKey(),
     toolId: null,
     toolCode: null,
     toolName: null,
@@ -111,11 +112,44 @@ export function useReportDraft(userId: number) {
     }
   }, [draft, userId]);
 
-  const update = useCallback((change: Partial<ReportDraft>) => setDraft((d) => ({ ...d, ...change, updatedAt: Date.now() })), []);
+  // Another tab of the same browser editing the draft: take its newer version, so both tabs
+  // show the same words and neither overwrites the other's with an older copy.
+  // When that tab sends or discards the draft, this one says so instead of going blank.
+  const [endedElsewhere, setEndedElsewhere] = useState(false);
+  const current = useRef(draft);
+  current.current = draft;
+  useEffect(() => {
+    const onStorage = (e: StorageEvent) => {
+      if (e.key !== draftKey(userId)) return;
+      if (e.newValue === null) {
+        // Sent or discarded over there: the words were the same here, so start afresh and say so.
+        const had = draftHasContent(current.current, 0);
+        setEndedElsewhere(had);
+        if (had) setDraft(emptyDraft());
+        return;
+      }
+      try {
+        const theirs = { ...emptyDraft(), ...(JSON.parse(e.newValue) as Partial<ReportDraft>) };
+        const mine = current.current;
+        if (theirs.updatedAt <= mine.updatedAt) return;
+        if (theirs.clientKey !== mine.clientKey && draftHasContent(mine, 0)) setEndedElsewhere(true);
+        setDraft(theirs);
+      } catch {
+        // A malformed value from elsewhere is ignored; this tab keeps its own draft.
+      }
+    };
+    window.addEventListener('storage', onStorage);
+    return () => window.removeEventListener('storage', onStorage);
+  }, [userId]);
+
+  const update = useCallback((change: Partial<ReportDraft>) => {
+    setEndedElsewhere(false);
+    setDraft((d) => ({ ...d, ...change, updatedAt: Date.now() }));
+  }, []);
 
   const addPhotos = useCallback(
     async (files: File[]) => {
-      const added = files.map((f) => ({ id: newKey(), name: f.name || 'photo.jpg', blob: f as Blob, url: URL.createObjectURL(f) }));
+      const added = files.map((f) => ({ id: newDraftKey(), name: f.name || 'photo.jpg', blob: f as Blob, url: URL.createObjectURL(f) }));
       urls.current.push(...added.map((p) => p.url));
       setPhotos((old) => [...old, ...added]);
       await Promise.all(added.map((p) => saveDraftPhoto(userId, p).catch(() => setPhotoStore('unavailable'))));
@@ -138,5 +172,5 @@ export function useReportDraft(userId: number) {
     await clearDraftPhotos(userId).catch(() => undefined);
   }, [userId]);
 
-  return { draft, update, photos, addPhotos, removePhoto, discard, restored, photoStore };
+  return { draft, update, photos, addPhotos, removePhoto, discard, restored, photoStore, endedElsewhere };
 }

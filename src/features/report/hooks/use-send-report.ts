@@ -2,7 +2,7 @@ import { useCallback, useEffect, useRef, useState } from 'react';
 import { addReportInputSchema, reportInputSchema, type AddReportInput, type ReportInput } from '@shared/schemas/tickets';
 import { isApiError } from '@/lib/api-client';
 import { addReport, createReport, type SentReport } from '@/features/report/api/send-report';
-import type { DraftPhoto, ReportDraft } from '@/features/report/hooks/use-report-draft';
+import { newDraftKey, type DraftPhoto, type ReportDraft } from '@/features/report/hooks/use-report-draft';
 
 export type SendState = 'idle' | 'sending' | 'waiting' | 'failed';
 
@@ -98,7 +98,10 @@ export function useSendReport(opts: {
         update({ pending: true });
       } else {
         setState('failed');
-        update({ pending: false });
+        // Another tab sent this draft with other words: these words become a draft of their own.
+        update(
+          isApiError(error) && error.code === 'draft_sent_elsewhere' ? { pending: false, clientKey: newDraftKey() } : { pending: false },
+        );
         setMessage(error instanceof Error ? error.message : 'The report could not be sent.');
         if (isApiError(error) && error.fields) setFields(error.fields);
       }

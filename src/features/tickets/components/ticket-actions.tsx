@@ -77,6 +77,9 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
 
   const buttons: ReactNode[] = [];
   if (allowed.has('confirm_down')) {
+    // A "tool limited" report holds a restriction on a running tool rather than a Down.
+    const held = ticket.toolStates.find((s) => s.ticketId === ticket.id && s.source === 'user_report' && !s.confirmed);
+    const word = held && held.state !== 'unscheduled_downtime' ? 'Limited' : 'Down';
     buttons.push(
       <Button
         key="confirm_down"
@@ -85,7 +88,7 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
         busy={action.isPending && action.variables?.action === 'confirm_down'}
         onClick={() => send({ action: 'confirm_down' }, ticket)}
       >
-        Confirm it is Down
+        Confirm it is {word}
       </Button>,
       <Button
         key="revert_down"
@@ -94,7 +97,7 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
         busy={action.isPending && action.variables?.action === 'revert_down'}
         onClick={() => send({ action: 'revert_down', note: null }, ticket)}
       >
-        Not down: revert
+        Not {word.toLowerCase()}: revert
       </Button>,
     );
   }
@@ -214,14 +217,15 @@ function ActionForm({
   const [values, setValues] = useState<Record<string, string | boolean>>(() => ({
     waitReason: 'parts',
     fixKind: 'failure',
-    returnToService: seen.toolStates.some((s) => s.ticketId === seen.id && s.state === 'unscheduled_downtime'),
+    // Returning the tool to service and the wafer outcomes are answers, never assumptions.
+    returnToService: false,
     priority: seen.priority,
     assigneeId: seen.assignee ? String(seen.assignee.id) : '',
     state: 'unscheduled_downtime',
     moduleId: seen.module ? String(seen.module.id) : '',
     reason: '',
-    wafersRecovered: seen.wafersCount ? String(seen.wafersCount) : '',
-    wafersReturned: seen.wafersCount ? String(seen.wafersCount) : '',
+    wafersRecovered: '',
+    wafersReturned: '',
   }));
   const v = (k: string) => String(values[k] ?? '');
   const set = (k: string) => (e: { target: { value: string } }) => setValues((old) => ({ ...old, [k]: e.target.value }));

@@ -242,11 +242,15 @@ function EventList({ events, modules }: { events: TicketEventView[]; modules: Mo
                   ))}
                 </ul>
               )}
+              {/* The expected return belongs to the new state, so it never sits on the "Before" line. */}
+              {e.kind === 'tool_state' && d.expectedReturnAt && (
+                <p className="mt-1 text-sm text-ink" data-testid="expected-back">
+                  Expected back <RelativeTime value={d.expectedReturnAt} />
+                </p>
+              )}
               {e.kind === 'tool_state' && d.from && (
-                <p className="mt-1 text-xs text-muted">
+                <p className="mt-1 text-xs text-muted" data-testid="state-before">
                   Before: {BOARD_LABELS[boardStatusOf(d.from.state as E10State)]} ({E10_LABELS[d.from.state as E10State]})
-                  {d.expectedReturnAt ? ' · expected back ' : ''}
-                  {d.expectedReturnAt && <RelativeTime value={d.expectedReturnAt} />}
                 </p>
               )}
             </div>

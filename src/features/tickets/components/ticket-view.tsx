@@ -9,7 +9,7 @@ import { RelativeTime } from '@/components/ui/relative-time';
 import { StateBadge } from '@/components/ui/state-badge';
 import { buttonClasses } from '@/components/ui/button';
 import { HazardChips, PriorityBadge, TicketStatusBadge } from '@/features/tickets/components/ticket-chips';
-import { HazardCautions } from '@/features/tickets/components/hazard-cautions';
+import { HazardCautions } from '@/components/hazard-cautions';
 import { TargetClock } from '@/features/tickets/components/target-clock';
 import { TicketTimeline } from '@/features/tickets/components/ticket-timeline';
 import { TicketActions } from '@/features/tickets/components/ticket-actions';
@@ -77,7 +77,7 @@ export function TicketView({ ticket }: { ticket: TicketDetail }) {
         </Alert>
       )}
 
-      {ticket.hazards.length > 0 && <HazardCautions />}
+      {ticket.hazards.length > 0 && <HazardCautions hazards={ticket.hazards} />}
 
       <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_22rem]">
         <div className="order-2 flex min-w-0 flex-col gap-6 lg:order-1">

@@ -1,0 +1,183 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser, BrowserContext } from 'playwright-core';
+import { freePort, startTestServer, type TestServer } from '../support/server';
+import { createUser, TEST_PASSWORD } from '../support/factories';
+import { launchBrowser, screenshot, signInThroughPage, VIEWPORTS } from '../support/browser';
+import { createTool, drainOutbox, fileReport } from '../integration/tickets-fixtures';
+import { TestClient } from '../support/client';
+import { Ticket } from '../../server/modules/tickets/ticket.model';
+
+// What people at the tools and at the desk ran into, checked in Chromium at phone and desktop
+// width.
+
+let server: TestServer;
+let browser: Browser;
+const contexts: BrowserContext[] = [];
+
+beforeAll(async () => {
+  const port = await freePort();
+  server = await startTestServer({ PORT: String(port), PUBLIC_URL: `http://127.0.0.1:${port}` }, { serveClient: true });
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  for (const c of contexts) await c.close().catch(() => undefined);
+  await browser?.close();
+  if (server) await drainOutbox(server);
+  await server?.close();
+});
+
+async function signedInPage(email: string, viewport: { width: number; height: number }) {
+  const context = await browser.newContext({ viewport });
+  contexts.push(context);
+  const page = await context.newPage();
+  await signInThroughPage(page, server.url, email, TEST_PASSWORD);
+  await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'));
+  return { context, page };
+}
+
+async function memberClient() {
+  const user = await createUser('member');
+  const client = new TestClient(server.url);
+  await client.signIn(user.email, TEST_PASSWORD);
+  return { user, client };
+}
+
+describe('a report opened without a tool', () => {
+  it('when the form is opened from the menu, then no tool is chosen and "Change tool" does not pick one again', async () => {
+    const member = await createUser('member');
+    const { tool } = await createTool(server.deps.sequelize, { name: 'Plasma asher (e2e)' });
+    const { page } = await signedInPage(member.email, VIEWPORTS.phone);
+    await page.goto(`${server.url}/report`);
+    await page.getByRole('list', { name: 'Matching tools' }).waitFor();
+    // Give a wrongly chosen tool every chance to appear.
+    await page.waitForTimeout(1200);
+    expect(await page.getByTestId('chosen-tool').count()).toBe(0);
+    expect(await page.getByLabel(/^Which tool\?/).isVisible()).toBe(true);
+    await screenshot(page, 'report-no-tool-phone');
+
+    await page.getByLabel(/^Which tool\?/).fill(tool.code);
+    await page.getByRole('list', { name: 'Matching tools' }).getByRole('button').filter({ hasText: tool.code }).click();
+    await page.getByTestId('chosen-tool').waitFor();
+    await page.getByRole('button', { name: 'Change tool' }).click();
+    await page.waitForTimeout(1200);
+    expect(await page.getByTestId('chosen-tool').count()).toBe(0);
+  });
+});
+
+describe('marking a ticket fixed in the browser', () => {
+  it('when a technician opens "Mark fixed", then "return to service" is not ticked and the wafer outcomes are empty', async () => {
+    const tech = await createUser('technician');
+    const { tool } = await createTool(server.deps.sequelize, { name: 'Anneal furnace (e2e)' });
+    const { client } = await memberClient();
+    const t = await fileReport(client, tool.id, { impact: 'tool_stopped', wafersCount: 4 });
+    const { page } = await signedInPage(tech.email, VIEWPORTS.desktop);
+    await page.goto(`${server.url}/tickets/${t.id}`);
+    await page.getByTestId('ticket-view').waitFor();
+    await page.getByRole('button', { name: 'Mark fixed', exact: true }).first().click();
+    const form = page.getByRole('form', { name: 'Mark fixed' });
+    expect(await form.getByLabel(/Return the tool to service now/).isChecked()).toBe(false);
+    expect(await form.getByLabel(/^Wafers recovered/).inputValue()).toBe('');
+    expect(await form.getByLabel(/^Wafers returned/).inputValue()).toBe('');
+    await screenshot(page, 'ticket-fix-defaults-desktop');
+  });
+});
+
+describe('hazard reports', () => {
+  it('when an admin sets the emergency number and procedure, then a member who ticks "Someone is hurt" on a phone sees cautions for an injury at once, with that number, and the limits line last', async () => {
+    const admin = await createUser('admin');
+    const adminApi = new TestClient(server.url);
+    await adminApi.signIn(admin.email, TEST_PASSWORD);
+    const before = (await adminApi.get('/api/facility-settings')).body;
+    try {
+      // Admin → Facility settings, at desktop width; a bad time zone is shown on its field.
+      const desk = await signedInPage(admin.email, VIEWPORTS.desktop);
+      await desk.page.goto(`${server.url}/admin`);
+      await desk.page.getByRole('link', { name: /Open facility settings/ }).click();
+      const form = desk.page.getByRole('form', { name: 'Facility settings' });
+      await form.getByLabel(/^Facility name/).fill('Test cleanroom (fictional)');
+      await form.getByLabel(/^Time zone/).fill('Nowhere/Atlantis');
+      await form.getByLabel(/^Emergency number/).fill('4444');
+      await form.getByLabel(/^Local procedure/).fill('Assembly point: the north car park.');
+      await form.getByRole('button', { name: 'Save settings' }).click();
+      await form.getByText(/Enter a time zone such as/).waitFor();
+      expect(await desk.page.evaluate(() => (document.activeElement as HTMLInputElement | null)?.value)).toBe('Nowhere/Atlantis');
+      await screenshot(desk.page, 'facility-settings-error-desktop');
+      await form.getByLabel(/^Time zone/).fill('Europe/Lisbon');
+      await form.getByRole('button', { name: 'Save settings' }).click();
+      await form.getByText('The new settings apply at once.').waitFor();
+      expect((await adminApi.get('/api/facility-settings')).body).toMatchObject({
+        facilityName: 'Test cleanroom (fictional)',
+        timeZone: 'Europe/Lisbon',
+        emergencyNumber: '4444',
+      });
+      await screenshot(desk.page, 'facility-settings-desktop');
+
+      const member = await createUser('member');
+      const { tool } = await createTool(server.deps.sequelize, { name: 'Wet bench acids (e2e)' });
+      const { page } = await signedInPage(member.email, VIEWPORTS.phone);
+      await page.goto(`${server.url}/report?tool=${tool.code}`);
+      await page.getByTestId('chosen-tool').waitFor();
+      // The danger question comes before the description.
+      const dangerY = (await page.getByText('Is anyone or anything in danger?').boundingBox())!.y;
+      const whatY = (await page.getByLabel(/^What happened\?/).boundingBox())!.y;
+      expect(dangerY).toBeLessThan(whatY);
+
+      await page.getByText('Is anyone or anything in danger?').evaluate((el) => el.scrollIntoView({ block: 'start' }));
+      await page.getByLabel('Someone is hurt').check();
+      const cautions = page.getByTestId('hazard-cautions');
+      await cautions.waitFor();
+      // Where the user is looking: the cautions' number and first steps are on screen now.
+      const inView = async (locator: ReturnType<typeof page.locator>) => {
+        const box = (await locator.boundingBox())!;
+        return box.y >= 0 && box.y + box.height <= VIEWPORTS.phone.height;
+      };
+      await expect.poll(() => inView(page.getByTestId('emergency-number'))).toBe(true);
+      expect(await inView(cautions.locator('[data-hazard="injury"]'))).toBe(true);
+      expect(await page.getByTestId('emergency-number').innerText()).toContain('4444');
+      expect(await page.getByTestId('local-procedure').innerText()).toContain('Assembly point: the north car park.');
+      const text = await cautions.innerText();
+      expect(text).toContain('Call for help on the emergency number');
+      expect(text).not.toContain('Step back from the smell');
+      expect(text).not.toMatch(/usual cautions/i);
+      const lines = await cautions.getByTestId('caution-lines').locator('li').allInnerTexts();
+      expect(lines[lines.length - 1]).toMatch(/does not replace the facility's alarm systems/);
+      await screenshot(page, 'report-hazard-injury-phone', { fullPage: false });
+
+      // Ticking a second hazard adds its own first steps.
+      await page.getByLabel('Unusual smell').check();
+      await cautions.locator('[data-hazard="smell"]').waitFor();
+    } finally {
+      await adminApi.put('/api/admin/facility-settings', before);
+    }
+  });
+});
+
+describe('the same draft in two tabs', () => {
+  it('when a member types in a second tab and sends from the first, then both tabs held the same words and the second tab says the draft went elsewhere', async () => {
+    const member = await createUser('member');
+    const { tool } = await createTool(server.deps.sequelize, { name: 'Oxidation furnace (e2e)' });
+    const { context, page: first } = await signedInPage(member.email, VIEWPORTS.desktop);
+    await first.goto(`${server.url}/report?tool=${tool.code}`);
+    await first.getByTestId('chosen-tool').waitFor();
+    await first.getByLabel(/^What happened\?/).fill('Words from the first tab');
+
+    const second = await context.newPage();
+    await second.goto(`${server.url}/report`);
+    await second.getByTestId('chosen-tool').waitFor();
+    expect(await second.getByLabel(/^What happened\?/).inputValue()).toBe('Words from the first tab');
+    await second.getByLabel(/^What happened\?/).fill('Words from the first tab, and more typed in the second tab');
+    // The first tab now shows the second tab's words: neither will overwrite the other.
+    await expect
+      .poll(() => first.getByLabel(/^What happened\?/).inputValue())
+      .toBe('Words from the first tab, and more typed in the second tab');
+
+    await first.getByLabel(/^Still usable/).check();
+    await first.getByLabel('Other', { exact: true }).check();
+    await first.getByRole('button', { name: 'Send report' }).click();
+    await first.waitForURL(/\/tickets\/\d+$/);
+    await second.getByText('This draft was sent or discarded in another tab').waitFor();
+    await screenshot(second, 'report-two-tabs-desktop');
+    const sent = await Ticket.findAll({ where: { toolId: tool.id } });
+    expect(sent.map((t) => t.description)).toEqual(['Words from the first tab, and more typed in the second tab']);
+  });
+});
