@@ -68,7 +68,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     events,
     log,
     verifyDisplayKey,
-    mayWatchTicket: mayViewTicket,
+    mayWatchTicket: (user, ticketId) => mayViewTicket(deps, user, ticketId),
     adapter: redis?.adapter,
   });
 

@@ -1,6 +1,7 @@
 import { Op, literal, where as where_, type Transaction, type WhereOptions, type Includeable } from 'sequelize';
 import { Ticket, TicketEvent, Photo, ServiceTarget } from './ticket.model';
 import { loadTimeline, timelineTicketIds } from './ticket-timeline.service';
+import { assertMayReadTicket } from './ticket-visibility';
 import { Tool, ToolModule, Area, StateInterval } from '../facility/facility.model';
 import { User } from '../users/user.model';
 import { notFound } from '../../lib/errors';
@@ -154,11 +155,16 @@ export async function openToolStates(toolId: number, transaction?: Transaction):
 }
 
 /**
- * Whether this user may see the ticket: its page, and so its socket room. Every signed-in user
- * may read every ticket by id (getTicketDetail filters what a member sees inside it).
+ * Whether this user may see the ticket: its page, and so its socket room. The same rule as the
+ * ticket API (ticket-visibility.ts: everyone, or members only their own reports when the
+ * facility says so); getTicketDetail filters what a member sees inside it.
  */
-export async function mayViewTicket(_user: AuthUser, id: number): Promise<boolean> {
-  return (await Ticket.count({ where: { id } })) > 0;
+export async function mayViewTicket(deps: AppDeps, user: AuthUser, id: number): Promise<boolean> {
+  if ((await Ticket.count({ where: { id } })) === 0) return false;
+  return assertMayReadTicket(deps, user, id).then(
+    () => true,
+    () => false,
+  );
 }
 
 export async function getTicketDetail(deps: AppDeps, user: AuthUser, id: number): Promise<TicketDetail> {
