@@ -39,6 +39,10 @@ const configSchema = z.object({
   OUTBOX_POLL_MS: z.coerce.number().int().positive().default(2000),
   OUTBOX_BASE_BACKOFF_MS: z.coerce.number().int().positive().default(2000),
 
+  /** Who runs this server, for push services (VAPID subject: a mailto: or https: address). */
+  PUSH_SUBJECT: z.string().regex(/^(mailto:|https:)/).default('mailto:faultline@facility.invalid'),
+  /** A PEM file of extra certificate authorities to trust for push services (a local fake's). */
+  PUSH_CA_FILE: z.string().optional(),
   UPLOAD_DIR: z.string().default('uploads'),
   FACILITY_TIME_ZONE: z.string().default('Europe/Berlin'),
   DEMO: bool.default(false),

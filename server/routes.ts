@@ -8,6 +8,7 @@ import { facilityRoutes } from './modules/facility/facility.routes';
 import { noticesRoutes } from './modules/notices/notices.routes';
 import { ticketRoutes } from './modules/tickets/tickets.routes';
 import { analyticsRoutes } from './modules/analytics/analytics.routes';
+import { pushRoutes } from './modules/push/push.routes';
 
 export interface RouteOptions {
   log: Logger;
@@ -24,5 +25,6 @@ export function apiRoutes(opts: RouteOptions): RouteSpec[] {
     ...noticesRoutes(),
     ...ticketRoutes(opts.log),
     ...analyticsRoutes(),
+    ...pushRoutes(),
   ];
 }

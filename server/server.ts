@@ -11,6 +11,7 @@ import { attachRealtime } from './lib/realtime';
 import { createTransport, OutboxWorker } from './lib/mailer';
 import { MailCatcher } from './lib/mail-catcher';
 import { verifyDisplayKey } from './modules/facility/display-links.service';
+import { PushWorker } from './modules/push/push.service';
 import type { AppDeps } from './lib/http';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
@@ -48,7 +49,11 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
   const io = attachRealtime(server, { allowedOrigins, session, passport, events, log, verifyDisplayKey });
 
   const worker = new OutboxWorker(createTransport(config), config, log, { pollMs: config.OUTBOX_POLL_MS, baseBackoffMs: config.OUTBOX_BASE_BACKOFF_MS });
-  if (opts.outboxWorker !== false) worker.start();
+  const pushWorker = new PushWorker(deps, config, log);
+  if (opts.outboxWorker !== false) {
+    worker.start();
+    pushWorker.start();
+  }
 
   await new Promise<void>((resolve) => server.listen(config.PORT, config.HOST, () => resolve()));
   const address = server.address();
@@ -59,6 +64,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     if (closed) return;
     closed = true;
     await worker.stop();
+    await pushWorker.stop();
     await new Promise<void>((resolve) => io.close(() => resolve()));
     server.closeAllConnections?.();
     await new Promise<void>((resolve) => server.close(() => resolve()));
@@ -66,5 +72,5 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     await releaseSequelize(sequelize);
   }
 
-  return { app, server, io, deps, worker, catcher, port, url: `http://${config.HOST}:${port}`, close };
+  return { app, server, io, deps, worker, pushWorker, catcher, port, url: `http://${config.HOST}:${port}`, close };
 }

@@ -5,6 +5,7 @@ import { initOutboxModel } from '../modules/mail/outbox.model';
 import { initFacilityModels } from '../modules/facility/facility.model';
 import { initNoticeModel } from '../modules/notices/notice.model';
 import { initTicketModels } from '../modules/tickets/ticket.model';
+import { initPushModels } from '../modules/push/push.model';
 
 /** Binds every model to the one Sequelize instance of this process. Order matters for associations. */
 export function initModels(sequelize: Sequelize) {
@@ -14,4 +15,5 @@ export function initModels(sequelize: Sequelize) {
   initFacilityModels(sequelize);
   initNoticeModel(sequelize);
   initTicketModels(sequelize);
+  initPushModels(sequelize);
 }

@@ -2,6 +2,7 @@ import { Op, QueryTypes, type Transaction } from 'sequelize';
 import { User } from '../users/user.model';
 import { Notice } from '../notices/notice.model';
 import { queueMail } from '../../lib/mailer';
+import { queuePush } from '../push/push.service';
 import type { AppDeps } from '../../lib/http';
 import { HAZARD_CAUTIONS, HAZARD_LABELS, type Hazard } from '../../../shared/report-options';
 
@@ -15,6 +16,8 @@ export interface Notification {
   title: string;
   text: string;
   ticketId: number;
+  /** Also as a phone notification (web push) to the browsers these people allowed. */
+  push?: boolean;
 }
 
 /**
@@ -35,6 +38,7 @@ export async function notifyUsers(deps: AppDeps, n: Notification, transaction: T
     users.map((u) => ({ userId: u.id, kind: n.kind, title: n.title.slice(0, 200), body: n.text, link: `/tickets/${n.ticketId}`, readAt: null })),
     { transaction },
   );
+  if (n.push) await queuePush(users.map((u) => u.id), { title: n.title, body: n.text.split('\n')[0], link: `/tickets/${n.ticketId}` }, transaction);
   deps.events.publish({ type: 'notice.created', audience: { users: users.map((u) => u.id) }, payload: { kind: n.kind, ticketId: n.ticketId } }, transaction);
   return users.map((u) => u.id);
 }
