@@ -18,7 +18,10 @@ export default defineConfig({
     sourcemap: true,
     rollupOptions: {
       // The service worker (web push) is served from the site root so its scope is the whole app.
-      input: { main: fileURLToPath(new URL('./index.html', import.meta.url)), 'service-worker': fileURLToPath(new URL('./src/service-worker.ts', import.meta.url)) },
+      input: {
+        main: fileURLToPath(new URL('./index.html', import.meta.url)),
+        'service-worker': fileURLToPath(new URL('./src/service-worker.ts', import.meta.url)),
+      },
       output: { entryFileNames: (chunk) => (chunk.name === 'service-worker' ? 'service-worker.js' : 'assets/[name]-[hash].js') },
     },
   },

@@ -2,9 +2,7 @@ import { z } from 'zod';
 
 // Typed configuration from the environment, validated once at start-up: a wrong or missing
 // value stops the process with a readable message instead of failing later at random.
-const bool = z
-  .enum(['true', 'false', '1', '0', 'yes', 'no'])
-  .transform((v) => v === 'true' || v === '1' || v === 'yes');
+const bool = z.enum(['true', 'false', '1', '0', 'yes', 'no']).transform((v) => v === 'true' || v === '1' || v === 'yes');
 
 const configSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
@@ -40,7 +38,10 @@ const configSchema = z.object({
   OUTBOX_BASE_BACKOFF_MS: z.coerce.number().int().positive().default(2000),
 
   /** Who runs this server, for push services (VAPID subject: a mailto: or https: address). */
-  PUSH_SUBJECT: z.string().regex(/^(mailto:|https:)/).default('mailto:faultline@facility.invalid'),
+  PUSH_SUBJECT: z
+    .string()
+    .regex(/^(mailto:|https:)/)
+    .default('mailto:faultline@facility.invalid'),
   /** A PEM file of extra certificate authorities to trust for push services (a local fake's). */
   PUSH_CA_FILE: z.string().optional(),
   UPLOAD_DIR: z.string().default('uploads'),

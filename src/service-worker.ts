@@ -13,12 +13,15 @@ self.addEventListener('push', (event) => {
     return;
   }
   if (!message?.title) return;
-  event.waitUntil(self.registration.showNotification(message.title, { body: message.body, data: { link: message.link }, tag: message.link }));
+  event.waitUntil(
+    self.registration.showNotification(message.title, { body: message.body, data: { link: message.link }, tag: message.link }),
+  );
 });
 
 self.addEventListener('notificationclick', (event) => {
   event.notification.close();
-  const link = typeof event.notification.data?.link === 'string' && event.notification.data.link.startsWith('/') ? event.notification.data.link : '/';
+  const link =
+    typeof event.notification.data?.link === 'string' && event.notification.data.link.startsWith('/') ? event.notification.data.link : '/';
   event.waitUntil(
     self.clients.matchAll({ type: 'window', includeUncontrolled: true }).then((windows) => {
       const open = windows.find((w) => new URL(w.url).origin === self.location.origin);

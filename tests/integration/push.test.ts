@@ -35,7 +35,29 @@ let server: TestServer;
 beforeAll(async () => {
   // Push services speak https only: the fake gets a throw-away certificate that the server is told to trust.
   certDir = fs.mkdtempSync(path.join(os.tmpdir(), 'faultline-push-'));
-  execFileSync('openssl', ['req', '-x509', '-newkey', 'ec', '-pkeyopt', 'ec_paramgen_curve:prime256v1', '-nodes', '-days', '1', '-subj', '/CN=127.0.0.1', '-addext', 'subjectAltName=IP:127.0.0.1', '-keyout', path.join(certDir, 'key.pem'), '-out', path.join(certDir, 'cert.pem')], { stdio: 'ignore' });
+  execFileSync(
+    'openssl',
+    [
+      'req',
+      '-x509',
+      '-newkey',
+      'ec',
+      '-pkeyopt',
+      'ec_paramgen_curve:prime256v1',
+      '-nodes',
+      '-days',
+      '1',
+      '-subj',
+      '/CN=127.0.0.1',
+      '-addext',
+      'subjectAltName=IP:127.0.0.1',
+      '-keyout',
+      path.join(certDir, 'key.pem'),
+      '-out',
+      path.join(certDir, 'cert.pem'),
+    ],
+    { stdio: 'ignore' },
+  );
   const tlsOptions = { key: fs.readFileSync(path.join(certDir, 'key.pem')), cert: fs.readFileSync(path.join(certDir, 'cert.pem')) };
   endpoint = https.createServer(tlsOptions, (req, res) => {
     const chunks: Buffer[] = [];
@@ -64,8 +86,17 @@ function fakeBrowser() {
   const path = `/push/${unique('sub')}`;
   return {
     path,
-    subscription: { endpoint: `${endpointUrl}${path}`, expirationTime: null, keys: { p256dh: ecdh.getPublicKey('base64url'), auth: authSecret.toString('base64url') } },
-    read: (d: Delivery) => JSON.parse(decrypt(d.body, { version: 'aes128gcm', privateKey: ecdh, authSecret }).toString('utf8')) as { title: string; body: string; link: string },
+    subscription: {
+      endpoint: `${endpointUrl}${path}`,
+      expirationTime: null,
+      keys: { p256dh: ecdh.getPublicKey('base64url'), auth: authSecret.toString('base64url') },
+    },
+    read: (d: Delivery) =>
+      JSON.parse(decrypt(d.body, { version: 'aes128gcm', privateKey: ecdh, authSecret }).toString('utf8')) as {
+        title: string;
+        body: string;
+        link: string;
+      },
   };
 }
 
@@ -87,7 +118,11 @@ describe('web push', () => {
     expect(status.subscriptions).toBe(1);
     expect((await member.client.put(`/api/tools/${tool.id}/follow`)).status).toBe(200);
 
-    const down = await tech.client.post(`/api/tools/${tool.id}/state`, { state: 'unscheduled_downtime', reason: 'repair', note: 'Lamp house fault' });
+    const down = await tech.client.post(`/api/tools/${tool.id}/state`, {
+      state: 'unscheduled_downtime',
+      reason: 'repair',
+      note: 'Lamp house fault',
+    });
     expect(down.status).toBe(201);
     await server.pushWorker.runOnce();
     expect(deliveredTo(browser.path)).toHaveLength(0);
@@ -175,7 +210,10 @@ describe('web push', () => {
   it('when a subscription has a plain-http address or bad keys, then 400 with field messages and nothing is stored', async () => {
     const member = await signedInClient(server.url, 'member');
     const browser = fakeBrowser();
-    const r = await member.client.post('/api/push/subscriptions', { ...browser.subscription, endpoint: browser.subscription.endpoint.replace('https:', 'http:') });
+    const r = await member.client.post('/api/push/subscriptions', {
+      ...browser.subscription,
+      endpoint: browser.subscription.endpoint.replace('https:', 'http:'),
+    });
     expect(r.status).toBe(400);
     expect(r.body.error.fields.endpoint).toBeDefined();
     const bad = await member.client.post('/api/push/subscriptions', { ...browser.subscription, keys: { p256dh: 'short', auth: '!!' } });

@@ -69,7 +69,11 @@ export async function queuePush(userIds: readonly number[], payload: PushPayload
   if (ids.length === 0) return;
   const subs = await PushSubscription.findAll({ where: { userId: ids }, attributes: ['id'], transaction: transaction ?? undefined });
   if (subs.length === 0) return;
-  const body = JSON.stringify({ title: payload.title.slice(0, 200), body: payload.body.slice(0, 500), link: payload.link } satisfies PushPayload);
+  const body = JSON.stringify({
+    title: payload.title.slice(0, 200),
+    body: payload.body.slice(0, 500),
+    link: payload.link,
+  } satisfies PushPayload);
   const now = new Date();
   await PushOutbox.bulkCreate(
     subs.map((s) => ({ subscriptionId: s.id, payload: body, nextAttemptAt: now })),
@@ -93,7 +97,8 @@ export class PushWorker {
     private config: Config,
     private log: Logger,
   ) {
-    if (config.PUSH_CA_FILE) this.agent = new https.Agent({ ca: [...tls.rootCertificates, fs.readFileSync(config.PUSH_CA_FILE, 'utf8')], keepAlive: false });
+    if (config.PUSH_CA_FILE)
+      this.agent = new https.Agent({ ca: [...tls.rootCertificates, fs.readFileSync(config.PUSH_CA_FILE, 'utf8')], keepAlive: false });
   }
 
   start() {
@@ -128,7 +133,8 @@ export class PushWorker {
           skipLocked: true,
           transaction,
         });
-        if (rows.length) await PushOutbox.update({ nextAttemptAt: new Date(Date.now() + 60_000) }, { where: { id: rows.map((r) => r.id) }, transaction });
+        if (rows.length)
+          await PushOutbox.update({ nextAttemptAt: new Date(Date.now() + 60_000) }, { where: { id: rows.map((r) => r.id) }, transaction });
         return rows;
       });
       if (due.length === 0) return 0;

@@ -7,7 +7,12 @@ export const pushKeys = { all: ['push'] as const, status: () => [...pushKeys.all
 export const pushStatusQuery = () => queryOptions({ queryKey: pushKeys.status(), queryFn: () => api.get<PushStatus>('/api/push') });
 
 /** Whether this browser can take pushes at all (https or localhost, with a service worker). */
-export const pushSupported = () => typeof window !== 'undefined' && window.isSecureContext && 'serviceWorker' in navigator && 'PushManager' in window && 'Notification' in window;
+export const pushSupported = () =>
+  typeof window !== 'undefined' &&
+  window.isSecureContext &&
+  'serviceWorker' in navigator &&
+  'PushManager' in window &&
+  'Notification' in window;
 
 function keyBytes(base64url: string) {
   const raw = atob(base64url.replace(/-/g, '+').replace(/_/g, '/'));
@@ -25,7 +30,8 @@ async function enablePush(publicKey: string): Promise<PushStatus> {
   const permission = await Notification.requestPermission();
   if (permission !== 'granted') throw new Error('Notifications are blocked for this site in the browser settings.');
   const { registration, subscription } = await currentSubscription();
-  const sub = subscription ?? (await registration.pushManager.subscribe({ userVisibleOnly: true, applicationServerKey: keyBytes(publicKey) }));
+  const sub =
+    subscription ?? (await registration.pushManager.subscribe({ userVisibleOnly: true, applicationServerKey: keyBytes(publicKey) }));
   return api.post<PushStatus>('/api/push/subscriptions', sub.toJSON());
 }
 

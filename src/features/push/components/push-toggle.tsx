@@ -14,11 +14,18 @@ export function PushToggle() {
   const on = here.data === true;
   return (
     <div className="flex flex-col gap-2">
-      <Button variant="secondary" size="lg" busy={set.isPending || here.isLoading} onClick={() => set.mutate({ on: !on, publicKey: status.data.publicKey })}>
+      <Button
+        variant="secondary"
+        size="lg"
+        busy={set.isPending || here.isLoading}
+        onClick={() => set.mutate({ on: !on, publicKey: status.data.publicKey })}
+      >
         {on ? 'Stop notifications on this device' : 'Notify this device too'}
       </Button>
       <p className="text-sm text-muted" aria-live="polite">
-        {on ? 'This device shows a notification when a tool you follow is back and when your report is fixed.' : 'Get a phone notification when a tool you follow is back and when your report is fixed.'}
+        {on
+          ? 'This device shows a notification when a tool you follow is back and when your report is fixed.'
+          : 'Get a phone notification when a tool you follow is back and when your report is fixed.'}
       </p>
       {set.isError && (
         <Alert tone="danger" live>
