@@ -13,7 +13,18 @@ export default defineConfig({
       '@': fileURLToPath(new URL('./src', import.meta.url)),
     },
   },
-  build: { outDir: 'dist', sourcemap: true },
+  build: {
+    outDir: 'dist',
+    sourcemap: true,
+    rollupOptions: {
+      // The service worker (web push) is served from the site root so its scope is the whole app.
+      input: {
+        main: fileURLToPath(new URL('./index.html', import.meta.url)),
+        'service-worker': fileURLToPath(new URL('./src/service-worker.ts', import.meta.url)),
+      },
+      output: { entryFileNames: (chunk) => (chunk.name === 'service-worker' ? 'service-worker.js' : 'assets/[name]-[hash].js') },
+    },
+  },
   server: {
     // In development the API and socket.io run on their own port behind this proxy.
     proxy: {

@@ -75,6 +75,13 @@ const configSchema = z.object({
   /** How often the maintenance scheduler looks for plans coming due; 0 turns it off in this process. */
   MAINTENANCE_SCHEDULER_MS: z.coerce.number().int().min(0).default(60_000),
 
+  /** Who runs this server, for push services (VAPID subject: a mailto: or https: address). */
+  PUSH_SUBJECT: z
+    .string()
+    .regex(/^(mailto:|https:)/)
+    .default('mailto:faultline@facility.invalid'),
+  /** A PEM file of extra certificate authorities to trust for push services (a local fake's). */
+  PUSH_CA_FILE: z.string().optional(),
   UPLOAD_DIR: z.string().default('uploads'),
   /** Uploads with photos one account may send at once, and that one process receives at once. */
   UPLOADS_PER_ACCOUNT: z.coerce.number().int().positive().default(2),

@@ -12,6 +12,7 @@ import { analyticsRoutes } from './modules/analytics/analytics.routes';
 import { alarmRoutes } from './modules/alarms/alarms.routes';
 import { maintenanceRoutes } from './modules/maintenance/maintenance.routes';
 import { settingsRoutes } from './modules/settings/settings.routes';
+import { pushRoutes } from './modules/push/push.routes';
 
 export interface RouteOptions {
   log: Logger;
@@ -32,5 +33,6 @@ export function apiRoutes(opts: RouteOptions): RouteSpec[] {
     ...alarmRoutes(),
     ...maintenanceRoutes(),
     ...settingsRoutes(),
+    ...pushRoutes(),
   ];
 }

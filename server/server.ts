@@ -14,6 +14,7 @@ import { verifyDisplayKey } from './modules/facility/display-links.service';
 import { AccountMailQueue } from './modules/auth/account-links.service';
 import { mayViewTicket } from './modules/tickets/ticket-query.service';
 import { connectRedisAdapter } from './lib/redis-adapter';
+import { PushWorker } from './modules/push/push.service';
 import type { AppDeps } from './lib/http';
 import { photoSweeper } from './modules/tickets/photo-sweep';
 import { warnAdminsOfLateMail } from './modules/mail/mail.service';
@@ -78,7 +79,11 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     leaseMs: config.OUTBOX_LEASE_MS,
     afterPass: () => warnAdminsOfLateMail(deps),
   });
-  if (opts.outboxWorker !== false) worker.start();
+  const pushWorker = new PushWorker(deps, config, log);
+  if (opts.outboxWorker !== false) {
+    worker.start();
+    pushWorker.start();
+  }
   const alarmSweeper = new AlarmSweeper(deps);
   if (opts.outboxWorker !== false) alarmSweeper.start();
   const maintenanceScheduler = config.MAINTENANCE_SCHEDULER_MS > 0 ? startScheduler(deps, config.MAINTENANCE_SCHEDULER_MS) : null;
@@ -87,6 +92,16 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
   const sweeper = photoSweeper(deps);
   await sweeper.runOnce();
   sweeper.start();
+
+  /** Every background loop of this process (each claims its rows with locks; see DEVELOPERS.md). */
+  async function stopBackgroundWork() {
+    sweeper.stop();
+    await worker.stop();
+    await accountMail.stop();
+    await alarmSweeper.stop();
+    await maintenanceScheduler?.stop();
+    await pushWorker.stop();
+  }
 
   try {
     await new Promise<void>((resolve, reject) => {
@@ -98,11 +113,9 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     });
   } catch (error) {
     // The port is taken (or not ours to use): undo what was started, and let the caller say so.
-    sweeper.stop();
-    await worker.stop();
-    await accountMail.stop();
-    await alarmSweeper.stop();
+    await stopBackgroundWork();
     await new Promise<void>((resolve) => io.close(() => resolve()));
+    await redis?.close();
     if (catcher) await catcher.stop();
     await releaseSequelize(sequelize);
     throw error;
@@ -114,11 +127,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
   async function close() {
     if (closed) return;
     closed = true;
-    sweeper.stop();
-    await worker.stop();
-    await accountMail.stop();
-    await alarmSweeper.stop();
-    await maintenanceScheduler?.stop();
+    await stopBackgroundWork();
     await new Promise<void>((resolve) => io.close(() => resolve()));
     await redis?.close();
     server.closeAllConnections?.();
@@ -127,5 +136,5 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     await releaseSequelize(sequelize);
   }
 
-  return { app, server, io, deps, worker, accountMail, sweeper, catcher, port, url: `http://${config.HOST}:${port}`, close };
+  return { app, server, io, deps, worker, pushWorker, accountMail, sweeper, catcher, port, url: `http://${config.HOST}:${port}`, close };
 }

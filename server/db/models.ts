@@ -8,6 +8,7 @@ import { initTicketModels } from '../modules/tickets/ticket.model';
 import { initAlarmModels } from '../modules/alarms/alarms.model';
 import { initMaintenanceModels } from '../modules/maintenance/maintenance.model';
 import { initSettingsModel } from '../modules/settings/settings.model';
+import { initPushModels } from '../modules/push/push.model';
 
 /** Binds every model to the one Sequelize instance of this process. Order matters for associations. */
 export function initModels(sequelize: Sequelize) {
@@ -20,4 +21,5 @@ export function initModels(sequelize: Sequelize) {
   initAlarmModels(sequelize);
   initMaintenanceModels(sequelize);
   initSettingsModel(sequelize);
+  initPushModels(sequelize);
 }

@@ -132,10 +132,12 @@ async function notifyFollowers(change: StateChangeResult, transaction: Transacti
     ].join('\n'),
   }));
   await queueMail(mails, transaction);
+  // "It's back" is worth waking a phone for; other changes wait in the app and the mail.
+  const back = boardStatusOf(current.state) === 'running' && !current.moduleId;
   await createNotices(
     deps,
     followers.map((f) => f.userId),
-    { kind: 'tool_state', title, body: lines.slice(0, 4).join(' '), link },
+    { kind: 'tool_state', title, body: lines.slice(0, 4).join(' '), link, push: back },
     transaction,
   );
 }

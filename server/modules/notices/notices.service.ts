@@ -3,6 +3,7 @@ import { Notice } from './notice.model';
 import { notFound } from '../../lib/errors';
 import type { AppDeps } from '../../lib/http';
 import type { NoticeItem, NoticePage } from '../../../shared/schemas/facility';
+import { queuePush } from '../push/push.service';
 
 export interface NewNotice {
   kind: string;
@@ -10,6 +11,8 @@ export interface NewNotice {
   body?: string | null;
   /** A path inside the app, e.g. /tools/ETCH-02. */
   link?: string | null;
+  /** Also as a phone notification to the browsers these people allowed (web push). */
+  push?: boolean;
 }
 
 /**
@@ -30,6 +33,7 @@ export async function createNotices(deps: AppDeps, userIds: number[], notice: Ne
     })),
     { transaction: transaction ?? undefined },
   );
+  if (notice.push) await queuePush(ids, { title: notice.title, body: notice.body ?? '', link: notice.link ?? '/' }, transaction);
   deps.events.publish({ type: 'notice.created', audience: { users: ids }, payload: { kind: notice.kind } }, transaction);
 }
 

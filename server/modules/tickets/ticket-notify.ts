@@ -2,6 +2,7 @@ import { Op, QueryTypes, type Transaction } from 'sequelize';
 import { User } from '../users/user.model';
 import { Notice } from '../notices/notice.model';
 import { queueMail } from '../../lib/mailer';
+import { queuePush } from '../push/push.service';
 import type { AppDeps } from '../../lib/http';
 import { HAZARD_LABELS, type Hazard } from '../../../shared/report-options';
 import { cautionLines, cautionsFor } from '../../../shared/hazard-cautions';
@@ -17,6 +18,8 @@ export interface Notification {
   title: string;
   text: string;
   ticketId: number;
+  /** Also as a phone notification (web push) to the browsers these people allowed. */
+  push?: boolean;
 }
 
 /**
@@ -53,6 +56,12 @@ export async function notifyUsers(deps: AppDeps, n: Notification, transaction: T
     })),
     { transaction },
   );
+  if (n.push)
+    await queuePush(
+      users.map((u) => u.id),
+      { title: n.title, body: n.text.split('\n')[0], link: `/tickets/${n.ticketId}` },
+      transaction,
+    );
   deps.events.publish(
     { type: 'notice.created', audience: { users: users.map((u) => u.id) }, payload: { kind: n.kind, ticketId: n.ticketId } },
     transaction,

@@ -426,6 +426,8 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
           title: `[#${ticket.id}] ${input.action === 'reopen' ? 'Reopened' : STATUS_LABELS[ticket.status as TicketStatus]}: ${tool.name} — ${ticket.title}`,
           text: `${mailText}${extra}${toolBack}\n\nTicket #${ticket.id} on ${tool.name} (${tool.code}): ${ticket.title}${statusNote ? `\n\n${user.name}: ${statusNote}` : ''}`,
           ticketId: ticket.id,
+          // "Your report was fixed" reaches the reporter's phone too.
+          push: ticket.status === 'fixed',
         },
         transaction,
       );

@@ -12,6 +12,7 @@ import { AvailabilityPanel } from '@/features/tools/components/availability-pane
 import { ChangeStateForm } from '@/features/tools/components/change-state-form';
 import { Engineers } from '@/features/tools/components/engineers';
 import { FollowButton } from '@/features/tools/components/follow-button';
+import { PushToggle } from '@/features/push/components/push-toggle';
 import { ModuleStates } from '@/features/tools/components/module-states';
 import { StateHistory } from '@/features/tools/components/state-history';
 import { ToolStatusPanel } from '@/features/tools/components/tool-status-panel';
@@ -120,6 +121,7 @@ export function ToolPage() {
           {!retired && (
             <Card as="section" title="Tell me when it changes">
               <FollowButton toolId={t.id} code={t.code} following={t.following} />
+              {t.following && <PushToggle />}
             </Card>
           )}
 
