@@ -1,4 +1,4 @@
-import { Op, literal, where as where_, type Transaction, type WhereOptions, type Includeable } from 'sequelize';
+import { Op, literal, where as where_, type Transaction, type Includeable } from 'sequelize';
 import { Ticket, TicketEvent, Photo, ServiceTarget } from './ticket.model';
 import { loadTimeline, timelineTicketIds } from './ticket-timeline.service';
 import { assertMayReadTicket } from './ticket-visibility';
@@ -25,7 +25,6 @@ import type {
   ServiceTargetView,
   ToolStateView,
 } from '../../../shared/schemas/tickets';
-import type { z } from 'zod';
 import { searchKey, sqlSearchKey } from '../../../shared/search';
 
 const person = (u: User | null | undefined) => (u ? { id: u.id, name: u.name } : null);
