@@ -290,7 +290,7 @@ async function signIn(url: string): Promise<Record<string, string>> {
   const { csrfToken } = (await first.json()) as { csrfToken: string };
   const res = await fetch(`${url}/api/session`, {
     method: 'POST',
-    headers: { cookie, 'content-type': 'application/json', 'x-csrf-token': csrfToken, origin: url },
+    headers: { cookie, 'content-type': 'application/json', 'x-csrf-token': csrfToken },
     body: JSON.stringify({ email: 'bench.manager@bench.faultline.test', password: PASSWORD }),
   });
   if (res.status !== 200) throw new Error(`bench sign-in failed: ${res.status} ${await res.text()}`);
