@@ -12,6 +12,7 @@ import { createTransport, OutboxWorker } from './lib/mailer';
 import { MailCatcher } from './lib/mail-catcher';
 import { verifyDisplayKey } from './modules/facility/display-links.service';
 import { AccountMailQueue } from './modules/auth/account-links.service';
+import { schedulePruning } from './modules/auth/sign-in-throttle';
 import type { AppDeps } from './lib/http';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
@@ -49,6 +50,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
   const accountMail = new AccountMailQueue(deps);
   app.locals.accountMail = accountMail;
   if (opts.accountMailQueue !== false) accountMail.start();
+  const stopPruning = schedulePruning(sequelize, config, log);
   const server = http.createServer(app);
   const allowedOrigins = [new URL(config.publicUrl).origin];
   const io = attachRealtime(server, { allowedOrigins, session, passport, events, log, verifyDisplayKey });
@@ -66,6 +68,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     closed = true;
     await worker.stop();
     await accountMail.stop();
+    stopPruning();
     await new Promise<void>((resolve) => io.close(() => resolve()));
     server.closeAllConnections?.();
     await new Promise<void>((resolve) => server.close(() => resolve()));
