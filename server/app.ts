@@ -49,7 +49,9 @@ export function createApp(deps: AppDeps, opts: AppOptions) {
   // but only from the proxies named in TRUST_PROXY; the Secure session cookie needs req.secure.
   app.set('trust proxy', config.TRUST_PROXY);
   if (config.cookieSecure && config.TRUST_PROXY === false) {
-    log.warn('PUBLIC_URL is https but TRUST_PROXY is not set: the server itself speaks plain HTTP, so Secure session cookies are never set and nobody stays signed in. Set TRUST_PROXY to the TLS proxy in front of it.');
+    log.warn(
+      'PUBLIC_URL is https but TRUST_PROXY is not set: the server itself speaks plain HTTP, so Secure session cookies are never set and nobody stays signed in. Set TRUST_PROXY to the TLS proxy in front of it.',
+    );
   }
   const publicUrl = new URL(config.publicUrl);
   const ownSocketOrigin = `${publicUrl.protocol === 'https:' ? 'wss:' : 'ws:'}//${publicUrl.host}`;

@@ -2,9 +2,7 @@ import { z } from 'zod';
 
 // Typed configuration from the environment, validated once at start-up: a wrong or missing
 // value stops the process with a readable message instead of failing later at random.
-const bool = z
-  .enum(['true', 'false', '1', '0', 'yes', 'no'])
-  .transform((v) => v === 'true' || v === '1' || v === 'yes');
+const bool = z.enum(['true', 'false', '1', '0', 'yes', 'no']).transform((v) => v === 'true' || v === '1' || v === 'yes');
 
 const configSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
@@ -45,7 +43,11 @@ const configSchema = z.object({
       const s = v.trim();
       if (s === '' || s === 'false' || s === '0') return false;
       if (s === 'true') {
-        ctx.addIssue({ code: 'custom', message: "TRUST_PROXY=true would believe any client's X-Forwarded-For; name the proxy (e.g. 'loopback' or its address) or a hop count" });
+        ctx.addIssue({
+          code: 'custom',
+          message:
+            "TRUST_PROXY=true would believe any client's X-Forwarded-For; name the proxy (e.g. 'loopback' or its address) or a hop count",
+        });
         return z.NEVER;
       }
       if (/^\d+$/.test(s)) return Number(s);

@@ -122,7 +122,9 @@ describe('signed-out visitors', () => {
     const startedAt = new Date(Date.now() - 1000);
     const paths = ['/api/session', '/api/board', '/api/users', '/api/no-such-route'];
     for (let batch = 0; batch < 10; batch++) {
-      await Promise.all(Array.from({ length: 50 }, (_, i) => fetch(`${server.url}${paths[(batch * 50 + i) % paths.length]}`).then((r) => r.arrayBuffer())));
+      await Promise.all(
+        Array.from({ length: 50 }, (_, i) => fetch(`${server.url}${paths[(batch * 50 + i) % paths.length]}`).then((r) => r.arrayBuffer())),
+      );
     }
     expect(await SessionRow.count({ where: { createdAt: { [Op.gte]: startedAt }, userId: null } })).toBe(0);
 

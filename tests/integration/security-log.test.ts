@@ -55,7 +55,9 @@ describe('security log', () => {
     expect((await visitor.post(`/api/password-resets/${token}`, { password: newPassword })).status).toBe(400);
     expect((await visitor.post(`/api/sign-in-links/${'A'.repeat(43)}`)).status).toBe(400);
 
-    expect(security('account_mail_requested').some((l) => l.kind === 'password_reset' && l.route === 'POST /api/password-resets')).toBe(true);
+    expect(security('account_mail_requested').some((l) => l.kind === 'password_reset' && l.route === 'POST /api/password-resets')).toBe(
+      true,
+    );
     expect(security('password_changed').some((l) => l.changedUserId === user.id && l.via === 'reset_link')).toBe(true);
     expect(security('account_link_refused').map((l) => l.purpose)).toEqual(expect.arrayContaining(['reset', 'sign_in']));
     const all = JSON.stringify(lines);

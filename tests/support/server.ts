@@ -9,7 +9,15 @@ export type TestServer = Awaited<ReturnType<typeof startTestServer>>;
  * The real server (Express, sessions in MariaDB, socket.io, outbox worker) on an ephemeral
  * port, with a real SMTP catcher on another ephemeral port.
  */
-export async function startTestServer(overrides: Record<string, string> = {}, opts: { serveClient?: boolean; outboxWorker?: boolean; accountMailQueue?: boolean; logDestination?: import('pino').DestinationStream } = {}) {
+export async function startTestServer(
+  overrides: Record<string, string> = {},
+  opts: {
+    serveClient?: boolean;
+    outboxWorker?: boolean;
+    accountMailQueue?: boolean;
+    logDestination?: import('pino').DestinationStream;
+  } = {},
+) {
   // A browser's Origin must be the public address (the CSRF check accepts no other), so a
   // server for browser tests is told its own address unless the test names one.
   if (opts.serveClient && !overrides.PUBLIC_URL) {
@@ -19,7 +27,13 @@ export async function startTestServer(overrides: Record<string, string> = {}, op
   const catcher = new MailCatcher(0);
   await catcher.start();
   const config = testConfig({ SMTP_PORT: String(catcher.port), ...overrides });
-  const running = await startServer(config, { catcher, serveClient: opts.serveClient ?? false, outboxWorker: opts.outboxWorker, accountMailQueue: opts.accountMailQueue, logDestination: opts.logDestination });
+  const running = await startServer(config, {
+    catcher,
+    serveClient: opts.serveClient ?? false,
+    outboxWorker: opts.outboxWorker,
+    accountMailQueue: opts.accountMailQueue,
+    logDestination: opts.logDestination,
+  });
   return { ...running, config, catcher, url: `http://127.0.0.1:${running.port}` };
 }
 

@@ -86,4 +86,3 @@ export function authRoutes(log: Logger): RouteSpec[] {
     }),
   ];
 }
-

@@ -21,13 +21,21 @@ function waitInWords(seconds: number) {
  * BEFORE the password is checked, so parallel guesses cannot pass the limit; the same answer
  * for a wrong e-mail and a wrong password; a brand-new session id on success.
  */
-export async function signIn(deps: AppDeps, req: Request, input: { email: string; password: string }): Promise<{ user: AuthUser; csrfToken: string }> {
+export async function signIn(
+  deps: AppDeps,
+  req: Request,
+  input: { email: string; password: string },
+): Promise<{ user: AuthUser; csrfToken: string }> {
   const { config, log, sequelize } = deps;
   const attempt = await countSignInAttempt(sequelize, config, signInRules(config, input.email, req.ip));
   if (!attempt.allowed) {
     req.res?.setHeader('Retry-After', String(attempt.retryAfterSeconds));
     securityLog(log, req, 'sign_in_throttled', { email: input.email, retryAfterSeconds: attempt.retryAfterSeconds });
-    throw new AppError(429, 'rate_limited', `Too many sign-in attempts. Try again in ${waitInWords(attempt.retryAfterSeconds)}, or ask for a sign-in link by e-mail.`);
+    throw new AppError(
+      429,
+      'rate_limited',
+      `Too many sign-in attempts. Try again in ${waitInWords(attempt.retryAfterSeconds)}, or ask for a sign-in link by e-mail.`,
+    );
   }
 
   const user = await User.findOne({ where: { email: input.email.toLowerCase() } });
@@ -81,11 +89,18 @@ export async function requestAccountMail(deps: AppDeps, req: Request, kind: Acco
 }
 
 const linkInvalid = (what: 'reset' | 'sign-in') =>
-  new AppError(400, what === 'reset' ? 'reset_link_invalid' : 'sign_in_link_invalid', `This ${what} link has expired or was already used. Ask for a new one.`);
+  new AppError(
+    400,
+    what === 'reset' ? 'reset_link_invalid' : 'sign_in_link_invalid',
+    `This ${what} link has expired or was already used. Ask for a new one.`,
+  );
 
 /** Sets a new password with a reset or invitation link; every session and other link of the account ends. */
 export async function resetPassword(deps: AppDeps, req: Request, token: string, password: string) {
-  if (isCommonPassword(password)) throw badRequest('Choose a less common password.', { password: ['This password is on a list of commonly used passwords. Choose another.'] });
+  if (isCommonPassword(password))
+    throw badRequest('Choose a less common password.', {
+      password: ['This password is on a list of commonly used passwords. Choose another.'],
+    });
   const passwordHash = await hashPassword(password);
   const userId = await deps.sequelize.transaction(async (transaction) => {
     const id = await consumeAccountLink(token, ['reset', 'invite'], transaction);

@@ -10,7 +10,17 @@ import type { InviteUserInput, UpdateUserInput } from '../../../shared/schemas/u
 import type { Role } from '../../../shared/roles';
 
 export function presentUser(u: User) {
-  return { id: u.id, email: u.email, name: u.name, role: u.role, active: u.active, onCall: u.onCall, invited: !u.passwordHash, lastSignInAt: u.lastSignInAt?.toISOString() ?? null, createdAt: u.createdAt.toISOString() };
+  return {
+    id: u.id,
+    email: u.email,
+    name: u.name,
+    role: u.role,
+    active: u.active,
+    onCall: u.onCall,
+    invited: !u.passwordHash,
+    lastSignInAt: u.lastSignInAt?.toISOString() ?? null,
+    createdAt: u.createdAt.toISOString(),
+  };
 }
 
 export async function listUsers(query: { q?: string; role?: Role; limit: number; offset: number }) {
@@ -24,7 +34,17 @@ export async function listUsers(query: { q?: string; role?: Role; limit: number;
 /** Creates the account without a password and e-mails a link to choose one (valid 7 days). */
 export async function inviteUser(deps: AppDeps, input: InviteUserInput, invitedBy: { name: string }) {
   return deps.sequelize.transaction(async (transaction) => {
-    const user = await User.create({ email: input.email.toLowerCase(), name: input.name, role: input.role, onCall: input.onCall ?? false, passwordHash: null, lastSignInAt: null }, { transaction });
+    const user = await User.create(
+      {
+        email: input.email.toLowerCase(),
+        name: input.name,
+        role: input.role,
+        onCall: input.onCall ?? false,
+        passwordHash: null,
+        lastSignInAt: null,
+      },
+      { transaction },
+    );
     const token = await createAccountLink(user.id, 'invite', transaction);
     await queueMail(
       {
