@@ -40,7 +40,7 @@ const PERMISSIONS_POLICY = [
   'accelerometer=()',
   'gyroscope=()',
   'magnetometer=()',
-  'fullscreen=(self)',
+  'fullscreen=()',
 ].join(', ');
 
 /** Builds the Express app without listening, so tests run it on an ephemeral port. */

@@ -15,6 +15,7 @@ import { AccountMailQueue } from './modules/auth/account-links.service';
 import { mayViewTicket } from './modules/tickets/ticket-query.service';
 import { connectRedisAdapter } from './lib/redis-adapter';
 import { PushWorker } from './modules/push/push.service';
+import { schedulePruning } from './modules/auth/sign-in-throttle';
 import type { AppDeps } from './lib/http';
 import { photoSweeper } from './modules/tickets/photo-sweep';
 import { warnAdminsOfLateMail } from './modules/mail/mail.service';
@@ -58,6 +59,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
   const accountMail = new AccountMailQueue(deps);
   app.locals.accountMail = accountMail;
   if (opts.accountMailQueue !== false) accountMail.start();
+  const stopPruning = schedulePruning(sequelize, config, log);
   const server = http.createServer(app);
   const allowedOrigins = [new URL(config.publicUrl).origin];
   // One process keeps its sockets to itself; with REDIS_URL, broadcasts reach every process.
@@ -101,6 +103,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     await alarmSweeper.stop();
     await maintenanceScheduler?.stop();
     await pushWorker.stop();
+    stopPruning();
   }
 
   try {
@@ -128,6 +131,9 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     if (closed) return;
     closed = true;
     await stopBackgroundWork();
+    await worker.stop();
+    await accountMail.stop();
+    stopPruning();
     await new Promise<void>((resolve) => io.close(() => resolve()));
     await redis?.close();
     server.closeAllConnections?.();

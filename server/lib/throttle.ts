@@ -4,7 +4,8 @@ import { AppError } from './errors';
 import { securityLog, type Logger } from './logger';
 
 /**
- * Fixed-window counters in MariaDB, so every server process sees the same counts.
+ * Fixed-window counters in MariaDB for rate limits, so every server process sees the same
+ * counts (sign-in throttling has its own, stricter scheme: modules/auth/sign-in-throttle.ts).
  * `hit` adds one and returns the count in the current window; `peek` only reads.
  */
 export async function hit(key: string, windowMs: number, now = new Date()): Promise<number> {
@@ -30,10 +31,6 @@ export async function retryAfterSeconds(key: string, windowMs: number, now = new
   const row = await Throttle.findByPk(key);
   if (!row) return 0;
   return Math.max(1, Math.ceil((row.windowStartedAt.getTime() + windowMs - now.getTime()) / 1000));
-}
-
-export async function clear(key: string) {
-  await Throttle.destroy({ where: { key } });
 }
 
 export function tooManyRequests(seconds: number, what = 'attempts') {

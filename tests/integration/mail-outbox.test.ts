@@ -27,6 +27,8 @@ describe('mail outbox', () => {
     const anonymous = new TestClient(server.url);
     const r = await anonymous.post('/api/password-resets', { email: user.email });
     expect(r.status, r.text).toBe(202);
+    // The request is answered first; the reset mail is written just after.
+    await server.accountMail.runOnce();
     const row = await OutboxMail.findOne({ where: { toAddress: user.email }, order: [['id', 'DESC']] });
     expect(row?.status).toBe('pending');
 
@@ -52,12 +54,14 @@ describe('mail outbox', () => {
     const before = await OutboxMail.count();
     const r = await new TestClient(server.url).post('/api/password-resets', { email: `nobody-${Date.now()}@test.faultline.test` });
     expect(r.status).toBe(202);
+    await server.accountMail.runOnce();
     expect(await OutboxMail.count()).toBe(before);
   });
 
   it('when the e-mailed reset link is used, then the new password works, the link is spent, and common passwords are refused', async () => {
     const user = await createUser('member');
     await new TestClient(server.url).post('/api/password-resets', { email: user.email });
+    await server.accountMail.runOnce();
     await drainOutbox(server);
     const mail = await server.catcher.waitFor((m) => m.to.includes(user.email) && /reset/i.test(m.subject));
     const token = mail.text.match(/reset-password\/([A-Za-z0-9_-]{43})/)![1];

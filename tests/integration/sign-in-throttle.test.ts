@@ -3,6 +3,7 @@ import { QueryTypes } from 'sequelize';
 import { drainOutbox, startTestServer, type TestServer } from '../support/server';
 import { TestClient } from '../support/client';
 import { createUser, TEST_PASSWORD, unique } from '../support/factories';
+import { pruneThrottles } from '../../server/modules/auth/sign-in-throttle';
 
 // Sign-in throttling: attempts are counted before the password is checked, per account from
 // one address, per account, and per address, with growing delays instead of a flat lockout.
@@ -162,6 +163,21 @@ describe('sign-in throttling', () => {
     } finally {
       await s.close();
     }
+  });
+
+  it('when counters are over their window and wait, then pruning deletes them and keeps those still counting or waiting', async () => {
+    const q = (sql: string) => server.deps.sequelize.query(sql);
+    const tag = unique('prune');
+    await q(`INSERT INTO sign_in_throttles (\`key\`, attempts, window_started_at, next_allowed_at) VALUES
+      ('old:${tag}', 4, NOW(3) - INTERVAL 2 HOUR, NULL),
+      ('waiting:${tag}', 9, NOW(3) - INTERVAL 2 HOUR, NOW(3) + INTERVAL 5 MINUTE),
+      ('counting:${tag}', 2, NOW(3) - INTERVAL 1 MINUTE, NULL)`);
+    await pruneThrottles(server.deps.sequelize, server.config);
+    const left = await server.deps.sequelize.query<{ key: string }>(
+      'SELECT `key` FROM sign_in_throttles WHERE `key` LIKE :k ORDER BY `key`',
+      { type: QueryTypes.SELECT, replacements: { k: `%:${tag}` } },
+    );
+    expect(left.map((r) => r.key)).toEqual([`counting:${tag}`, `waiting:${tag}`]);
   });
 
   it('when counters are stored, then they hold no e-mail address in clear', async () => {

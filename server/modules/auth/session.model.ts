@@ -10,7 +10,7 @@ export class SessionRow extends Model<InferAttributes<SessionRow>, InferCreation
   declare updatedAt: CreationOptional<Date>;
 }
 
-/** Fixed-window counters used by sign-in throttling and rate limits. */
+/** Fixed-window counters of the rate limits (server/lib/throttle.ts). */
 export class Throttle extends Model<InferAttributes<Throttle>, InferCreationAttributes<Throttle>> {
   declare key: string;
   declare hits: number;

@@ -140,3 +140,31 @@ export async function signInSucceeded(sequelize: Sequelize, config: Config, emai
     { replacements: { key: address.key, free: address.free } },
   );
 }
+
+/**
+ * Deletes counters nobody needs any more: sign-in counters whose window and wait are over
+ * (guesses at invented addresses would otherwise pile up), and rate-limit windows older than a
+ * day. Any process may run it; it only deletes rows that mean "no limit" anyway.
+ */
+export async function pruneThrottles(sequelize: Sequelize, config: Config, now = new Date()) {
+  const cutoff = new Date(now.getTime() - config.SIGNIN_WINDOW_SECONDS * 1000);
+  await sequelize.query(
+    'DELETE FROM sign_in_throttles WHERE (window_started_at IS NULL OR window_started_at <= :cutoff) AND (next_allowed_at IS NULL OR next_allowed_at <= :now)',
+    {
+      replacements: { cutoff, now },
+    },
+  );
+  await sequelize.query('DELETE FROM throttles WHERE window_started_at <= :dayAgo', {
+    replacements: { dayAgo: new Date(now.getTime() - 86_400_000) },
+  });
+}
+
+/** Prunes every quarter hour; returns the function that stops it. */
+export function schedulePruning(sequelize: Sequelize, config: Config, log: { warn: (o: object, m: string) => void }) {
+  const timer = setInterval(
+    () => void pruneThrottles(sequelize, config).catch((error) => log.warn({ err: String(error) }, 'pruning throttles failed')),
+    15 * 60_000,
+  );
+  timer.unref();
+  return () => clearInterval(timer);
+}
