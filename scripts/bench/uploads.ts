@@ -230,11 +230,14 @@ try {
   const before = rssOf(child.pid!);
   let peak = before.rss;
   let healthMax = 0;
+  let healthFailed = 0;
   let sampling = true;
   const sampler = (async () => {
     while (sampling) {
       peak = Math.max(peak, rssOf(child.pid!).rss);
-      healthMax = Math.max(healthMax, await healthMs(url));
+      const ms = await healthMs(url);
+      if (Number.isFinite(ms)) healthMax = Math.max(healthMax, ms);
+      else healthFailed++;
       await new Promise((r) => setTimeout(r, 50));
     }
   })();
@@ -256,7 +259,9 @@ try {
   console.log(
     `  server RSS: ${before.rss.toFixed(0)} MiB before, peak ${Math.max(peak, after.hwm).toFixed(0)} MiB (VmHWM ${after.hwm.toFixed(0)} MiB), ${after.rss.toFixed(0)} MiB after`,
   );
-  console.log(`  GET /api/health during the burst: worst ${healthMax.toFixed(0)} ms`);
+  console.log(
+    `  GET /api/health during the burst: worst ${healthMax.toFixed(0)} ms, ${healthFailed} failed (fetch error on the client's side)`,
+  );
   console.log(`Load average at the end: ${load()}`);
 } finally {
   const exited = new Promise((r) => child.once('exit', r));
