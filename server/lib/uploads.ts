@@ -27,6 +27,10 @@ export const PHOTO_LIMITS = {
   headerPairs: 200,
 };
 
+// Photos are read once from their part files, which are deleted right after: libvips must not
+// keep them open in its cache (the disk space would stay in use until the handle closed).
+sharp.cache({ files: 0 });
+
 /** A 12-megapixel phone photo is ~12 MP; anything beyond this is refused before decoding. */
 export const MAX_INPUT_PIXELS = 50_000_000;
 /** The longest edge kept: enough to read a display or a label, a quarter of a phone's pixels. */

@@ -1,3 +1,4 @@
+import { fork } from 'node:child_process';
 import fs from 'node:fs';
 import http from 'node:http';
 import path from 'node:path';
@@ -6,9 +7,10 @@ import { startTestServer, type TestServer } from '../support/server';
 import { signedInClient, unique } from '../support/factories';
 import { projectRoot } from '../support/env';
 import { concretePath } from '../support/schema-walk';
-import type { TestClient } from '../support/client';
+import { TestClient } from '../support/client';
+import { createUser, TEST_PASSWORD } from '../support/factories';
 import type { RegisteredRoute } from '../../server/lib/http';
-import { Photo, Ticket } from '../../server/modules/tickets/ticket.model';
+import { Photo, Ticket, TicketEvent } from '../../server/modules/tickets/ticket.model';
 import { createTool, drainOutbox, jpegBytes, multipartReport, reportBody } from './tickets-fixtures';
 
 // Hostile or broken multipart bodies, uploads cut off half-way, too many uploads at once, and
@@ -262,6 +264,64 @@ describe('files left by a crash', () => {
     } finally {
       await drainOutbox(restarted);
       await restarted.close();
+    }
+  });
+
+  it('when the server is killed (SIGKILL) in the middle of a report with photos, then after the restart and an hour no photo file is left without a row, and nothing of the report exists', async () => {
+    const crashDir = path.join(projectRoot, 'test-results', unique('killed-upload'));
+    const { tool } = await createTool(server.deps.sequelize);
+    const member = await createUser('member');
+    const marker = unique('killed mid-upload');
+    const trigger = 'test_hold_killed_report';
+    // Hold the report's transaction inside its timeline insert: the photos are written by then.
+    await server.deps.sequelize.query(`DROP TRIGGER IF EXISTS ${trigger}`);
+    await server.deps.sequelize.query(
+      `CREATE TRIGGER ${trigger} BEFORE INSERT ON ticket_events FOR EACH ROW BEGIN IF NEW.body = '${marker}' THEN SET @held = SLEEP(4); END IF; END`,
+    );
+    const child = fork(path.join(projectRoot, 'tests/support/child-server.ts'), [crashDir], {
+      execArgv: ['--import', 'tsx'],
+      stdio: 'ignore',
+    });
+    try {
+      const url = await new Promise<string>((resolve, reject) => {
+        child.once('message', (m) => resolve((m as { url: string }).url));
+        child.once('exit', (code) => reject(new Error(`child server exited (${code})`)));
+      });
+      const client = new TestClient(url);
+      expect((await client.signIn(member.email, TEST_PASSWORD)).status).toBe(200);
+      const photos = [
+        { bytes: await jpegBytes(640, 480), name: 'a.jpg' },
+        { bytes: await jpegBytes(480, 640), name: 'b.jpg' },
+      ];
+      const sent = client.post('/api/tickets', multipartReport(reportBody(tool.id, { description: marker }), photos)).catch(() => null);
+      const photoFiles = () =>
+        fs.existsSync(crashDir) ? (fs.readdirSync(crashDir, { recursive: true }) as string[]).filter((f) => f.endsWith('.jpg')) : [];
+      for (let i = 0; i < 200 && photoFiles().length < 4; i++) await new Promise((r) => setTimeout(r, 25));
+      expect(photoFiles()).toHaveLength(4);
+      child.kill('SIGKILL');
+      expect(await sent).toBeNull();
+    } finally {
+      if (child.exitCode === null && child.signalCode === null) child.kill('SIGKILL');
+    }
+    // MariaDB rolls the killed connection's transaction back once the held statement ends.
+    for (let i = 0; i < 100 && (await TicketEvent.count({ where: { body: marker } })) > 0; i++)
+      await new Promise((r) => setTimeout(r, 100));
+    await server.deps.sequelize.query(`DROP TRIGGER IF EXISTS ${trigger}`);
+    const left = (fs.readdirSync(crashDir, { recursive: true }) as string[]).filter((f) => fs.statSync(path.join(crashDir, f)).isFile());
+    expect(left.length).toBeGreaterThanOrEqual(4);
+
+    // An hour later (the sweep leaves younger files alone: their upload may still be running).
+    const hourAgo = new Date(Date.now() - 61 * 60_000);
+    for (const f of left) fs.utimesSync(path.join(crashDir, f), hourAgo, hourAgo);
+    const restarted = await startTestServer({ UPLOAD_DIR: crashDir });
+    try {
+      const after = (fs.readdirSync(crashDir, { recursive: true }) as string[]).filter((f) => fs.statSync(path.join(crashDir, f)).isFile());
+      expect(after).toEqual([]);
+      expect(await Ticket.count({ where: { toolId: tool.id } })).toBe(0);
+      expect(await TicketEvent.count({ where: { body: marker } })).toBe(0);
+    } finally {
+      await restarted.close();
+      fs.rmSync(crashDir, { recursive: true, force: true });
     }
   });
 });
