@@ -110,12 +110,18 @@ describe('long lists', () => {
     const { tool } = await createTool(server.deps.sequelize, { name: 'Paged-queue sputter tool (e2e)' });
     // Pairs of tickets share a creation time: only the id orders them.
     const base = Date.now() - 40 * 86_400_000;
-    const tickets = await Ticket.bulkCreate(Array.from({ length: 60 }, (_, i) => ticketRow(tool.id, i + 1, new Date(base + Math.floor(i / 2) * 3_600_000))));
+    const tickets = await Ticket.bulkCreate(
+      Array.from({ length: 60 }, (_, i) => ticketRow(tool.id, i + 1, new Date(base + Math.floor(i / 2) * 3_600_000))),
+    );
     const ordered = tickets.map((t) => t.id);
 
     const page = await signedInPage(tech.email, VIEWPORTS.desktop);
     await page.goto(`${server.url}/queue?status=all&toolId=${tool.id}`);
-    const rowIds = async () => page.getByTestId('ticket-table').locator('tbody tr').evaluateAll((rows) => rows.map((r) => Number(r.getAttribute('data-ticket-id'))));
+    const rowIds = async () =>
+      page
+        .getByTestId('ticket-table')
+        .locator('tbody tr')
+        .evaluateAll((rows) => rows.map((r) => Number(r.getAttribute('data-ticket-id'))));
     const position = page.getByTestId('queue-position');
     await expect.poll(() => position.innerText()).toBe('1–25 of 60');
     expect(await rowIds()).toEqual(ordered.slice(0, 25));
