@@ -1,11 +1,12 @@
 import { QueryTypes } from 'sequelize';
 import { Ticket } from './ticket.model';
-import { loadServiceTargets, summaryIncludes, toSummary, type WithIncludes } from './ticket-query.service';
+import { loadServiceTargets, toSummary, type TargetTable, type WithIncludes } from './ticket-query.service';
 import type { AppDeps, AuthUser } from '../../lib/http';
 import { badRequest } from '../../lib/errors';
 import { OPEN_STATUSES, RESOLVED_STATUSES } from '../../../shared/ticket-workflow';
 import { PRIORITIES, type Priority } from '../../../shared/priority';
-import type { TicketList, ticketListQuerySchema } from '../../../shared/schemas/tickets';
+import type { TicketList, TicketSummary, ticketListQuerySchema } from '../../../shared/schemas/tickets';
+import type { Hazard } from '../../../shared/report-options';
 import type { z } from 'zod';
 
 type ListQuery = z.output<typeof ticketListQuerySchema>;
@@ -21,29 +22,64 @@ const ORDERS = {
   newest: { forward: 't.created_at DESC, t.id DESC', backward: 't.created_at ASC, t.id ASC' },
 } as const;
 
-/** Only the columns a list row shows: the report texts (TEXT columns) stay on disk. */
-const SUMMARY_ATTRIBUTES = [
-  'id',
-  'toolId',
-  'moduleId',
-  'title',
-  'status',
-  'priority',
-  'category',
-  'impact',
-  'hazards',
-  'waitReason',
-  'reporterId',
-  'assigneeId',
-  'wafersCount',
-  'mergedIntoId',
-  'acknowledgedAt',
-  'fixedAt',
-  'resolvedAt',
-  'createdAt',
-  'updatedAt',
-  'version',
-] as const;
+/**
+ * Only the columns a list row shows (the report texts, TEXT columns, stay on disk), with the
+ * tool, area, module and people, for one page's ids.
+ */
+const SUMMARY_ROWS_SQL = `SELECT t.id, t.tool_id AS toolId, t.module_id AS moduleId, t.title, t.status, t.priority, t.category,
+       t.impact, t.hazards, t.wait_reason AS waitReason, t.reporter_id AS reporterId, t.assignee_id AS assigneeId,
+       t.wafers_count AS wafersCount, t.merged_into_id AS mergedIntoId, t.acknowledged_at AS acknowledgedAt,
+       t.fixed_at AS fixedAt, t.resolved_at AS resolvedAt, t.created_at AS createdAt, t.updated_at AS updatedAt, t.version,
+       tool.code AS toolCode, tool.name AS toolName, tool.area_id AS toolAreaId, area.name AS areaName,
+       m.code AS moduleCode, m.name AS moduleName, r.name AS reporterName, a.name AS assigneeName
+  FROM tickets t
+  JOIN tools tool ON tool.id = t.tool_id
+  LEFT JOIN areas area ON area.id = tool.area_id
+  LEFT JOIN modules m ON m.id = t.module_id
+  LEFT JOIN users r ON r.id = t.reporter_id
+  LEFT JOIN users a ON a.id = t.assignee_id
+ WHERE t.id IN (:ids)`;
+
+interface SummaryRow {
+  id: number;
+  toolId: number;
+  moduleId: number | null;
+  hazards: string | Hazard[];
+  toolCode: string;
+  toolName: string;
+  toolAreaId: number;
+  areaName: string | null;
+  moduleCode: string | null;
+  moduleName: string | null;
+  reporterId: number | null;
+  reporterName: string | null;
+  assigneeId: number | null;
+  assigneeName: string | null;
+  [column: string]: unknown;
+}
+
+/**
+ * Plain rows in the shape the ticket presenter reads (the same `toSummary` as a ticket page),
+ * without building ORM objects for every row and join: the JSON is shaped once.
+ */
+async function loadSummaries(deps: AppDeps, ids: number[], table: TargetTable, now: Date): Promise<TicketSummary[]> {
+  if (ids.length === 0) return [];
+  const rows = await deps.sequelize.query<SummaryRow>(SUMMARY_ROWS_SQL, { type: QueryTypes.SELECT, replacements: { ids } });
+  const byId = new Map(rows.map((r) => [Number(r.id), r]));
+  return ids.flatMap((id) => {
+    const r = byId.get(id);
+    if (!r) return [];
+    const ticket = {
+      ...r,
+      hazards: typeof r.hazards === 'string' ? (JSON.parse(r.hazards) as Hazard[]) : r.hazards,
+      tool: { code: r.toolCode, name: r.toolName, areaId: r.toolAreaId, area: r.areaName === null ? undefined : { name: r.areaName } },
+      module: r.moduleId === null ? null : { id: r.moduleId, code: r.moduleCode, name: r.moduleName },
+      reporter: r.reporterId === null ? null : { id: r.reporterId, name: r.reporterName },
+      assignee: r.assigneeId === null ? null : { id: r.assigneeId, name: r.assigneeName },
+    };
+    return [toSummary(ticket as unknown as WithIncludes, table, now)];
+  });
+}
 
 /**
  * The filters as SQL on the tickets table alone: the tool-based ones become `tool_id IN
@@ -179,15 +215,7 @@ export async function listTickets(deps: AppDeps, user: AuthUser, q: ListQuery): 
   const totalCapped = Number(n) > COUNT_CAP;
   const total = Math.min(Number(n), COUNT_CAP);
   const page = keysetPage ?? (await readOffsetPage(deps, user, q, total, totalCapped));
-  const rows = page.ids.length
-    ? await Ticket.findAll({ where: { id: page.ids }, attributes: [...SUMMARY_ATTRIBUTES], include: summaryIncludes() })
-    : [];
-  const byId = new Map(rows.map((r) => [r.id, r as WithIncludes]));
-  const now = new Date();
-  const items = page.ids.flatMap((id) => {
-    const row = byId.get(id);
-    return row ? [toSummary(row, table, now)] : [];
-  });
+  const items = await loadSummaries(deps, page.ids, table, new Date());
   return { items, total, totalCapped, limit: q.limit, offset: q.offset, hasPrevious: page.hasPrevious, hasNext: page.hasNext };
 }
 

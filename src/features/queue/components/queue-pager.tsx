@@ -15,7 +15,9 @@ const count = (n: number, capped: boolean) => `${n.toLocaleString('en')}${capped
 /**
  * First, Previous, Next and Last under the queue. Previous and Next page from the tickets at
  * the page's edges, so a page deep in years of history costs what the first one does; the
- * position ("26–50 of 10,000+") is carried along in the address.
+ * position ("26–50 of 10,000+") is carried along in the address. Last asks for the last page
+ * by offset when the total is known (the server reads it from the end), and as "the last 25"
+ * when the list is too long to count.
  */
 export function QueuePager({ list, pageSize, positionKnown, navigate }: QueuePagerProps) {
   if (!list.hasPrevious && !list.hasNext) return null;
@@ -53,7 +55,7 @@ export function QueuePager({ list, pageSize, positionKnown, navigate }: QueuePag
         <Button
           variant="secondary"
           disabled={!list.hasNext}
-          onClick={() => navigate({ ...none, last: 'true', offset: totalCapped ? null : String(lastStart) })}
+          onClick={() => navigate(totalCapped ? { ...none, last: 'true' } : { ...none, offset: String(lastStart) })}
         >
           Last
         </Button>
