@@ -5,12 +5,17 @@ import { PageSpinner } from '@/components/ui/spinner';
 import { isApiError } from '@/lib/api-client';
 import { useTicket } from '@/features/tickets/api/get-ticket';
 import { TicketView } from '@/features/tickets/components/ticket-view';
+import { hasRole } from '@shared/roles';
+import { useSession } from '@/features/auth/api/get-session';
+import { TicketMaintenance } from '@/features/maintenance/components/ticket-maintenance';
 
 /** /tickets/:id — the ticket with its whole timeline and what the viewer may do next. */
 export function TicketPage() {
   const id = Number(useParams().id);
   const location = useLocation();
   const ticket = useTicket(id);
+  const { data: session } = useSession();
+  const staff = session?.user ? hasRole(session.user.role, 'technician') : false;
   const just = (location.state as { justReported?: 'new' | 'add' } | null)?.justReported;
 
   if (!Number.isInteger(id) || id <= 0) return <Alert tone="warning" title="There is no such ticket" />;
@@ -32,6 +37,11 @@ export function TicketPage() {
         </Alert>
       )}
       <TicketView ticket={ticket.data} />
+      {staff && (
+        <div className="mt-6">
+          <TicketMaintenance ticketId={ticket.data.id} toolId={ticket.data.tool.id} />
+        </div>
+      )}
     </>
   );
 }

@@ -8,6 +8,7 @@ import { PageSpinner } from '@/components/ui/spinner';
 import { formatWindow } from '@/lib/maintenance-window';
 import { useOverview } from '@/features/maintenance/api/get-overview';
 import { usePlans } from '@/features/maintenance/api/get-plans';
+import { PlanForm } from '@/features/maintenance/components/plan-form';
 
 /** /maintenance — what is coming (open work orders, soonest first), what is overdue, and the plans. */
 export function MaintenancePage() {
@@ -102,6 +103,9 @@ export function MaintenancePage() {
                 ))}
               </ul>
             )}
+          </Card>
+          <Card as="section" title="New plan">
+            <PlanForm />
           </Card>
           <Card as="section" title={`Plans (${plans.data?.total ?? '…'})`} flush>
             <div className="overflow-x-auto">

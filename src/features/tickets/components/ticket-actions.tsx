@@ -197,6 +197,7 @@ function ActionForm({ form, seen, busy, onSubmit, onCancel }: { form: FormName; 
           wafersRecovered: seen.wafersCount ? num('wafersRecovered') : null,
           wafersReturned: seen.wafersCount ? num('wafersReturned') : null,
           returnToService: values.returnToService === true,
+          ...(values.returnToService === true && text('returnOverrideReason') ? { returnOverrideReason: text('returnOverrideReason')! } : {}),
         });
       case 'priority':
         return onSubmit({ action: 'set_priority', priority: v('priority') as TicketDetail['priority'], reason: v('reason').trim() });
@@ -268,6 +269,9 @@ function ActionForm({ form, seen, busy, onSubmit, onCancel }: { form: FormName; 
             <input type="checkbox" className="size-5" checked={values.returnToService === true} onChange={(e) => setValues((o) => ({ ...o, returnToService: e.target.checked }))} />
             Return the tool to service now (back to Running)
           </label>
+          {values.returnToService === true && (
+            <TextField label="Manager's override (only if the tool has a requalification check without a passing record): the reason" value={v('returnOverrideReason')} onChange={set('returnOverrideReason')} maxLength={1000} />
+          )}
           <FormButtons busy={busy} label="Mark fixed" onCancel={onCancel} />
         </>
       )}

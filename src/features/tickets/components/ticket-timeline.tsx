@@ -113,6 +113,8 @@ function headline(e: TicketEventView, modules: ModuleName[]): ReactNode {
       return `The ticket now stands at ${d.to?.priority} (${IMPACT_LABELS[d.to?.impact as Impact] ?? ''})`;
     case 'merged_from':
       return `${who(e)} merged ticket #${d.sourceId} into this one`;
+    case 'return_proof':
+      return d.kind === 'override' ? `${who(e)} returned the tool to service by manager's override, without a passing requalification record` : `${who(e)} returned the tool to service with a passing requalification record`;
     default:
       return e.kind.replace(/_/g, ' ');
   }
