@@ -18,6 +18,7 @@ import { ToolStatusPanel } from '@/features/tools/components/tool-status-panel';
 import { ToolTickets } from '@/features/tickets/components/tool-tickets';
 import { ToolReliability } from '@/features/analytics/components/tool-reliability';
 import { RequalCharts } from '@/features/maintenance/components/requal-charts';
+import { ToolFeedLink } from '@/features/maintenance/components/tool-feed-link';
 import { formatWindow } from '@/lib/maintenance-window';
 
 export function ToolPage() {
@@ -107,6 +108,12 @@ export function ToolPage() {
           {staff && !retired && (
             <Card as="section" title="Change the state">
               <ChangeStateForm toolId={t.id} modules={t.modules} />
+            </Card>
+          )}
+
+          {!retired && (
+            <Card as="section" title="Maintenance calendar">
+              <ToolFeedLink toolId={t.id} />
             </Card>
           )}
 
