@@ -1,5 +1,12 @@
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
-import { BOARD_LOOK, BOARD_STATUSES, boardStatusOf, type BoardStatus, type E10State, type StateReason } from '../../../shared/equipment-state';
+import {
+  BOARD_LOOK,
+  BOARD_STATUSES,
+  boardStatusOf,
+  type BoardStatus,
+  type E10State,
+  type StateReason,
+} from '../../../shared/equipment-state';
 import { OPEN_STATUSES } from '../../../shared/ticket-workflow';
 import type { BoardData, BoardModule, BoardQuery, BoardTool, ToolCriticality } from '../../../shared/schemas/facility';
 import { summarizeStatus } from './status-summary';
@@ -96,7 +103,9 @@ async function loadRows(sequelize: Sequelize, filter: BoardRowFilter, transactio
     loadPlannedWindows(sequelize, filter.toolIds, transaction),
   ]);
   const windowByTool = new Map<number, { startsAt: string; endsAt: string }>();
-  for (const w of windowRows) if (!windowByTool.has(w.toolId)) windowByTool.set(w.toolId, { startsAt: new Date(w.startsAt).toISOString(), endsAt: new Date(w.endsAt).toISOString() });
+  for (const w of windowRows)
+    if (!windowByTool.has(w.toolId))
+      windowByTool.set(w.toolId, { startsAt: new Date(w.startsAt).toISOString(), endsAt: new Date(w.endsAt).toISOString() });
 
   const modulesByTool = new Map<number, ModuleRow[]>();
   for (const m of moduleRows) {
