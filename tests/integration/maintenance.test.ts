@@ -482,6 +482,59 @@ describe('parts', () => {
   });
 });
 
+describe('corrective work orders', () => {
+  it('when a work order is made from a ticket, then it is corrective, tied to the ticket, and completes without touching the state', async () => {
+    const { tool } = await makeTool(a.deps.sequelize);
+    const ticket = await downTicket(tool.id);
+    let r = await tech.post(`/api/tickets/${ticket.id}/work-order`, { checklist: [{ text: 'Replace the lift pin bellows' }] });
+    expect(r.status, r.text).toBe(201);
+    const detail = await tech.get(`/api/work-orders/${r.body.id}`);
+    expect(detail.body.workOrder).toMatchObject({
+      kind: 'corrective',
+      ticketId: ticket.id,
+      planId: null,
+      status: 'planned',
+      title: 'Repair: Coater stopped mid-run',
+    });
+    r = await tech.post(`/api/work-orders/${r.body.id}/start`, { version: detail.body.workOrder.version });
+    r = await tech.patch(`/api/work-orders/${r.body.id}`, { version: r.body.version, results: [{ step: 0, done: true }] });
+    r = await tech.post(`/api/work-orders/${r.body.id}/complete`, { version: r.body.version });
+    expect(r.status, r.text).toBe(200);
+    expect(r.body).toMatchObject({ status: 'done', withinGrace: null, returnProof: null });
+    const [state] = await a.deps.sequelize.query<{ state: string }>(
+      `SELECT state FROM state_intervals WHERE tool_id = :id AND module_key = 0 AND open_flag = 1`,
+      { type: QueryTypes.SELECT, replacements: { id: tool.id } },
+    );
+    // The ticket still holds the Down; its own return to service brings the tool back.
+    expect(state.state).toBe('unscheduled_downtime');
+  });
+});
+
+describe('MCBF', () => {
+  it('when a tool counts wafers, then MCBF is the wafers run in the period over its failures (18,000 wafers, 3 failures → 6,000)', async () => {
+    // SEMI E10 MCBF check value from the references (computed): 18,000 wafers and 3 failures.
+    const { tool } = await makeTool(a.deps.sequelize);
+    const from = new Date(Date.now() - 30 * DAY);
+    await recordCounterReading(a.deps.sequelize, tool.id, 'wafers', 100_000, new Date(from.getTime() + DAY));
+    await recordCounterReading(a.deps.sequelize, tool.id, 'wafers', 118_000, new Date(Date.now() - DAY));
+    for (let i = 0; i < 3; i++) {
+      const t = await downTicket(tool.id);
+      const r = await tech.post(`/api/tickets/${t.id}/actions`, {
+        action: 'fix',
+        version: t.version,
+        fixKind: 'failure',
+        workDone: 'Replaced the chuck',
+        returnToService: true,
+      });
+      expect(r.status, r.text).toBe(200);
+    }
+    const r = await manager.get(
+      `/api/maintenance/figures?from=${from.toISOString()}&to=${new Date(Date.now() + DAY).toISOString()}&toolId=${tool.id}`,
+    );
+    expect(r.body.mcbf).toEqual({ toolsWithCounter: 1, wafers: 18_000, failures: 3, wafersPerFailure: 6_000 });
+  });
+});
+
 describe('figures and bad input', () => {
   it('when the figures are asked for, then compliance counts done-within-grace over due, skipped against it', async () => {
     const { tool } = await makeTool(a.deps.sequelize);

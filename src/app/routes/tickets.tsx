@@ -7,6 +7,9 @@ import { useTicket } from '@/features/tickets/api/get-ticket';
 import { TicketView } from '@/features/tickets/components/ticket-view';
 import { useTicketRoom } from '@/app/realtime';
 import { TicketAlarmPanel } from '@/features/alarms/components/ticket-alarm-panel';
+import { hasRole } from '@shared/roles';
+import { useSession } from '@/features/auth/api/get-session';
+import { TicketMaintenance } from '@/features/maintenance/components/ticket-maintenance';
 
 /** /tickets/:id — the ticket with its whole timeline and what the viewer may do next. */
 export function TicketPage() {
@@ -14,6 +17,8 @@ export function TicketPage() {
   const location = useLocation();
   const ticket = useTicket(id);
   useTicketRoom(id);
+  const { data: session } = useSession();
+  const staff = session?.user ? hasRole(session.user.role, 'technician') : false;
   const just = (location.state as { justReported?: 'new' | 'add' } | null)?.justReported;
 
   if (!Number.isInteger(id) || id <= 0) return <Alert tone="warning" title="There is no such ticket" />;
@@ -51,6 +56,11 @@ export function TicketPage() {
           enabled={ticket.data.viewer.role !== 'member' && ticket.data.events.some((e) => e.kind === 'alarm_reported')}
         />
       </div>
+      {staff && (
+        <div className="mt-6">
+          <TicketMaintenance ticketId={ticket.data.id} toolId={ticket.data.tool.id} />
+        </div>
+      )}
     </>
   );
 }

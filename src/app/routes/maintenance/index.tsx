@@ -8,11 +8,15 @@ import { PageSpinner } from '@/components/ui/spinner';
 import { formatWindow } from '@/lib/maintenance-window';
 import { useOverview } from '@/features/maintenance/api/get-overview';
 import { usePlans } from '@/features/maintenance/api/get-plans';
+import { PlanForm } from '@/features/maintenance/components/plan-form';
+import { PlanEdit } from '@/features/maintenance/components/plan-edit';
+import { useState } from 'react';
 
 /** /maintenance — what is coming (open work orders, soonest first), what is overdue, and the plans. */
 export function MaintenancePage() {
   const overview = useOverview();
   const plans = usePlans();
+  const [editing, setEditing] = useState<number | null>(null);
   return (
     <>
       <title>Maintenance · Faultline</title>
@@ -103,6 +107,9 @@ export function MaintenancePage() {
               </ul>
             )}
           </Card>
+          <Card as="section" title="New plan">
+            <PlanForm />
+          </Card>
           <Card as="section" title={`Plans (${plans.data?.total ?? '…'})`} flush>
             <div className="overflow-x-auto">
               <table className="w-full text-sm">
@@ -113,6 +120,9 @@ export function MaintenancePage() {
                     <th className="px-2 py-2">Every</th>
                     <th className="px-2 py-2">Last done</th>
                     <th className="px-5 py-2">Next due</th>
+                    <th className="px-5 py-2">
+                      <span className="sr-only">Edit</span>
+                    </th>
                   </tr>
                 </thead>
                 <tbody>
@@ -134,6 +144,15 @@ export function MaintenancePage() {
                         ]
                           .filter(Boolean)
                           .join(' or ')}
+                      </td>
+                      <td className="px-5 py-2">
+                        {editing === p.id ? (
+                          <PlanEdit plan={p} onDone={() => setEditing(null)} />
+                        ) : (
+                          <Button variant="ghost" onClick={() => setEditing(p.id)}>
+                            Edit
+                          </Button>
+                        )}
                       </td>
                     </tr>
                   ))}

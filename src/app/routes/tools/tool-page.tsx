@@ -21,6 +21,7 @@ import { ToolReliability } from '@/features/analytics/components/tool-reliabilit
 import { ToolAlarmsPanel } from '@/features/alarms/components/tool-alarms-panel';
 import { ToolKeysPanel } from '@/features/alarms/components/tool-keys-panel';
 import { RequalCharts } from '@/features/maintenance/components/requal-charts';
+import { ToolFeedLink } from '@/features/maintenance/components/tool-feed-link';
 import { formatWindow } from '@/lib/maintenance-window';
 
 export function ToolPage() {
@@ -128,6 +129,12 @@ export function ToolPage() {
           {staff && !retired && (
             <Card as="section" title="Change the state">
               <ChangeStateForm toolId={t.id} modules={t.modules} />
+            </Card>
+          )}
+
+          {!retired && (
+            <Card as="section" title="Maintenance calendar">
+              <ToolFeedLink toolId={t.id} />
             </Card>
           )}
 

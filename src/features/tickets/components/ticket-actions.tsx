@@ -254,6 +254,9 @@ function ActionForm({
           wafersRecovered: seen.wafersCount ? num('wafersRecovered') : null,
           wafersReturned: seen.wafersCount ? num('wafersReturned') : null,
           returnToService: values.returnToService === true,
+          ...(values.returnToService === true && text('returnOverrideReason')
+            ? { returnOverrideReason: text('returnOverrideReason')! }
+            : {}),
         });
       case 'priority':
         return onSubmit({ action: 'set_priority', priority: v('priority') as TicketDetail['priority'], reason: v('reason').trim() });
@@ -364,6 +367,14 @@ function ActionForm({
             />
             Return the tool to service now (back to Running)
           </label>
+          {values.returnToService === true && (
+            <TextField
+              label="Manager's override (only if the tool has a requalification check without a passing record): the reason"
+              value={v('returnOverrideReason')}
+              onChange={set('returnOverrideReason')}
+              maxLength={1000}
+            />
+          )}
           <FormButtons busy={busy} label="Mark fixed" onCancel={onCancel} />
         </>
       )}

@@ -143,6 +143,10 @@ function headline(e: TicketEventView, modules: ModuleName[]): ReactNode {
         : `Alarm ${d.alarmId} cleared on the tool (the tool is not returned to service by this)`;
     case 'merged_from':
       return `${who(e)} merged ticket #${d.sourceId} into this one`;
+    case 'return_proof':
+      return d.kind === 'override'
+        ? `${who(e)} returned the tool to service by manager's override, without a passing requalification record`
+        : `${who(e)} returned the tool to service with a passing requalification record`;
     default:
       return e.kind.replace(/_/g, ' ');
   }
