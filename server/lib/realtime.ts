@@ -144,17 +144,16 @@ export function attachRealtime(server: HttpServer, opts: RealtimeOptions): Realt
     const held = heldBack.get(socket.id);
     heldBack.delete(socket.id);
     if (socket.recovered) {
-      // Rooms restored from before the drop are re-decided: a ticket room only if still allowed.
-      for (const room of [...socket.rooms]) {
-        if (room === socket.id || rooms.has(room)) continue;
-        socket.leave(room);
-        const ticketId = room.startsWith('ticket:') ? Number(room.slice('ticket:'.length)) : NaN;
-        if (
-          identity.kind === 'user' &&
-          Number.isInteger(ticketId) &&
-          (await opts.mayWatchTicket(identity.user, ticketId).catch(() => false))
-        )
-          rooms.add(room);
+      // Rooms restored from before the drop are re-decided. Leave them all at once, before
+      // anything asynchronous, so no broadcast reaches the socket meanwhile; a ticket room is
+      // joined again only if this user may still see the ticket.
+      const restored = [...socket.rooms].filter((room) => room !== socket.id && !rooms.has(room));
+      for (const room of restored) socket.leave(room);
+      if (identity.kind === 'user') {
+        for (const room of restored) {
+          const ticketId = room.startsWith('ticket:') ? Number(room.slice('ticket:'.length)) : NaN;
+          if (Number.isInteger(ticketId) && (await opts.mayWatchTicket(identity.user, ticketId).catch(() => false))) rooms.add(room);
+        }
       }
     }
     if (!socket.connected) return;

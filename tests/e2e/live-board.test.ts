@@ -38,7 +38,7 @@ afterAll(async () => {
   await server?.close();
 });
 
-async function newPage(viewport = VIEWPORTS.desktop): Promise<Page> {
+async function newPage(viewport: { width: number; height: number } = VIEWPORTS.desktop): Promise<Page> {
   const context = await browser.newContext({ viewport });
   contexts.push(context);
   // Fail with the locator's name rather than the test's timeout.
