@@ -6,7 +6,7 @@ import { acquireSequelize, releaseSequelize } from './db';
 import { createLogger } from './lib/logger';
 import { DomainEvents } from './lib/events';
 import { createApp } from './app';
-import { createSessionMiddleware, configurePassport } from './modules/auth/session-middleware';
+import { createSessionMiddleware, configurePassport, sessionExpired } from './modules/auth/session-middleware';
 import { attachRealtime } from './lib/realtime';
 import { createTransport, OutboxWorker } from './lib/mailer';
 import { MailCatcher } from './lib/mail-catcher';
@@ -51,7 +51,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
   const allowedOrigins = [new URL(config.publicUrl).origin];
   // One process keeps its sockets to itself; with REDIS_URL, broadcasts reach every process.
   const redis = config.REDIS_URL ? await connectRedisAdapter(config.REDIS_URL, log) : null;
-  const io = attachRealtime(server, { allowedOrigins, session, passport, events, log, verifyDisplayKey, mayWatchTicket: mayViewTicket, adapter: redis?.adapter });
+  const io = attachRealtime(server, { allowedOrigins, session, passport, events, log, verifyDisplayKey, mayWatchTicket: mayViewTicket, sessionCurrent: (s) => !sessionExpired(config, s), adapter: redis?.adapter });
 
   const worker = new OutboxWorker(createTransport(config), config, log, { pollMs: config.OUTBOX_POLL_MS, baseBackoffMs: config.OUTBOX_BASE_BACKOFF_MS });
   if (opts.outboxWorker !== false) worker.start();

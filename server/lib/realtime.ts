@@ -34,7 +34,12 @@ export function roomsFor(audience: Audience): string[] {
   return audience.users.map((id) => `user:${id}`);
 }
 
-type Req = IncomingMessage & { user?: AuthUser; sessionID?: string; _query?: Record<string, string> };
+type Req = IncomingMessage & {
+  user?: AuthUser;
+  sessionID?: string;
+  session?: { signedInAt?: number; lastSeenAt?: number };
+  _query?: Record<string, string>;
+};
 
 export interface RealtimeOptions {
   allowedOrigins: string[];
@@ -44,6 +49,8 @@ export interface RealtimeOptions {
   log: Logger;
   /** Resolves a lobby display key to its link id, or null when unknown or revoked. */
   verifyDisplayKey: (key: string) => Promise<number | null>;
+  /** False when the handshake's session is past its idle or absolute lifetime. */
+  sessionCurrent: (session: { signedInAt?: number; lastSeenAt?: number }) => boolean;
   /** Whether this user may see that ticket (its page, and so its room). */
   mayWatchTicket: (user: AuthUser, ticketId: number) => Promise<boolean>;
   /** socket.io's Redis adapter when several processes share the sockets (REDIS_URL). */
@@ -100,7 +107,7 @@ export function attachRealtime(server: HttpServer, opts: RealtimeOptions): Realt
   const identities = new WeakMap<RealtimeSocket, Identity>();
   instance.use(async (socket, next) => {
     const req = socket.request as Req;
-    if (req.user) {
+    if (req.user && req.session && opts.sessionCurrent(req.session)) {
       identities.set(socket, { kind: 'user', user: req.user, sessionId: req.sessionID });
       return next();
     }
