@@ -98,7 +98,8 @@ export function createApp(deps: AppDeps, opts: AppOptions) {
         // Vite names built files by their content hash: a new build gets new names, so a
         // browser may keep these for a year without asking again.
         setHeaders: (res, file) => {
-          if (file.startsWith(path.join(distDir, 'assets') + path.sep)) res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');
+          if (file.startsWith(path.join(distDir, 'assets') + path.sep))
+            res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');
         },
       }),
     );

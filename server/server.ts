@@ -51,9 +51,22 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
   const allowedOrigins = [new URL(config.publicUrl).origin];
   // One process keeps its sockets to itself; with REDIS_URL, broadcasts reach every process.
   const redis = config.REDIS_URL ? await connectRedisAdapter(config.REDIS_URL, log) : null;
-  const io = attachRealtime(server, { allowedOrigins, session, passport, events, log, verifyDisplayKey, mayWatchTicket: mayViewTicket, sessionCurrent: (s) => !sessionExpired(config, s), adapter: redis?.adapter });
+  const io = attachRealtime(server, {
+    allowedOrigins,
+    session,
+    passport,
+    events,
+    log,
+    verifyDisplayKey,
+    mayWatchTicket: mayViewTicket,
+    sessionCurrent: (s) => !sessionExpired(config, s),
+    adapter: redis?.adapter,
+  });
 
-  const worker = new OutboxWorker(createTransport(config), config, log, { pollMs: config.OUTBOX_POLL_MS, baseBackoffMs: config.OUTBOX_BASE_BACKOFF_MS });
+  const worker = new OutboxWorker(createTransport(config), config, log, {
+    pollMs: config.OUTBOX_POLL_MS,
+    baseBackoffMs: config.OUTBOX_BASE_BACKOFF_MS,
+  });
   if (opts.outboxWorker !== false) worker.start();
 
   await new Promise<void>((resolve) => server.listen(config.PORT, config.HOST, () => resolve()));

@@ -51,9 +51,39 @@ describe('the state log under concurrent changes', () => {
   });
 
   it('when the invariant checker meets a gap or two open intervals, then it reports them (the check itself can fail)', async () => {
-    const a = StateInterval.build({ toolId: 1, moduleId: null, state: 'standby', note: null, startedAt: new Date(0), endedAt: new Date(1000), expectedReturnAt: null, ticketId: null, setById: null });
-    const b = StateInterval.build({ toolId: 1, moduleId: null, state: 'productive', note: null, startedAt: new Date(2000), endedAt: null, expectedReturnAt: null, ticketId: null, setById: null });
-    const c = StateInterval.build({ toolId: 1, moduleId: null, state: 'productive', note: null, startedAt: new Date(2000), endedAt: null, expectedReturnAt: null, ticketId: null, setById: null });
+    const a = StateInterval.build({
+      toolId: 1,
+      moduleId: null,
+      state: 'standby',
+      note: null,
+      startedAt: new Date(0),
+      endedAt: new Date(1000),
+      expectedReturnAt: null,
+      ticketId: null,
+      setById: null,
+    });
+    const b = StateInterval.build({
+      toolId: 1,
+      moduleId: null,
+      state: 'productive',
+      note: null,
+      startedAt: new Date(2000),
+      endedAt: null,
+      expectedReturnAt: null,
+      ticketId: null,
+      setById: null,
+    });
+    const c = StateInterval.build({
+      toolId: 1,
+      moduleId: null,
+      state: 'productive',
+      note: null,
+      startedAt: new Date(2000),
+      endedAt: null,
+      expectedReturnAt: null,
+      ticketId: null,
+      setById: null,
+    });
     expect(logProblems([a, b])).toHaveLength(1);
     expect(logProblems([a, b, c]).length).toBeGreaterThanOrEqual(2);
   });
@@ -63,12 +93,21 @@ describe('the state log under concurrent changes', () => {
     const seen: DomainEvent[] = [];
     const stop = server.deps.events.subscribe((e) => seen.push(e));
     try {
-      const result = await changeState(server.deps, { toolId: tool.id, state: 'unscheduled_downtime', reason: 'repair', note: 'Pump', actorId: null });
+      const result = await changeState(server.deps, {
+        toolId: tool.id,
+        state: 'unscheduled_downtime',
+        reason: 'repair',
+        note: 'Pump',
+        actorId: null,
+      });
       expect(result.previous?.state).toBe('standby');
       expect(result.previous?.endedAt?.getTime()).toBe(result.current.startedAt.getTime());
       await waitUntil(() => seen.some((e) => e.type === 'board.tool_changed' && e.payload.tool.id === tool.id), 3000, 'board.tool_changed');
       const event = seen.find((e) => e.type === 'board.tool_changed' && e.payload.tool.id === tool.id)!;
-      expect(event).toMatchObject({ audience: 'all', payload: { tool: { id: tool.id, state: 'unscheduled_downtime', status: 'down' }, stateSetBy: null } });
+      expect(event).toMatchObject({
+        audience: 'all',
+        payload: { tool: { id: tool.id, state: 'unscheduled_downtime', status: 'down' }, stateSetBy: null },
+      });
     } finally {
       stop();
     }

@@ -1,5 +1,12 @@
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
-import { BOARD_LOOK, BOARD_STATUSES, boardStatusOf, type BoardStatus, type E10State, type StateReason } from '../../../shared/equipment-state';
+import {
+  BOARD_LOOK,
+  BOARD_STATUSES,
+  boardStatusOf,
+  type BoardStatus,
+  type E10State,
+  type StateReason,
+} from '../../../shared/equipment-state';
 import { OPEN_STATUSES } from '../../../shared/ticket-workflow';
 import type { BoardData, BoardModule, BoardQuery, BoardTool, ToolCriticality } from '../../../shared/schemas/facility';
 import { summarizeStatus } from './status-summary';
@@ -198,7 +205,11 @@ export async function openStateSetter(sequelize: Sequelize, toolId: number, tran
 }
 
 /** The board entries of these tools as everyone now sees them, with the whole board's counts. */
-export async function loadBoardChanges(sequelize: Sequelize, toolIds: Iterable<number>, opts: { stateChange?: boolean } = {}): Promise<BoardToolChange[]> {
+export async function loadBoardChanges(
+  sequelize: Sequelize,
+  toolIds: Iterable<number>,
+  opts: { stateChange?: boolean } = {},
+): Promise<BoardToolChange[]> {
   const wanted = new Set(toolIds);
   const { tools } = await loadRows(sequelize, {});
   const counts = countByStatus(tools);
@@ -222,7 +233,12 @@ const pendingAnnouncements = new WeakMap<Transaction, { toolIds: Set<number>; st
  * open-ticket counts, and any field added to board entries. Several calls in one transaction
  * send each tool once, read after the commit.
  */
-export function announceBoardTools(deps: AppDeps, toolIds: number[], transaction: Transaction | null | undefined, opts: { stateChange?: boolean } = {}) {
+export function announceBoardTools(
+  deps: AppDeps,
+  toolIds: number[],
+  transaction: Transaction | null | undefined,
+  opts: { stateChange?: boolean } = {},
+) {
   if (toolIds.length === 0) return;
   const pending = transaction ? pendingAnnouncements.get(transaction) : undefined;
   if (pending) {

@@ -112,9 +112,29 @@ export async function changeState(deps: AppDeps, change: StateChange, outer?: Tr
 }
 
 /** The first interval of a new tool or module (standby, i.e. Running and idle). */
-export async function openInitialState(toolId: number, moduleId: number | null, at: Date, actorId: number | null, transaction: Transaction, state: E10State = 'standby') {
+export async function openInitialState(
+  toolId: number,
+  moduleId: number | null,
+  at: Date,
+  actorId: number | null,
+  transaction: Transaction,
+  state: E10State = 'standby',
+) {
   return StateInterval.create(
-    { toolId, moduleId, state, reason: REASONS_BY_STATE[state][0], note: null, startedAt: at, endedAt: null, expectedReturnAt: null, ticketId: null, setById: actorId, source: 'system', confirmed: true },
+    {
+      toolId,
+      moduleId,
+      state,
+      reason: REASONS_BY_STATE[state][0],
+      note: null,
+      startedAt: at,
+      endedAt: null,
+      expectedReturnAt: null,
+      ticketId: null,
+      setById: actorId,
+      source: 'system',
+      confirmed: true,
+    },
     { transaction },
   );
 }
