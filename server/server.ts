@@ -6,7 +6,7 @@ import { acquireSequelize, releaseSequelize } from './db';
 import { createLogger } from './lib/logger';
 import { DomainEvents } from './lib/events';
 import { createApp } from './app';
-import { createSessionMiddleware, configurePassport } from './modules/auth/session-middleware';
+import { createSessionMiddleware, configurePassport, sessionExpired } from './modules/auth/session-middleware';
 import { attachRealtime } from './lib/realtime';
 import { createTransport, OutboxWorker } from './lib/mailer';
 import { MailCatcher } from './lib/mail-catcher';
@@ -72,6 +72,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     log,
     verifyDisplayKey,
     mayWatchTicket: (user, ticketId) => mayViewTicket(deps, user, ticketId),
+    sessionCurrent: (s) => !sessionExpired(config, s),
     adapter: redis?.adapter,
   });
 

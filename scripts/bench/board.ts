@@ -2,6 +2,7 @@
 // against the real server and MariaDB (data: scripts/bench/lib/bench-data.ts).
 //   npm run bench            (all benchmarks)      npm run bench -- board   (this one)
 //   BENCH_SECONDS=20 BENCH_CONNECTIONS=20 npm run bench -- board
+import http from 'node:http';
 import { startServer } from '../../server/server';
 import { benchConfig, buildBenchFacility, loadAverage, measure, signIn, TOOLS } from './lib/bench-data';
 
@@ -9,6 +10,19 @@ const SECONDS = Number(process.env.BENCH_SECONDS ?? 10);
 const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 10);
 
 const config = benchConfig();
+
+/** Bytes on the wire for one GET (Node's fetch would decompress and hide them). */
+function rawSize(url: string, headers: Record<string, string>): Promise<number> {
+  return new Promise((resolve, reject) => {
+    http
+      .get(url, { headers }, (res) => {
+        let n = 0;
+        res.on('data', (c: Buffer) => (n += c.length));
+        res.on('end', () => resolve(n));
+      })
+      .on('error', reject);
+  });
+}
 const { displayKey } = await buildBenchFacility();
 
 const server = await startServer(config, { outboxWorker: false, serveClient: false });
@@ -22,10 +36,23 @@ try {
   console.log(`autocannon: ${CONNECTIONS} connections, ${SECONDS} s per endpoint, loopback, after a 2 s warm-up.\n`);
 
   const opts = { connections: CONNECTIONS, seconds: SECONDS };
+  // What a browser sends: compressed answers accepted (brotli is chosen when offered).
+  const compressed = { 'accept-encoding': 'gzip, deflate, br' };
+  const sizes = await Promise.all(
+    ['gzip', 'br'].map(async (encoding) => {
+      const r = await rawSize(`${server.url}/api/board`, { 'x-display-key': displayKey, 'accept-encoding': encoding });
+      return `${encoding} ${(r / 1024).toFixed(1)} KiB`;
+    }),
+  );
+  console.log(`Compressed board: ${sizes.join(', ')}.`);
   const results = [
     await measure('GET /api/health (floor)', `${server.url}/api/health`, opts),
-    await measure('GET /api/board (display key)', `${server.url}/api/board`, { ...opts, headers: { 'x-display-key': displayKey } }),
-    await measure('GET /api/board (signed-in member)', `${server.url}/api/board`, { ...opts, headers: { cookie } }),
+    await measure('GET /api/board (display key, br)', `${server.url}/api/board`, {
+      ...opts,
+      headers: { 'x-display-key': displayKey, ...compressed },
+    }),
+    await measure('GET /api/board (signed-in, br)', `${server.url}/api/board`, { ...opts, headers: { cookie, ...compressed } }),
+    await measure('GET /api/board (signed-in, plain)', `${server.url}/api/board`, { ...opts, headers: { cookie } }),
   ];
   const pad = (s: string | number, n: number) => String(s).padStart(n);
   console.log(

@@ -184,6 +184,7 @@ const results: Awaited<ReturnType<typeof measureTarget>>[] = [];
 const single = await startServerProcess(serverEnv);
 try {
   results.push(await measureTarget('one process', single.url));
+  print(results);
 } finally {
   await single.stop();
 }
@@ -191,11 +192,12 @@ if (CLUSTER) {
   ensureClusterPackages();
   const cluster = await startCluster({ nodes: 2, env: serverEnv });
   try {
-    results.push(await measureTarget('2 processes + HAProxy', cluster.url));
+    const two = await measureTarget('2 processes + HAProxy', cluster.url);
+    results.push(two);
+    print([two]);
   } finally {
     await cluster.stop();
   }
 }
-print(results);
 console.log(`\n${loadAverage()}`);
 if (results.some((r) => r.rows.some((row) => row.serverErrors > 0 || row.missing > 0))) process.exitCode = 1;

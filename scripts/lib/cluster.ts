@@ -192,6 +192,8 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
         '  timeout server 60s',
         // A websocket is a tunnel once upgraded: keep it open far longer than a request.
         '  timeout tunnel 1h',
+        // A busy process (hundreds of sockets connecting) answers its health check late, not never.
+        '  timeout check 5s',
         '  option redispatch',
         '  retries 2',
         'frontend faultline',
@@ -203,7 +205,7 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
         // holds their session); on loopback every client has one address, so not by address.
         '  cookie FLNODE insert indirect nocache',
         '  option httpchk GET /api/health',
-        ...nodes.map((n) => `  server ${n.name} 127.0.0.1:${n.port} check inter 500ms fall 2 rise 2 cookie ${n.name}`),
+        ...nodes.map((n) => `  server ${n.name} 127.0.0.1:${n.port} check inter 1s fall 3 rise 1 cookie ${n.name}`),
         '',
       ].join('\n'),
     );

@@ -34,7 +34,12 @@ export function roomsFor(audience: Audience): string[] {
   return audience.users.map((id) => `user:${id}`);
 }
 
-type Req = IncomingMessage & { user?: AuthUser; sessionID?: string; _query?: Record<string, string> };
+type Req = IncomingMessage & {
+  user?: AuthUser;
+  sessionID?: string;
+  session?: { signedInAt?: number; lastSeenAt?: number };
+  _query?: Record<string, string>;
+};
 
 export interface RealtimeOptions {
   allowedOrigins: string[];
@@ -44,6 +49,8 @@ export interface RealtimeOptions {
   log: Logger;
   /** Resolves a lobby display key to its link id, or null when unknown or revoked. */
   verifyDisplayKey: (key: string) => Promise<number | null>;
+  /** False when the handshake's session is past its idle or absolute lifetime. */
+  sessionCurrent: (session: { signedInAt?: number; lastSeenAt?: number }) => boolean;
   /** Whether this user may see that ticket (its page, and so its room). */
   mayWatchTicket: (user: AuthUser, ticketId: number) => Promise<boolean>;
   /** socket.io's Redis adapter when several processes share the sockets (REDIS_URL). */
@@ -100,7 +107,7 @@ export function attachRealtime(server: HttpServer, opts: RealtimeOptions): Realt
   const identities = new WeakMap<RealtimeSocket, Identity>();
   instance.use(async (socket, next) => {
     const req = socket.request as Req;
-    if (req.user) {
+    if (req.user && req.session && opts.sessionCurrent(req.session)) {
       identities.set(socket, { kind: 'user', user: req.user, sessionId: req.sessionID });
       return next();
     }
@@ -144,17 +151,16 @@ export function attachRealtime(server: HttpServer, opts: RealtimeOptions): Realt
     const held = heldBack.get(socket.id);
     heldBack.delete(socket.id);
     if (socket.recovered) {
-      // Rooms restored from before the drop are re-decided: a ticket room only if still allowed.
-      for (const room of [...socket.rooms]) {
-        if (room === socket.id || rooms.has(room)) continue;
-        socket.leave(room);
-        const ticketId = room.startsWith('ticket:') ? Number(room.slice('ticket:'.length)) : NaN;
-        if (
-          identity.kind === 'user' &&
-          Number.isInteger(ticketId) &&
-          (await opts.mayWatchTicket(identity.user, ticketId).catch(() => false))
-        )
-          rooms.add(room);
+      // Rooms restored from before the drop are re-decided. Leave them all at once, before
+      // anything asynchronous, so no broadcast reaches the socket meanwhile; a ticket room is
+      // joined again only if this user may still see the ticket.
+      const restored = [...socket.rooms].filter((room) => room !== socket.id && !rooms.has(room));
+      for (const room of restored) socket.leave(room);
+      if (identity.kind === 'user') {
+        for (const room of restored) {
+          const ticketId = room.startsWith('ticket:') ? Number(room.slice('ticket:'.length)) : NaN;
+          if (Number.isInteger(ticketId) && (await opts.mayWatchTicket(identity.user, ticketId).catch(() => false))) rooms.add(room);
+        }
       }
     }
     if (!socket.connected) return;

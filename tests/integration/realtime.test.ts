@@ -7,6 +7,7 @@ import { createTool, fileReport, drainOutbox } from './tickets-fixtures';
 import { changeState } from '../../server/modules/facility/state.service';
 import { createDisplayLink } from '../../server/modules/facility/display-links.service';
 import { User } from '../../server/modules/users/user.model';
+import { SessionRow } from '../../server/modules/auth/session.model';
 import type { BoardToolChange } from '../../shared/events';
 
 // Sockets (security.md "Access control"): board changes travel with their board entry to
@@ -227,5 +228,19 @@ describe('connection-state recovery', () => {
     await changeState(server.deps, { toolId: tool.id, state: 'standby', actorId: null });
     await waitUntil(() => changesOf(back.packets, tool.id).some((c) => c.tool.state === 'standby'), 3000, 'a board event');
     expect(back.packets.filter((p) => p.event.startsWith('ticket.'))).toEqual([]);
+  });
+
+  it('when the session sat idle past its idle timeout, then neither a new nor a recovered socket is let in with its cookie', async () => {
+    const { client: tech, user } = await signedInClient(server.url, 'technician');
+    const { recovery } = await droppedStaffSocket(tech.cookie!);
+    // Backdated instead of waited for: the session was last used three hours ago.
+    const row = (await SessionRow.findOne({ where: { userId: user.id } }))!;
+    const data = JSON.parse(row.data!);
+    await row.update({ data: JSON.stringify({ ...data, lastSeenAt: Date.now() - 3 * 3_600_000 }) });
+    const fresh = open({ cookie: tech.cookie! });
+    await expect(connected(fresh.socket)).rejects.toThrow('unauthorized');
+    const back = open({ cookie: tech.cookie!, recovery });
+    await expect(connected(back.socket)).rejects.toThrow('unauthorized');
+    expect(back.packets).toEqual([]);
   });
 });

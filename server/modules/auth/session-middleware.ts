@@ -93,21 +93,25 @@ export function sessionTouchMs(config: Config) {
   return Math.min(60_000, (config.SESSION_IDLE_MINUTES * 60_000) / 4);
 }
 
+/** Whether a signed-in session is past its idle or absolute lifetime (requests and sockets alike). */
+export function sessionExpired(config: Config, s: { signedInAt?: number; lastSeenAt?: number }, now = Date.now()): boolean {
+  const idleMs = config.SESSION_IDLE_MINUTES * 60_000;
+  const absoluteMs = config.SESSION_ABSOLUTE_HOURS * 3_600_000;
+  return Boolean((s.signedInAt && now - s.signedInAt > absoluteMs) || (s.lastSeenAt && now - s.lastSeenAt > idleMs));
+}
+
 /**
  * Idle and absolute lifetimes, checked on the server on every request. lastSeenAt is moved on
  * only when it is older than the touch interval, so the idle timeout may end a session up to
  * that much early, never late.
  */
 export function sessionLifetime(config: Config, log: Logger): RequestHandler {
-  const idleMs = config.SESSION_IDLE_MINUTES * 60_000;
-  const absoluteMs = config.SESSION_ABSOLUTE_HOURS * 3_600_000;
   const touchMs = sessionTouchMs(config);
   return (req, _res, next) => {
     const s = req.session;
     if (!req.user || !s) return next();
     const now = Date.now();
-    const expired = (s.signedInAt && now - s.signedInAt > absoluteMs) || (s.lastSeenAt && now - s.lastSeenAt > idleMs);
-    if (expired) {
+    if (sessionExpired(config, s, now)) {
       securityLog(log, req, 'session_expired');
       return s.destroy(() => next(new AppError(401, 'session_expired', 'Your session has ended. Please sign in again.')));
     }
