@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { isoInstant, plainText } from './text';
 
 // Inputs and answers of the alarm API: the machine-facing ingest API (/api/ingest/v1, used by
 // tool computers and the forwarder; its OpenAPI document is generated from these schemas) and
@@ -46,15 +47,14 @@ const senderId = z
   .max(100, 'Use at most 100 characters.')
   .describe('The sender’s own unique id for this event. Sending the same id again from the same tool is counted once.');
 
-const at = z.iso
-  .datetime({ offset: true, message: 'Use an ISO-8601 time with a zone, for example 2026-03-01T09:12:00Z.' })
+const at = isoInstant('Use an ISO-8601 time with a zone, for example 2026-03-01T09:12:00Z.')
   .refine((v) => Date.parse(v) <= Date.now() + INGEST_FUTURE_SLACK_MS, 'This time is in the future; check the tool’s clock.')
   .describe('When it happened on the tool (ISO-8601 with a zone). Events are ordered by this time, not by arrival.');
 
 export const alarmIdSchema = z
   .union([
     z.number().int('Use a whole number.').min(0, 'Use 0 or more.').max(4_294_967_295, 'Use at most 4294967295.'),
-    z.string().trim().min(1, 'Give the alarm ID.').max(64, 'Use at most 64 characters.'),
+    plainText().trim().min(1, 'Give the alarm ID.').max(64, 'Use at most 64 characters.'),
   ])
   .describe('The alarm ID on that tool (SEMI E5 ALID): an integer or a short string.');
 
@@ -143,11 +143,11 @@ export type IngestAnswer = z.infer<typeof ingestAnswerSchema>;
 // ---- Staff inputs ----------------------------------------------------------------------------
 
 export const toolKeyCreateSchema = z.strictObject({
-  label: z.string().trim().min(1, 'Give the key a name (for example "host PC").').max(80, 'Use at most 80 characters.'),
+  label: plainText().trim().min(1, 'Give the key a name (for example "host PC").').max(80, 'Use at most 80 characters.'),
 });
 
 export const alarmDefinitionUpdateSchema = z.strictObject({
-  text: z.string().trim().min(1, 'Give the alarm text.').max(ALARM_TEXT_MAX).optional(),
+  text: plainText().trim().min(1, 'Give the alarm text.').max(ALARM_TEXT_MAX).optional(),
   category: z.number().int().min(0).max(8).nullable().optional(),
   rule: z.enum(ALARM_RULES).nullable().optional(),
   moduleId: z.number().int().positive().nullable().optional(),
@@ -163,7 +163,7 @@ export const categoryRuleSchema = z.strictObject({ rule: z.enum(ALARM_RULES) });
 export const categoryParams = z.strictObject({ category: z.coerce.number().int().min(0).max(8) });
 
 export const alarmCsvImportSchema = z.strictObject({
-  csv: z.string().min(1, 'Paste or upload the CSV.').max(500_000, 'The file is too large (500 kB at most).'),
+  csv: plainText().min(1, 'Paste or upload the CSV.').max(500_000, 'The file is too large (500 kB at most).'),
 });
 
 export const alarmHistoryQuerySchema = z.strictObject({
@@ -173,8 +173,8 @@ export const alarmHistoryQuerySchema = z.strictObject({
 });
 
 export const alarmLoadQuerySchema = z.strictObject({
-  from: z.iso.datetime({ offset: true }).optional(),
-  to: z.iso.datetime({ offset: true }).optional(),
+  from: isoInstant().optional(),
+  to: isoInstant().optional(),
   toolId: z.coerce.number().int().positive().optional(),
 });
 

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { plainText } from './text';
 
 // The facility's own settings, kept by an admin: its name and time zone (the board, lobby
 // displays and analytics show times in it), the emergency number and a short local procedure
@@ -24,14 +25,14 @@ export function isTimeZone(value: string) {
 }
 
 export const facilitySettingsSchema = z.strictObject({
-  facilityName: z.string().trim().min(1, 'Enter the facility name.').max(120, 'Use at most 120 characters.'),
-  timeZone: z.string().trim().max(64).refine(isTimeZone, 'Enter a time zone such as Europe/Berlin or America/Chicago.'),
+  facilityName: plainText().trim().min(1, 'Enter the facility name.').max(120, 'Use at most 120 characters.'),
+  timeZone: plainText().trim().max(64).refine(isTimeZone, 'Enter a time zone such as Europe/Berlin or America/Chicago.'),
   emergencyNumber: z
     .string()
     .trim()
     .max(40, 'Use at most 40 characters.')
     .regex(/^$|\d/, 'Include the number to call, for example 112 or ext. 4444.'),
-  localProcedure: z.string().trim().max(1000, 'Keep it short: at most 1000 characters.'),
+  localProcedure: plainText().trim().max(1000, 'Keep it short: at most 1000 characters.'),
   memberTicketVisibility: z.enum(MEMBER_TICKET_VISIBILITY),
 });
 export type FacilitySettingsInput = z.input<typeof facilitySettingsSchema>;

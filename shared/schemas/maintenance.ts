@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { isoInstant, plainText } from './text';
 import { UNIFORMITY_FIGURES } from '../requalification';
 
 // Inputs of the maintenance API (plans, work orders, downtime windows, calendar feeds,
@@ -15,7 +16,7 @@ export const WORK_ORDER_STATUS_LABELS: Record<WorkOrderStatus, string> = {
 };
 
 const id = z.coerce.number().int().positive();
-const text = (max: number) => z.string().trim().max(max, `Use at most ${max} characters.`);
+const text = (max: number) => plainText().trim().max(max, `Use at most ${max} characters.`);
 const required = (max: number, message: string) => text(max).min(1, message);
 const optionalText = (max: number) =>
   text(max)
@@ -23,7 +24,7 @@ const optionalText = (max: number) =>
     .transform((v) => (v ? v : null));
 const finite = z.number().refine(Number.isFinite, 'Enter a number.');
 const optionalNumber = finite.nullish().transform((v) => v ?? null);
-const isoDate = z.iso.datetime({ offset: true, message: 'Enter a date and time.' }).transform((v) => new Date(v));
+const isoDate = isoInstant('Enter a date and time.').transform((v) => new Date(v));
 
 export const checklistStepSchema = z
   .strictObject({

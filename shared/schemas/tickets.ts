@@ -199,7 +199,7 @@ export const ticketActionSchema = z.discriminatedUnion('action', [
     /** Put every tool or module this ticket holds down back to standby in the same step. */
     returnToService: z.boolean().default(false),
     /** A manager's reason to return a tool with a requalification template but no passing record. */
-    returnOverrideReason: z.string().trim().min(5, 'Say why the tool may return without a passing record.').max(1000).optional(),
+    returnOverrideReason: plainText().trim().min(5, 'Say why the tool may return without a passing record.').max(1000).optional(),
   }),
   z.strictObject({ action: z.literal('close'), version }),
   z.strictObject({ action: z.literal('reopen'), version, reason: optionalText(1000) }),
