@@ -301,7 +301,11 @@ export function AnalyticsPage() {
         </Alert>
       )}
       {data && <Report report={data} />}
-      <AlarmLoadSection />
+      {/* The alarm load is the whole facility's last 30 days, whatever the chosen scope and
+          period, so it stays off the printed page of the scope's report. */}
+      <div className="print:hidden">
+        <AlarmLoadSection />
+      </div>
     </div>
   );
 }
