@@ -14,7 +14,7 @@ import { localSecrets } from '../lib/local-secrets';
 
 const TOOLS = 300;
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 15);
-const BURST_EVENTS = 10_000;
+const BURST_EVENTS = Number(process.env.BENCH_BURST ?? 10_000);
 const BURST_BATCH = 500;
 
 const secrets = localSecrets();
@@ -204,6 +204,14 @@ try {
   const board1 = boardReader(server.url, displayKey);
   const steady = await sustained(server.url, keys.slice(0, TOOLS), SECONDS);
   await board1.stop();
+  // Printed as it comes: on a busy machine the burst phase can take minutes.
+  console.log(
+    `steady phase: ${steady.accepted} events in ${steady.elapsed.toFixed(1)} s; ingest p50 ${pct(steady.latencies, 50).toFixed(1)} ms, p99 ${pct(steady.latencies, 99).toFixed(1)} ms; ` +
+      `board p99 ${pct(
+        board1.samples.map((x) => x.ms),
+        99,
+      ).toFixed(1)} ms; load ${os.loadavg()[0].toFixed(2)}`,
+  );
 
   // Phase 2: steady traffic plus the burst; the board's figures are taken during the burst.
   const board2 = boardReader(server.url, displayKey);
