@@ -116,7 +116,13 @@ export class OutboxWorker {
       });
       for (const mail of due) {
         try {
-          await this.transport.sendMail({ from: this.config.MAIL_FROM, to: mail.toAddress, subject: mail.subject, text: mail.textBody, html: mail.htmlBody ?? undefined });
+          await this.transport.sendMail({
+            from: this.config.MAIL_FROM,
+            to: mail.toAddress,
+            subject: mail.subject,
+            text: mail.textBody,
+            html: mail.htmlBody ?? undefined,
+          });
           await mail.update({ status: 'sent', sentAt: new Date(), attempts: mail.attempts + 1, lastError: null });
           sent++;
         } catch (error) {

@@ -16,7 +16,8 @@ beforeAll(async () => {
 afterAll(() => server.close());
 
 /** Fills route parameters with plausible values so the request reaches the access check. */
-const concrete = (path: string) => path.replace(/:(\w+)/g, (_m, name: string) => (/token|key/i.test(name) ? 'x'.repeat(43) : /code/i.test(name) ? 'NOPE' : '1'));
+const concrete = (path: string) =>
+  path.replace(/:(\w+)/g, (_m, name: string) => (/token|key/i.test(name) ? 'x'.repeat(43) : /code/i.test(name) ? 'NOPE' : '1'));
 
 /** Counts route handlers Express really has, including nested routers. */
 function countExpressRoutes(app: Express): number {
@@ -53,7 +54,9 @@ describe('access rules', () => {
 
   it('when a member calls a route that needs a higher role, then 403', async () => {
     const { client } = await signedInClient(server.url, 'member');
-    const staffOnly = routes.filter((r) => r.access !== 'public' && r.access !== 'display' && r.access !== 'tool' && !hasRole('member', r.access));
+    const staffOnly = routes.filter(
+      (r) => r.access !== 'public' && r.access !== 'display' && r.access !== 'tool' && !hasRole('member', r.access),
+    );
     expect(staffOnly.length).toBeGreaterThan(0);
     for (const r of staffOnly) {
       const res = await client.request(r.method.toUpperCase(), `/api${concrete(r.path)}`);

@@ -40,7 +40,8 @@ export async function unfollowTool(userId: number, toolId: number) {
 /** The link in the e-mail: whoever holds the token may stop that one follow, signed in or not. */
 export async function unfollowByToken(token: string) {
   const follow = await ToolFollow.findOne({ where: { unfollowToken: token } });
-  if (!follow) throw new AppError(404, 'unfollow_link_unknown', 'This link is not valid any more. You may have stopped following the tool already.');
+  if (!follow)
+    throw new AppError(404, 'unfollow_link_unknown', 'This link is not valid any more. You may have stopped following the tool already.');
   const tool = await Tool.findByPk(follow.toolId, { attributes: ['id', 'code', 'name'] });
   await ToolFollow.destroy({ where: { userId: follow.userId, toolId: follow.toolId } });
   return { tool: tool ? { id: tool.id, code: tool.code, name: tool.name } : null };
@@ -55,7 +56,8 @@ const RUNNING: readonly E10State[] = ['productive', 'standby'];
 export function isWorthTelling(change: StateChangeResult): boolean {
   const { previous, current } = change;
   if (!previous) return false;
-  const quietFlip = RUNNING.includes(previous.state) && RUNNING.includes(current.state) && (previous.restriction ?? null) === (current.restriction ?? null);
+  const quietFlip =
+    RUNNING.includes(previous.state) && RUNNING.includes(current.state) && (previous.restriction ?? null) === (current.restriction ?? null);
   return !quietFlip;
 }
 
@@ -113,7 +115,12 @@ async function notifyFollowers(change: StateChangeResult, transaction: Transacti
     ].join('\n'),
   }));
   await queueMail(mails, transaction);
-  await createNotices(deps, followers.map((f) => f.userId), { kind: 'tool_state', title, body: lines.slice(0, 4).join(' '), link }, transaction);
+  await createNotices(
+    deps,
+    followers.map((f) => f.userId),
+    { kind: 'tool_state', title, body: lines.slice(0, 4).join(' '), link },
+    transaction,
+  );
 }
 
 onStateChanged(notifyFollowers);

@@ -18,8 +18,17 @@ function why(tool: BoardTool): string | null {
 function AttentionRow({ tool, now }: { tool: BoardTool; now: number }) {
   const back = tool.expectedReturnAt ? new Date(tool.expectedReturnAt) : null;
   return (
-    <li className="flex flex-col gap-2 border-b-2 border-line py-3 last:border-0 sm:flex-row sm:items-center sm:gap-5" data-testid={`display-tool-${tool.code}`} data-status={tool.status}>
-      <StateBadge status={tool.status} size="xl" className="self-start sm:w-[18rem] sm:self-center" label={tool.confirmed ? undefined : `${BOARD_LABELS[tool.status]}*`} />
+    <li
+      className="flex flex-col gap-2 border-b-2 border-line py-3 last:border-0 sm:flex-row sm:items-center sm:gap-5"
+      data-testid={`display-tool-${tool.code}`}
+      data-status={tool.status}
+    >
+      <StateBadge
+        status={tool.status}
+        size="xl"
+        className="self-start sm:w-[18rem] sm:self-center"
+        label={tool.confirmed ? undefined : `${BOARD_LABELS[tool.status]}*`}
+      />
       <div className="min-w-0 flex-1">
         <p className="text-[clamp(1.5rem,2.4vw,2.75rem)] leading-tight font-bold break-words text-ink">
           {tool.name} <span className="font-mono text-[0.6em] font-semibold whitespace-nowrap text-muted">{tool.code}</span>
@@ -55,7 +64,9 @@ export function DisplayBoard({ name, data, status, areaCodes = [] }: DisplayBoar
   const areas = wanted.size ? data.areas.filter((a) => wanted.has(a.code.toUpperCase())) : data.areas;
   const tools = areas.flatMap((a) => a.tools);
   const counts = wanted.size ? countsOf(tools) : data.counts;
-  const attention = tools.filter((t) => t.status !== 'running').sort((a, b) => BOARD_LOOK[a.status].rank - BOARD_LOOK[b.status].rank || a.name.localeCompare(b.name));
+  const attention = tools
+    .filter((t) => t.status !== 'running')
+    .sort((a, b) => BOARD_LOOK[a.status].rank - BOARD_LOOK[b.status].rank || a.name.localeCompare(b.name));
   const worstFirst = [...BOARD_STATUSES].sort((a, b) => BOARD_LOOK[a].rank - BOARD_LOOK[b].rank);
   const anyUnconfirmed = attention.some((t) => !t.confirmed);
 
@@ -79,8 +90,15 @@ export function DisplayBoard({ name, data, status, areaCodes = [] }: DisplayBoar
         </ul>
         <div className="ml-auto text-right">
           <p className="text-[clamp(2rem,3.5vw,4rem)] leading-none font-bold tabular-nums text-ink">{clock.format(now)}</p>
-          <p className={cx('text-[clamp(0.9rem,1.1vw,1.25rem)] font-semibold', status === 'live' ? 'text-muted' : 'text-alert-danger-ink')} role="status">
-            {status === 'live' ? 'Live' : status === 'connecting' ? 'Connecting…' : 'Connection lost — reconnecting; the board may be out of date'}
+          <p
+            className={cx('text-[clamp(0.9rem,1.1vw,1.25rem)] font-semibold', status === 'live' ? 'text-muted' : 'text-alert-danger-ink')}
+            role="status"
+          >
+            {status === 'live'
+              ? 'Live'
+              : status === 'connecting'
+                ? 'Connecting…'
+                : 'Connection lost — reconnecting; the board may be out of date'}
           </p>
         </div>
       </header>
@@ -96,7 +114,9 @@ export function DisplayBoard({ name, data, status, areaCodes = [] }: DisplayBoar
             ))}
           </ul>
         )}
-        {anyUnconfirmed && <p className="pt-2 text-[clamp(1rem,1.2vw,1.4rem)] text-muted">* Reported by a user; staff have not confirmed it yet.</p>}
+        {anyUnconfirmed && (
+          <p className="pt-2 text-[clamp(1rem,1.2vw,1.4rem)] text-muted">* Reported by a user; staff have not confirmed it yet.</p>
+        )}
       </section>
 
       <section aria-label="All tools" className="columns-1 gap-6 sm:columns-2 xl:columns-3 2xl:columns-4">
@@ -116,7 +136,8 @@ export function DisplayBoard({ name, data, status, areaCodes = [] }: DisplayBoar
       </section>
 
       <footer className="mt-auto text-[clamp(0.875rem,1vw,1.125rem)] text-muted">
-        Scan a tool’s label to report a problem. This screen does not replace the facility’s alarms: in an emergency, follow the emergency procedures.
+        Scan a tool’s label to report a problem. This screen does not replace the facility’s alarms: in an emergency, follow the emergency
+        procedures.
       </footer>
     </div>
   );

@@ -32,13 +32,35 @@ function Row({ target }: { target: ServiceTargetView }) {
   };
 
   return (
-    <form onSubmit={submit} className="flex flex-col gap-3 border-b border-line py-4 last:border-b-0" aria-label={`Targets for ${PRIORITY_LABELS[target.priority]}`}>
+    <form
+      onSubmit={submit}
+      className="flex flex-col gap-3 border-b border-line py-4 last:border-b-0"
+      aria-label={`Targets for ${PRIORITY_LABELS[target.priority]}`}
+    >
       <div className="flex items-center gap-2">
         <PriorityBadge priority={target.priority} long />
       </div>
       <div className="grid items-start gap-3 sm:grid-cols-[1fr_1fr_auto]">
-        <TextField label="Acknowledge within (minutes)" hint={formatDuration(Number(ack) * 60_000)} type="number" inputMode="numeric" min={1} value={ack} onChange={(e) => setAck(e.target.value)} errors={errors.acknowledgeMinutes} />
-        <TextField label="Restore within (minutes)" hint={formatDuration(Number(restore) * 60_000)} type="number" inputMode="numeric" min={1} value={restore} onChange={(e) => setRestore(e.target.value)} errors={errors.restoreMinutes} />
+        <TextField
+          label="Acknowledge within (minutes)"
+          hint={formatDuration(Number(ack) * 60_000)}
+          type="number"
+          inputMode="numeric"
+          min={1}
+          value={ack}
+          onChange={(e) => setAck(e.target.value)}
+          errors={errors.acknowledgeMinutes}
+        />
+        <TextField
+          label="Restore within (minutes)"
+          hint={formatDuration(Number(restore) * 60_000)}
+          type="number"
+          inputMode="numeric"
+          min={1}
+          value={restore}
+          onChange={(e) => setRestore(e.target.value)}
+          errors={errors.restoreMinutes}
+        />
         <Button type="submit" className="sm:mt-7" disabled={!dirty} busy={update.isPending}>
           Save {target.priority}
         </Button>
@@ -56,9 +78,18 @@ function Row({ target }: { target: ServiceTargetView }) {
 export function ServiceTargetsEditor() {
   const targets = useServiceTargets();
   if (targets.isPending) return <PageSpinner label="Loading the targets…" />;
-  if (targets.isError) return <Alert tone="danger" live title="The targets could not be loaded">{targets.error.message}</Alert>;
+  if (targets.isError)
+    return (
+      <Alert tone="danger" live title="The targets could not be loaded">
+        {targets.error.message}
+      </Alert>
+    );
   return (
-    <Card as="section" title="Targets per priority" description={`Clock time from the report. A timer turns to a warning at ${Math.round(TARGET_WARNING_FRACTION * 100)} % of its target and counts as missed after it.`}>
+    <Card
+      as="section"
+      title="Targets per priority"
+      description={`Clock time from the report. A timer turns to a warning at ${Math.round(TARGET_WARNING_FRACTION * 100)} % of its target and counts as missed after it.`}
+    >
       {targets.data.map((t) => (
         <Row key={`${t.priority}-${t.updatedAt}`} target={t} />
       ))}

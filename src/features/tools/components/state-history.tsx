@@ -23,7 +23,9 @@ const UNNAMED: Record<string, string> = {
 function Entry({ entry }: { entry: HistoryEntry }) {
   const status = boardStatusOf(entry.state);
   const lasted = entry.endedAt ? formatDuration(new Date(entry.endedAt).getTime() - new Date(entry.startedAt).getTime()) : null;
-  const who = entry.setBy ? `by ${entry.setBy.name}${entry.source === 'user_report' ? ' (a user’s report)' : ''}` : (UNNAMED[entry.source] ?? 'set by staff');
+  const who = entry.setBy
+    ? `by ${entry.setBy.name}${entry.source === 'user_report' ? ' (a user’s report)' : ''}`
+    : (UNNAMED[entry.source] ?? 'set by staff');
   return (
     <li className="relative flex gap-3 pb-5 last:pb-0" data-testid="history-entry">
       <span aria-hidden="true" className="absolute top-8 bottom-0 left-[0.6875rem] w-0.5 bg-line" />
