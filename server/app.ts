@@ -105,7 +105,7 @@ export function createApp(deps: AppDeps, opts: AppOptions) {
   mountRoutes(api, '', healthRoutes(), deps, registry);
   // Tools post with their own key, before sessions and CSRF; 500 events fit in 1 MB.
   api.use('/ingest/v1', toolKeyAuth(log), express.json({ limit: '1mb' }));
-  mountRoutes(api, '', ingestRoutes(), deps, registry);
+  mountRoutes(api, '', ingestRoutes(config.DB_POOL_MAX), deps, registry);
   api.use(express.json({ limit: '200kb' }));
   api.use(opts.session);
   api.use(opts.passport.initialize());

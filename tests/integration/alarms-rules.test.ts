@@ -113,9 +113,13 @@ describe('alarm rules', () => {
     expect(page.body.history.filter((o: { chattering: boolean }) => o.chattering).length).toBeGreaterThanOrEqual(3);
 
     const lastClear = start.getTime() + 48_000;
-    expect((await runAlarmSweep(server.deps, new Date(lastClear + 5 * 60_000))).summaries).toBe(0);
-    expect((await runAlarmSweep(server.deps, new Date(lastClear + 11 * 60_000))).summaries).toBeGreaterThanOrEqual(1);
-    expect((await runAlarmSweep(server.deps, new Date(lastClear + 12 * 60_000))).summaries).toBe(0);
+    // Other tests' alarms may be swept too (shared database); this alarm's mail is what counts.
+    await runAlarmSweep(server.deps, new Date(lastClear + 5 * 60_000));
+    await drainOutbox(server);
+    expect(mailTo(engineer.email, /Chattering alarm LEVEL-3/)).toHaveLength(0);
+    expect((await tech.get(`/api/tools/${tool.code}/alarms`)).body.chatteringAlarms).toEqual(['LEVEL-3']);
+    await runAlarmSweep(server.deps, new Date(lastClear + 11 * 60_000));
+    await runAlarmSweep(server.deps, new Date(lastClear + 12 * 60_000));
     await drainOutbox(server);
     expect(mailTo(engineer.email, /Chattering alarm LEVEL-3/)).toHaveLength(1);
     expect(mailTo(engineer.email)).toHaveLength(2);

@@ -15,6 +15,7 @@ import {
   updateToolSettings,
 } from './alarms.service';
 import { ingestOpenApi } from './openapi';
+import { ingestGate } from './ingest-gate';
 import { toolCode } from '../../../shared/schemas/facility';
 import {
   alarmCsvImportSchema,
@@ -36,13 +37,16 @@ const pageQuery = z.strictObject({
 });
 
 /** The machine-facing API, mounted before sessions and CSRF (a tool key is its only credential). */
-export function ingestRoutes(): RouteSpec[] {
+export function ingestRoutes(poolMax: number): RouteSpec[] {
+  // Ingest may use at most about half of the database connections; people keep the rest.
+  const gate = ingestGate({ concurrent: Math.max(1, Math.floor(poolMax / 2)), queue: 200 });
   return [
     route({
       method: 'post',
       path: '/ingest/v1/alarms',
       access: 'tool',
       summary: 'Alarm set/clear events from the tool that owns the key',
+      before: [gate],
       body: alarmIngestSchema,
       status: 202,
       handle: async ({ deps, req, body }) => {
@@ -55,6 +59,7 @@ export function ingestRoutes(): RouteSpec[] {
       path: '/ingest/v1/counters',
       access: 'tool',
       summary: 'Usage counter readings from the tool that owns the key',
+      before: [gate],
       body: counterIngestSchema,
       status: 202,
       handle: ({ deps, req, body }) => ingestCounterReadings(deps, req.toolKey!.toolId, body.readings),

@@ -1,7 +1,7 @@
 import { QueryTypes } from 'sequelize';
 import { AlarmCategoryRule, AlarmDefinition, AlarmToolSettings } from './alarms.model';
 import { categoryRules, effectiveRule } from './rules.service';
-import { lockToolSettings } from './ingest.service';
+import { ingestTransaction, lockToolSettings } from './ingest.service';
 import { findToolIdByCode } from '../facility/tools.service';
 import { badRequest, notFound } from '../../lib/errors';
 import type { AppDeps } from '../../lib/http';
@@ -215,8 +215,8 @@ export async function updateToolSettings(
   input: { defaultRule?: AlarmRule | null; chatterCount?: number; chatterWindowSeconds?: number },
 ) {
   const toolId = await findToolIdByCode(code);
-  return deps.sequelize.transaction(async (transaction) => {
-    const s = await lockToolSettings(deps, toolId, transaction);
+  return ingestTransaction(deps, toolId, async (transaction) => {
+    const s = await lockToolSettings(toolId, transaction);
     if (input.defaultRule !== undefined) s.defaultRule = input.defaultRule;
     if (input.chatterCount !== undefined) s.chatterCount = input.chatterCount;
     if (input.chatterWindowSeconds !== undefined) s.chatterWindowS = input.chatterWindowSeconds;

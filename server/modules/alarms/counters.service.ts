@@ -1,6 +1,6 @@
 import { Op, QueryTypes } from 'sequelize';
 import { CounterReading } from './alarms.model';
-import { lockToolSettings } from './ingest.service';
+import { ingestTransaction, lockToolSettings } from './ingest.service';
 import type { AppDeps } from '../../lib/http';
 import type { IngestAnswer } from '../../../shared/schemas/alarms';
 
@@ -22,8 +22,8 @@ export async function ingestCounterReadings(
   readings: readonly CounterReadingInput[],
   now = new Date(),
 ): Promise<IngestAnswer> {
-  return deps.sequelize.transaction(async (transaction) => {
-    await lockToolSettings(deps, toolId, transaction);
+  return ingestTransaction(deps, toolId, async (transaction) => {
+    await lockToolSettings(toolId, transaction);
     const ids = [...new Set(readings.map((r) => r.id))];
     const existing = await CounterReading.findAll({ where: { toolId, senderId: ids }, attributes: ['senderId'], transaction });
     const seen = new Set(existing.map((r) => r.senderId));

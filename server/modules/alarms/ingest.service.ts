@@ -1,5 +1,5 @@
 import crypto from 'node:crypto';
-import { QueryTypes, type Transaction } from 'sequelize';
+import { QueryTypes, Transaction } from 'sequelize';
 import { AlarmDefinition, AlarmOccurrence, AlarmToolSettings } from './alarms.model';
 import { applyRules, type NewOccurrence } from './rules.service';
 import { badRequest } from '../../lib/errors';
@@ -23,14 +23,38 @@ interface NormalEvent {
   at: Date;
 }
 
-/** Takes the per-tool ingest lock (creating the tool's settings row on first use). */
-export async function lockToolSettings(deps: AppDeps, toolId: number, transaction: Transaction) {
-  await deps.sequelize.query(`INSERT IGNORE INTO alarm_tool_settings (tool_id, updated_at) VALUES (:toolId, UTC_TIMESTAMP(3))`, {
+/**
+ * The tool's settings row exists before any ingest transaction locks it. Created outside the
+ * transaction: an INSERT IGNORE inside it would take a shared lock on an existing row, and two
+ * requests of the same tool holding that shared lock while both asking for the exclusive one
+ * deadlock.
+ */
+export async function ensureToolSettings(deps: AppDeps, toolId: number) {
+  const [exists] = await deps.sequelize.query(`SELECT 1 AS x FROM alarm_tool_settings WHERE tool_id = :toolId`, {
     replacements: { toolId },
-    transaction,
+    type: QueryTypes.SELECT,
   });
+  if (!exists)
+    await deps.sequelize.query(`INSERT IGNORE INTO alarm_tool_settings (tool_id, updated_at) VALUES (:toolId, UTC_TIMESTAMP(3))`, {
+      replacements: { toolId },
+    });
+}
+
+/** Takes the per-tool ingest lock; ingestTransaction made sure the row exists. */
+export async function lockToolSettings(toolId: number, transaction: Transaction) {
   const settings = await AlarmToolSettings.findByPk(toolId, { transaction, lock: transaction.LOCK.UPDATE });
-  return settings!;
+  if (!settings) throw new Error(`alarm settings of tool ${toolId} are missing`);
+  return settings;
+}
+
+/**
+ * Ingest transactions: all of one tool's work is serialised by its settings row, so READ
+ * COMMITTED is enough and spares the gap locks that would make different tools wait on each
+ * other in the shared indexes.
+ */
+export async function ingestTransaction<T>(deps: AppDeps, toolId: number, work: (t: Transaction) => Promise<T>): Promise<T> {
+  await ensureToolSettings(deps, toolId);
+  return deps.sequelize.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, work);
 }
 
 /** Module codes of the tool → ids; an unknown code is bad input naming the code. */
@@ -83,16 +107,24 @@ async function ensureDefinitions(deps: AppDeps, toolId: number, events: NormalEv
       first.set(e.alarmKey, { ...e, text: known?.text ?? e.text, category: known?.category ?? e.category });
   }
   const list = [...first.values()];
-  const placeholders = list.map(() => '(?, ?, ?, ?, ?, UTC_TIMESTAMP(3), UTC_TIMESTAMP(3))').join(', ');
-  const values = list.flatMap((e) => [toolId, e.alarmKey, e.text ?? `Alarm ${e.alarmKey}`, e.category, e.moduleId]);
+  const known = await AlarmDefinition.findAll({ where: { toolId, alarmKey: list.map((e) => e.alarmKey) }, transaction });
+  const byKey = new Map(known.map((d) => [d.alarmKey, d]));
+  const missing = list.filter((e) => !byKey.has(e.alarmKey));
+  if (missing.length) {
+    // The tool's lock is held, so nobody else inserts these keys meanwhile.
+    await deps.sequelize.query(
+      `INSERT INTO alarm_definitions (tool_id, alarm_key, text, category, module_id, created_at, updated_at) VALUES ${missing.map(() => '(?, ?, ?, ?, ?, UTC_TIMESTAMP(3), UTC_TIMESTAMP(3))').join(', ')}`,
+      { replacements: missing.flatMap((e) => [toolId, e.alarmKey, e.text ?? `Alarm ${e.alarmKey}`, e.category, e.moduleId]), transaction },
+    );
+    for (const d of await AlarmDefinition.findAll({ where: { toolId, alarmKey: missing.map((e) => e.alarmKey) }, transaction }))
+      byKey.set(d.alarmKey, d);
+  }
   // A category learnt later fills an empty one; the text stays as first seen (or as edited).
-  await deps.sequelize.query(
-    `INSERT INTO alarm_definitions (tool_id, alarm_key, text, category, module_id, created_at, updated_at) VALUES ${placeholders}
-     ON DUPLICATE KEY UPDATE category = COALESCE(category, VALUES(category))`,
-    { replacements: values, transaction },
-  );
-  const defs = await AlarmDefinition.findAll({ where: { toolId, alarmKey: list.map((e) => e.alarmKey) }, transaction });
-  return new Map(defs.map((d) => [d.alarmKey, d]));
+  for (const e of list) {
+    const d = byKey.get(e.alarmKey)!;
+    if (d.category === null && e.category !== null) await d.update({ category: e.category }, { transaction });
+  }
+  return byKey;
 }
 
 export interface IngestOutcome extends IngestAnswer {
@@ -108,8 +140,8 @@ export async function ingestAlarmEvents(
 ): Promise<IngestOutcome> {
   const modules = await resolveModules(deps, toolId, input);
   const events = normalise(input, modules);
-  return deps.sequelize.transaction(async (transaction) => {
-    const settings = await lockToolSettings(deps, toolId, transaction);
+  return ingestTransaction(deps, toolId, async (transaction) => {
+    const settings = await lockToolSettings(toolId, transaction);
     // The same id twice — in earlier requests or within this one — is stored once.
     const ids = [...new Set(events.map((e) => e.senderId))];
     const existing = await deps.sequelize.query<{ senderId: string }>(
@@ -193,8 +225,8 @@ export async function clearByHand(deps: AppDeps, occurrenceId: number, actorId: 
   const occurrence = await AlarmOccurrence.findByPk(occurrenceId);
   if (!occurrence) throw badRequest('That alarm was not found.', { id: ['Unknown alarm occurrence.'] });
   if (occurrence.clearedAt) return { id: occurrence.id, clearedAt: occurrence.clearedAt.toISOString() };
-  return deps.sequelize.transaction(async (transaction) => {
-    const settings = await lockToolSettings(deps, occurrence.toolId, transaction);
+  return ingestTransaction(deps, occurrence.toolId, async (transaction) => {
+    const settings = await lockToolSettings(occurrence.toolId, transaction);
     const at = now < occurrence.setAt ? occurrence.setAt : now;
     await insertEvents(
       deps,

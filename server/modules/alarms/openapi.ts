@@ -41,6 +41,10 @@ function post(summary: string, description: string, body: ZodType) {
       },
       '400': { description: 'Bad input: field messages; nothing was stored.', content: { 'application/json': { schema: errorBody } } },
       '401': { description: 'No key, an unknown key or a revoked key.', content: { 'application/json': { schema: errorBody } } },
+      '503': {
+        description: 'Busy taking in other events; send again after the Retry-After seconds (ids make it safe).',
+        content: { 'application/json': { schema: errorBody } },
+      },
       '429': {
         description: 'Too many requests from this key; retry after the Retry-After seconds.',
         content: { 'application/json': { schema: errorBody } },
