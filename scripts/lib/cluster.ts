@@ -42,7 +42,7 @@ export function ensureClusterPackages() {
   run(['apt-get', 'install', '-y', '-qq', '--no-install-recommends', 'redis-server', 'haproxy']);
 }
 
-async function waitFor(check: () => Promise<boolean>, what: string, ms = 30_000) {
+async function waitFor(check: () => Promise<boolean>, what: string, ms = 90_000) {
   const deadline = Date.now() + ms;
   while (Date.now() < deadline) {
     if (await check().catch(() => false)) return;

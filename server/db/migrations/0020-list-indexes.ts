@@ -28,6 +28,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
 export async function down({ context: qi }: { context: QueryInterface }) {
   const q = (sql: string) => qi.sequelize.query(sql);
   await q(`ALTER TABLE state_intervals DROP KEY state_open_by_tool, DROP KEY state_tool_history`);
-  await q(`ALTER TABLE ticket_events DROP KEY ticket_events_actor_kind`);
+  // InnoDB dropped the foreign key's own index on actor_id when the wider one arrived: put it back first.
+  await q(`ALTER TABLE ticket_events ADD KEY ticket_events_actor_id (actor_id), DROP KEY ticket_events_actor_kind`);
   await q(`ALTER TABLE tickets DROP KEY tickets_by_queue, DROP KEY tickets_by_newest, DROP KEY tickets_hazard, DROP COLUMN has_hazard`);
 }
