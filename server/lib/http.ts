@@ -131,6 +131,12 @@ function parsePart(schema: ZodType | undefined, value: unknown, where: 'body' | 
   return result.data;
 }
 
+/** Whether the request carries a body at all (chunked or a non-zero length). */
+function sentBody(req: Request) {
+  const length = req.headers['content-length'];
+  return req.headers['transfer-encoding'] !== undefined || (length !== undefined && length !== '0');
+}
+
 /** Mounts declared routes and records each in `registry` (the access-rule test walks it). */
 export function mountRoutes(router: Router, prefix: string, routes: RouteSpec[], deps: AppDeps, registry: RegisteredRoute[]) {
   for (const spec of routes) {
@@ -145,6 +151,10 @@ export function mountRoutes(router: Router, prefix: string, routes: RouteSpec[],
     });
     const run: RequestHandler = async (req: Request, res: Response, next: NextFunction) => {
       try {
+        // A body no parser read (e.g. multipart sent to a JSON route) is refused, not taken as {}.
+        if (spec.body && req.body === undefined && sentBody(req)) {
+          throw new AppError(415, 'unsupported_media_type', 'Send this request as JSON.');
+        }
         const body = parsePart(spec.body, req.body, 'body');
         const query = parsePart(spec.query, req.query, 'query');
         const params = parsePart(spec.params, req.params, 'params');

@@ -10,8 +10,8 @@ import { createTransport, OutboxWorker, queueMail } from '../../server/lib/maile
 
 let server: TestServer;
 beforeAll(async () => {
-  // Worker driven by hand (runOnce) so the test controls the timing; short back-off.
-  server = await startTestServer({ OUTBOX_BASE_BACKOFF_MS: '200' }, { outboxWorker: false });
+  // Worker and account-mail queue driven by hand (runOnce) so the test controls the timing; short back-off.
+  server = await startTestServer({ OUTBOX_BASE_BACKOFF_MS: '200' }, { outboxWorker: false, accountMailQueue: false });
   // The reset-request limit counts per address across runs of a kept test database.
   await Throttle.destroy({ where: { key: { [Op.like]: 'rl:password-reset:%' } } });
   // Start from an empty queue so the first pass below is about this test's mail only.

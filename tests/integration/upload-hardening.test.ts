@@ -35,6 +35,8 @@ afterAll(async () => {
   fs.rmSync(dir, { recursive: true, force: true });
 });
 
+// What a browser on the public address sends: the CSRF check accepts PUBLIC_URL's origin only.
+const publicOrigin = () => new URL(server.config.publicUrl).origin;
 const unhandled = () => lines.filter((l) => l.msg === 'unhandled error');
 const filesUnder = (sub: string) => (fs.existsSync(path.join(dir, sub)) ? fs.readdirSync(path.join(dir, sub)) : []);
 
@@ -46,7 +48,7 @@ async function eventually(check: () => boolean, what: string) {
 /** Sends raw bytes with the client's session cookie and CSRF token; resolves with status and body. */
 async function raw(client: TestClient, method: string, urlPath: string, contentType: string | null, body: Buffer | string) {
   if (!client.csrfToken) await client.refreshCsrf();
-  const headers: Record<string, string> = { cookie: client.cookie ?? '', 'x-csrf-token': client.csrfToken ?? '', origin: server.url };
+  const headers: Record<string, string> = { cookie: client.cookie ?? '', 'x-csrf-token': client.csrfToken ?? '', origin: publicOrigin() };
   if (contentType) headers['content-type'] = contentType;
   const res = await fetch(server.url + urlPath, { method, headers, body: typeof body === 'string' ? body : new Uint8Array(body) });
   const text = await res.text();
@@ -174,7 +176,7 @@ function openUpload(client: TestClient, urlPath: string, report: unknown, photo:
     headers: {
       cookie: client.cookie ?? '',
       'x-csrf-token': client.csrfToken ?? '',
-      origin: server.url,
+      origin: publicOrigin(),
       'content-type': `multipart/form-data; boundary=${B}`,
       'content-length': body.length + tail.length,
     },
