@@ -70,7 +70,10 @@ async function fill(sequelize: Awaited<ReturnType<typeof rebuildDatabase>>) {
   let planId = 0;
   for (let t = 1; t <= TOOLS; t++) {
     let counter = 0;
-    for (let d = YEARS * 365; d >= 0; d -= 7) readings.push(`(${t}, 'wafers', ${(counter += rnd.int(100, 300))}, '${fmt(now - d * DAY)}')`);
+    for (let d = YEARS * 365; d >= 0; d -= 7) {
+      const at = fmt(now - d * DAY);
+      readings.push(`(${t}, 'seed-${readings.length + 1}', 'wafers', ${(counter += rnd.int(100, 300))}, '${at}', '${at}')`);
+    }
     for (let p = 0; p < PLANS_PER_TOOL; p++) {
       const id = ++planId;
       const usage = p % 3 === 2;
@@ -100,7 +103,9 @@ async function fill(sequelize: Awaited<ReturnType<typeof rebuildDatabase>>) {
     );
   }
   for (let i = 0; i < readings.length; i += 5000)
-    await q(`INSERT INTO usage_readings (tool_id, counter, value, at) VALUES ${readings.slice(i, i + 5000).join(',')}`);
+    await q(
+      `INSERT INTO counter_readings (tool_id, sender_id, counter, value, at, received_at) VALUES ${readings.slice(i, i + 5000).join(',')}`,
+    );
   return { plans: plans.length, orders: orders.length, readings: readings.length };
 }
 

@@ -6,6 +6,7 @@ import { alarmEvent, ingest, setClearPairs, toolWithKey } from './alarms-fixture
 import { openState } from './tickets-fixtures';
 import { runAlarmSweep } from '../../server/modules/alarms/sweep';
 import type { TestClient } from '../support/client';
+import type { BoardToolChange } from '../../shared/events';
 
 let server: TestServer;
 let tech: TestClient;
@@ -43,14 +44,20 @@ describe('alarm rules', () => {
         socket.once('connect', () => resolve());
         socket.once('connect_error', reject);
       });
-      const heard = new Promise<{ toolId: number; state: string }>((resolve) =>
-        socket.on('tool.state_changed', (p) => p.toolId === tool.id && resolve(p)),
+      // Board changes travel with the tool's new board entry (shared/events.ts).
+      const heard = new Promise<BoardToolChange>((resolve) =>
+        socket.on('board.tool_changed', (p: BoardToolChange) => p.tool.id === tool.id && resolve(p)),
       );
       const first = await ingest(server, key, 'alarms', {
         events: [alarmEvent(2041, true, secondsAgo(3 * 3600), { text: 'CHAMBER PRESSURE HIGH' })],
       });
       expect(first.status).toBe(202);
-      expect(await heard).toMatchObject({ toolId: tool.id, state: 'unscheduled_downtime' });
+      const change = await Promise.race([
+        heard,
+        new Promise<never>((_, reject) => setTimeout(() => reject(new Error('no board.tool_changed within 10 s')), 10_000)),
+      ]);
+      expect(change.tool).toMatchObject({ id: tool.id, state: 'unscheduled_downtime', status: 'down' });
+      expect(change.tool.activeAlarm).toMatchObject({ alarmId: '2041', text: 'CHAMBER PRESSURE HIGH' });
     } finally {
       socket.disconnect();
     }

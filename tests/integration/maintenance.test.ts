@@ -79,10 +79,10 @@ describe('scheduler', () => {
 
   it("when the counter readings cross a usage plan's lead threshold, then it comes due (and not before)", async () => {
     const { tool } = await makeTool(a.deps.sequelize);
-    await recordCounterReading(a.deps.sequelize, tool.id, 'wafers', 12340, new Date(Date.now() - 30 * DAY));
+    await recordCounterReading(a.deps, tool.id, 'wafers', 12340, new Date(Date.now() - 30 * DAY));
     const plan = await newPlan(tool.id, { everyDays: null, everyUnits: 5000, counterName: 'wafers', leadUnits: 500, leadDays: 0 });
     expect(plan.due.dueAtCounter).toBe(17340);
-    await recordCounterReading(a.deps.sequelize, tool.id, 'wafers', 16800, new Date(Date.now() - DAY));
+    await recordCounterReading(a.deps, tool.id, 'wafers', 16800, new Date(Date.now() - DAY));
     await runSchedulerPass(a.deps);
     expect(await ordersOf(plan.id)).toHaveLength(0);
     const r = await tech.post(`/api/tools/${tool.id}/counter-readings`, { counter: 'wafers', value: 16900 });
@@ -92,6 +92,28 @@ describe('scheduler', () => {
     expect(orders).toHaveLength(1);
     expect(orders[0].dueCounter).toBe(17340);
     const list = await tech.get(`/api/maintenance/plans?toolId=${tool.id}`);
+    expect(list.body.items[0].due).toMatchObject({ unitsLeft: 440, usedPct: 91.2 });
+  });
+
+  it("when a tool's counter is reset, then a usage plan counts the use on both sides of the reset (not from the new low value)", async () => {
+    const { tool } = await makeTool(a.deps.sequelize);
+    await recordCounterReading(a.deps, tool.id, 'wafers', 12340, new Date(Date.now() - 30 * DAY));
+    const plan = await newPlan(tool.id, { everyDays: null, everyUnits: 5000, counterName: 'wafers', leadUnits: 500, leadDays: 0 });
+    expect(plan.due.dueAtCounter).toBe(17340);
+    // 3,660 wafers, then the counter restarts from zero: 500 since the reset, 4,160 in all.
+    await recordCounterReading(a.deps, tool.id, 'wafers', 16000, new Date(Date.now() - 3 * DAY));
+    await recordCounterReading(a.deps, tool.id, 'wafers', 500, new Date(Date.now() - 2 * DAY));
+    await runSchedulerPass(a.deps);
+    expect(await ordersOf(plan.id)).toHaveLength(0);
+    let list = await tech.get(`/api/maintenance/plans?toolId=${tool.id}`);
+    expect(list.body.items[0].due).toMatchObject({ unitsLeft: 840, usedPct: 83.2 });
+    // 400 more after the reset: 4,560 used, within the 500-wafer lead.
+    expect((await tech.post(`/api/tools/${tool.id}/counter-readings`, { counter: 'wafers', value: 900 })).status).toBe(201);
+    await runSchedulerPass(a.deps);
+    const orders = await ordersOf(plan.id);
+    expect(orders).toHaveLength(1);
+    expect(orders[0].dueCounter).toBe(17340);
+    list = await tech.get(`/api/maintenance/plans?toolId=${tool.id}`);
     expect(list.body.items[0].due).toMatchObject({ unitsLeft: 440, usedPct: 91.2 });
   });
 
@@ -515,8 +537,8 @@ describe('MCBF', () => {
     // SEMI E10 MCBF check value from the references (computed): 18,000 wafers and 3 failures.
     const { tool } = await makeTool(a.deps.sequelize);
     const from = new Date(Date.now() - 30 * DAY);
-    await recordCounterReading(a.deps.sequelize, tool.id, 'wafers', 100_000, new Date(from.getTime() + DAY));
-    await recordCounterReading(a.deps.sequelize, tool.id, 'wafers', 118_000, new Date(Date.now() - DAY));
+    await recordCounterReading(a.deps, tool.id, 'wafers', 100_000, new Date(from.getTime() + DAY));
+    await recordCounterReading(a.deps, tool.id, 'wafers', 118_000, new Date(Date.now() - DAY));
     for (let i = 0; i < 3; i++) {
       const t = await downTicket(tool.id);
       const r = await tech.post(`/api/tickets/${t.id}/actions`, {
@@ -532,6 +554,32 @@ describe('MCBF', () => {
       `/api/maintenance/figures?from=${from.toISOString()}&to=${new Date(Date.now() + DAY).toISOString()}&toolId=${tool.id}`,
     );
     expect(r.body.mcbf).toEqual({ toolsWithCounter: 1, wafers: 18_000, failures: 3, wafersPerFailure: 6_000 });
+  });
+});
+
+describe('MCBF across a counter reset', () => {
+  it('when the wafer counter is reset in the period, then MCBF counts the wafers on both sides (12,000 + 6,000 wafers, 2 failures → 9,000)', async () => {
+    const { tool } = await makeTool(a.deps.sequelize);
+    const from = new Date(Date.now() - 30 * DAY);
+    await recordCounterReading(a.deps, tool.id, 'wafers', 100_000, new Date(from.getTime() + DAY));
+    await recordCounterReading(a.deps, tool.id, 'wafers', 112_000, new Date(from.getTime() + 10 * DAY));
+    await recordCounterReading(a.deps, tool.id, 'wafers', 2_000, new Date(from.getTime() + 11 * DAY));
+    await recordCounterReading(a.deps, tool.id, 'wafers', 6_000, new Date(Date.now() - DAY));
+    for (let i = 0; i < 2; i++) {
+      const t = await downTicket(tool.id);
+      const r = await tech.post(`/api/tickets/${t.id}/actions`, {
+        action: 'fix',
+        version: t.version,
+        fixKind: 'failure',
+        workDone: 'Replaced the chuck',
+        returnToService: true,
+      });
+      expect(r.status, r.text).toBe(200);
+    }
+    const r = await manager.get(
+      `/api/maintenance/figures?from=${from.toISOString()}&to=${new Date(Date.now() + DAY).toISOString()}&toolId=${tool.id}`,
+    );
+    expect(r.body.mcbf).toEqual({ toolsWithCounter: 1, wafers: 18_000, failures: 2, wafersPerFailure: 9_000 });
   });
 });
 

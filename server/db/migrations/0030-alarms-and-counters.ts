@@ -114,6 +114,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
   }
 
   // Usage counters (cumulative). A reading lower than the one before it in time is a reset.
+  // Resets are rare: counter_readings_resets lets running totals (maintenance plans) read only those rows.
   await q(`CREATE TABLE counter_readings (
     id BIGINT UNSIGNED AUTO_INCREMENT PRIMARY KEY,
     tool_id INT UNSIGNED NOT NULL,
@@ -125,6 +126,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
     received_at DATETIME(3) NOT NULL,
     UNIQUE KEY counter_readings_sender (tool_id, sender_id),
     KEY counter_readings_series (tool_id, counter, at, id),
+    KEY counter_readings_resets (is_reset, tool_id, counter),
     CONSTRAINT counter_readings_tool FOREIGN KEY (tool_id) REFERENCES tools(id)
   ) ${tail}`);
 }

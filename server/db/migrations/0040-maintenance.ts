@@ -211,23 +211,10 @@ export async function up({ context: qi }: { context: QueryInterface }) {
     CONSTRAINT part_uses_ticket FOREIGN KEY (ticket_id) REFERENCES tickets(id),
     CONSTRAINT part_uses_user FOREIGN KEY (used_by_id) REFERENCES users(id) ON DELETE SET NULL
   ) ${TABLE}`);
-
-  // Usage counter readings (wafers, run hours) as the maintenance module reads them. The
-  // equipment-ingest side may bring its own table; counterReading() is the one reader.
-  await q(`CREATE TABLE usage_readings (
-    id BIGINT UNSIGNED AUTO_INCREMENT PRIMARY KEY,
-    tool_id INT UNSIGNED NOT NULL,
-    counter VARCHAR(40) NOT NULL,
-    value DOUBLE NOT NULL,
-    at DATETIME(3) NOT NULL,
-    KEY usage_readings_latest (tool_id, counter, at),
-    CONSTRAINT usage_readings_tool FOREIGN KEY (tool_id) REFERENCES tools(id) ON DELETE CASCADE
-  ) ${TABLE}`);
 }
 
 export async function down({ context: qi }: { context: QueryInterface }) {
   for (const t of [
-    'usage_readings',
     'part_uses',
     'part_tools',
     'parts',

@@ -79,6 +79,17 @@ export async function seedMaintenance(sequelize: Sequelize, t: Transaction, now 
   planId = Number(next) - 1;
   const planRows: unknown[][] = [];
   const readings: unknown[][] = [];
+  // Counter readings live with the equipment ingest (counter_readings), seeded before this.
+  const ingestWafers = new Map(
+    (
+      await db.query<{ toolId: number; value: number }>(
+        `SELECT r.tool_id AS toolId, r.value FROM counter_readings r
+           JOIN (SELECT tool_id, MAX(at) AS at FROM counter_readings WHERE counter = 'wafers' GROUP BY tool_id) m
+             ON m.tool_id = r.tool_id AND m.at = r.at AND r.counter = 'wafers'`,
+        { type: QueryTypes.SELECT, transaction: t },
+      )
+    ).map((r) => [Number(r.toolId), Number(r.value)]),
+  );
 
   for (const tool of tools) {
     const coater = tool.code.startsWith('TRACK');
@@ -179,10 +190,14 @@ export async function seedMaintenance(sequelize: Sequelize, t: Transaction, now 
     if (/^(TRACK|ICP|DRIE|SPUT|EVAP|PECVD)/.test(tool.code)) {
       const perDay = rnd.int(15, 40);
       let counter = rnd.int(10_000, 60_000);
+      // A tool that already sends its wafer counter (the ingest demo) keeps that one series.
+      const sent = ingestWafers.get(tool.id);
       for (let d = 365; d >= 0; d -= 7) {
         counter += perDay * 7 + rnd.int(-20, 20);
-        readings.push([tool.id, 'wafers', counter, new Date(nowMs - d * DAY)]);
+        const at = new Date(nowMs - d * DAY);
+        if (sent === undefined) readings.push([tool.id, `seed-${readings.length + 1}`, 'wafers', counter, at, at]);
       }
+      if (sent !== undefined) counter = sent;
       const usageId = ++planId;
       const lastAt = counter - rnd.int(500, 4800);
       planRows.push([
@@ -253,7 +268,7 @@ export async function seedMaintenance(sequelize: Sequelize, t: Transaction, now 
     ].concat(['updated_at']),
     woRows.map((r) => [...r, r[r.length - 1]]),
   );
-  await insertMany(t, 'usage_readings', ['tool_id', 'counter', 'value', 'at'], readings);
+  await insertMany(t, 'counter_readings', ['tool_id', 'sender_id', 'counter', 'value', 'at', 'received_at'], readings);
 
   // Three work orders ahead with booked windows, so the board announces them.
   for (const code of ['ALIGN-2', 'RIE-1', 'WB-BASE']) {

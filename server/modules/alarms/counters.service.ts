@@ -1,4 +1,4 @@
-import { Op, QueryTypes } from 'sequelize';
+import { Op, QueryTypes, type Transaction } from 'sequelize';
 import { CounterReading } from './alarms.model';
 import { ingestTransaction, lockToolSettings } from './ingest.service';
 import type { AppDeps } from '../../lib/http';
@@ -6,8 +6,9 @@ import type { IngestAnswer } from '../../../shared/schemas/alarms';
 
 // Usage counters (wafers, run hours, custom) as cumulative readings. A reading lower than the
 // one before it in time is a reset of the counter, recorded as such — never negative use.
-// Other modules (maintenance plans, MCBF) read them through latestCounter / counterReadingsSince
-// / usageSince below.
+// Other modules read them only through this file: latestCounter / counterReadingsSince /
+// usageSince, runningCounters (maintenance plans) and counterUsageByTool (MCBF); manual
+// readings are written through ingestCounterReadings like any other.
 
 export interface CounterReadingInput {
   id: string;
@@ -126,4 +127,67 @@ export async function usageSince(deps: AppDeps, toolId: number, counter: string,
   for (let i = 1; i < rows.length; i++)
     used += Number(rows[i].isReset) ? Number(rows[i].value) : Number(rows[i].value) - Number(rows[i - 1].value);
   return used;
+}
+
+/**
+ * The running total of each asked counter: its latest value plus, for every reset, the value
+ * the counter had just before it. It never goes back, so the difference of two running totals
+ * is the use between them (as usageSince counts it) even across resets. Keyed
+ * `${toolId}|${counter}`; a counter that never sent a reading is missing.
+ */
+export async function runningCounters(
+  deps: AppDeps,
+  toolIds: readonly number[],
+  transaction?: Transaction | null,
+): Promise<Map<string, number>> {
+  const totals = new Map<string, number>();
+  if (toolIds.length === 0) return totals;
+  const ids = [...new Set(toolIds)];
+  const latest = await deps.sequelize.query<{ toolId: number; counter: string; value: number }>(
+    `SELECT r.tool_id AS toolId, r.counter, r.value FROM counter_readings r
+       JOIN (SELECT tool_id, counter, MAX(at) AS at FROM counter_readings WHERE tool_id IN (:ids) GROUP BY tool_id, counter) m
+         ON m.tool_id = r.tool_id AND m.counter = r.counter AND m.at = r.at
+      ORDER BY r.id`,
+    { type: QueryTypes.SELECT, replacements: { ids }, transaction },
+  );
+  for (const r of latest) totals.set(counterKey(r.toolId, r.counter), Number(r.value));
+  // Resets are rare: add the value each reset wiped out.
+  const carried = await deps.sequelize.query<{ toolId: number; counter: string; carried: number | null }>(
+    `SELECT x.toolId, x.counter, SUM(x.before_reset) AS carried FROM (
+       SELECT r.tool_id AS toolId, r.counter,
+              (SELECT p.value FROM counter_readings p
+                WHERE p.tool_id = r.tool_id AND p.counter = r.counter AND (p.at < r.at OR (p.at = r.at AND p.id < r.id))
+                ORDER BY p.at DESC, p.id DESC LIMIT 1) AS before_reset
+         FROM counter_readings r WHERE r.tool_id IN (:ids) AND r.is_reset = 1) x
+     GROUP BY x.toolId, x.counter`,
+    { type: QueryTypes.SELECT, replacements: { ids }, transaction },
+  );
+  for (const c of carried) {
+    const key = counterKey(c.toolId, c.counter);
+    if (totals.has(key)) totals.set(key, totals.get(key)! + Number(c.carried ?? 0));
+  }
+  return totals;
+}
+
+export const counterKey = (toolId: number, counter: string) => `${toolId}|${counter}`;
+
+/**
+ * Use of one counter within [from, to) per tool that sent readings in that period: the sum of
+ * increases between the period's readings, where a reset counts its new value (for MCBF).
+ */
+export async function counterUsageByTool(
+  deps: AppDeps,
+  counter: string,
+  period: { from: Date; to: Date; toolId?: number },
+): Promise<{ toolId: number; used: number }[]> {
+  const rows = await deps.sequelize.query<{ toolId: number; used: number | null }>(
+    `SELECT toolId, SUM(CASE WHEN prev IS NULL THEN 0 WHEN isReset = 1 THEN value ELSE value - prev END) AS used FROM (
+       SELECT tool_id AS toolId, value, is_reset AS isReset,
+              LAG(value) OVER (PARTITION BY tool_id ORDER BY at, id) AS prev
+         FROM counter_readings
+        WHERE counter = :counter AND at >= :from AND at < :to ${period.toolId ? 'AND tool_id = :toolId' : ''}) x
+     GROUP BY toolId`,
+    { type: QueryTypes.SELECT, replacements: { counter, from: period.from, to: period.to, toolId: period.toolId ?? 0 } },
+  );
+  return rows.map((r) => ({ toolId: Number(r.toolId), used: Number(r.used ?? 0) }));
 }

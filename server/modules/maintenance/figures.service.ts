@@ -1,6 +1,7 @@
 import { QueryTypes } from 'sequelize';
 import type { AppDeps } from '../../lib/http';
 import { maintenanceOverview } from './work-orders.service';
+import { counterUsageByTool } from '../alarms/counters.service';
 
 // Maintenance figures for a period: PM compliance (share of preventive work orders due in
 // the period that were done within their grace window; skipped and unfinished ones count
@@ -13,7 +14,7 @@ const ratio = (a: number, b: number) => (b > 0 ? a / b : null);
 export async function maintenanceFigures(deps: AppDeps, q: { from: Date; to: Date; toolId?: number }) {
   const toolSql = q.toolId ? 'AND w.tool_id = :toolId' : '';
   const r = { from: q.from, to: q.to, toolId: q.toolId ?? 0, now: new Date() };
-  const [compliance, downtime, perform, wafers] = await Promise.all([
+  const [compliance, downtime, perform, waferUse] = await Promise.all([
     deps.sequelize.query<{
       toolId: number;
       code: string;
@@ -48,14 +49,23 @@ export async function maintenanceFigures(deps: AppDeps, q: { from: Date; to: Dat
           AND w.done_at >= :from AND w.done_at < :to ${toolSql}`,
       { type: QueryTypes.SELECT, replacements: r },
     ),
-    deps.sequelize.query<{ toolId: number; wafers: number; failures: number }>(
-      `SELECT u.tool_id AS toolId, MAX(u.value) - MIN(u.value) AS wafers,
-              (SELECT COUNT(*) FROM tickets k WHERE k.tool_id = u.tool_id AND k.fix_kind = 'failure' AND k.fixed_at >= :from AND k.fixed_at < :to) AS failures
-         FROM usage_readings u WHERE u.counter = 'wafers' AND u.at >= :from AND u.at < :to ${q.toolId ? 'AND u.tool_id = :toolId' : ''}
-        GROUP BY u.tool_id`,
-      { type: QueryTypes.SELECT, replacements: r },
-    ),
+    counterUsageByTool(deps, 'wafers', q),
   ]);
+
+  // Failures of the tools that counted wafers in the period (MCBF needs both).
+  const failures = waferUse.length
+    ? await deps.sequelize.query<{ toolId: number; n: number }>(
+        `SELECT k.tool_id AS toolId, COUNT(*) AS n FROM tickets k
+          WHERE k.tool_id IN (:ids) AND k.fix_kind = 'failure' AND k.fixed_at >= :from AND k.fixed_at < :to
+          GROUP BY k.tool_id`,
+        { type: QueryTypes.SELECT, replacements: { ...r, ids: waferUse.map((w) => w.toolId) } },
+      )
+    : [];
+  const wafers = waferUse.map((w) => ({
+    toolId: w.toolId,
+    wafers: w.used,
+    failures: Number(failures.find((f) => Number(f.toolId) === w.toolId)?.n ?? 0),
+  }));
 
   const perTool = compliance.map((c) => {
     const due = Number(c.due);

@@ -245,7 +245,7 @@ export function maintenanceRoutes(): RouteSpec[] {
         const at = body.at ?? new Date();
         if (at.getTime() > Date.now() + 60_000)
           throw badRequest('A reading cannot be in the future.', { at: ['Use the time the counter was read.'] });
-        await recordCounterReading(deps.sequelize, tool.id, body.counter, body.value, at);
+        await recordCounterReading(deps, tool.id, body.counter, body.value, at);
         return { toolId: tool.id, counter: body.counter, value: body.value, at: at.toISOString() };
       },
     }),

@@ -51,7 +51,7 @@ export function isOverdue(due: NextDue, now: Date, counterNow: number | null) {
 }
 
 export async function presentPlan(deps: AppDeps, plan: MaintenancePlan, now = new Date(), transaction?: Transaction): Promise<PlanView> {
-  const counterNow = plan.counterName ? await counterReading(deps.sequelize, plan.toolId, plan.counterName, transaction) : null;
+  const counterNow = plan.counterName ? await counterReading(deps, plan.toolId, plan.counterName, transaction) : null;
   return presentWithReading(plan, counterNow, now);
 }
 
@@ -96,7 +96,7 @@ export async function createPlan(deps: AppDeps, input: PlanCreateInput, actorId:
     if (!(await moduleBelongs(deps.sequelize, tool.id, input.moduleId, transaction)))
       throw badRequest('Unknown module.', { moduleId: ['That module does not belong to this tool.'] });
     const basisAt = input.lastDoneAt ?? new Date();
-    const basisCounter = input.counterName ? ((await counterReading(deps.sequelize, tool.id, input.counterName, transaction)) ?? 0) : null;
+    const basisCounter = input.counterName ? ((await counterReading(deps, tool.id, input.counterName, transaction)) ?? 0) : null;
     const plan = await MaintenancePlan.create(
       {
         toolId: tool.id,
@@ -182,7 +182,7 @@ export async function listPlans(deps: AppDeps, query: { toolId?: number; limit: 
   });
   const now = new Date();
   const readings = await latestReadings(
-    deps.sequelize,
+    deps,
     rows.filter((p) => p.counterName).map((p) => p.toolId),
   );
   const items = rows.map((p) =>

@@ -43,7 +43,7 @@ export async function runSchedulerPass(deps: AppDeps, now = new Date(), batchSiz
       );
       const hasOpen = new Set(open.map((o) => Number(o.planId)));
       const readings = await latestReadings(
-        deps.sequelize,
+        deps,
         plans.filter((p) => p.counterName).map((p) => p.toolId),
         transaction,
       );

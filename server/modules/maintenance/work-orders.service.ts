@@ -303,7 +303,7 @@ export async function completeWorkOrder(deps: AppDeps, id: number, input: { vers
     }
 
     const plan = wo.planId ? await MaintenancePlan.findByPk(wo.planId, { transaction, lock: transaction.LOCK.UPDATE }) : null;
-    const counterNow = plan?.counterName ? await counterReading(deps.sequelize, wo.toolId, plan.counterName, transaction) : null;
+    const counterNow = plan?.counterName ? await counterReading(deps, wo.toolId, plan.counterName, transaction) : null;
     const withinGrace =
       (wo.graceUntil === null || now <= wo.graceUntil) &&
       (wo.graceUntilCounter === null || counterNow === null || counterNow <= wo.graceUntilCounter);
@@ -507,7 +507,7 @@ export async function maintenanceOverview(deps: AppDeps, filter: { toolId?: numb
     ).map((t) => [t.id, t]),
   );
   const readings = await latestReadings(
-    deps.sequelize,
+    deps,
     plans.filter((p) => p.counterName).map((p) => p.toolId),
   );
   const overdue = [];
