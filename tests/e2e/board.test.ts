@@ -110,7 +110,7 @@ describe('the status board in the browser', () => {
       await tech.goto(`${server.url}/tools/${tools['TRACK-A'].code}`);
       await tech.getByTestId('tool-status').waitFor();
       await tech.getByTestId('history-entry').first().waitFor();
-      expect(await tech.getByTestId('report-problem').getAttribute('href')).toBe(`/report?tool=${tools['TRACK-A'].code}`);
+      expect(await tech.getByTestId('report-fault').getAttribute('href')).toBe(`/report?tool=${tools['TRACK-A'].code}`);
       await screenshot(tech, `tool-page-${name}`);
       // Nothing sticks out sideways on a phone.
       expect(await tech.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(viewport.width);
@@ -130,7 +130,7 @@ describe('the status board in the browser', () => {
     await screenshot(page, 'board-amber-desktop');
   });
 
-  it('when a tool page is opened, then it shows state, modules, availability, history and a Report a problem link', async () => {
+  it('when a tool page is opened, then it shows state, modules, availability, history and a Report a fault link', async () => {
     const page = await signedInPage(memberEmail, VIEWPORTS.phone);
     await page.goto(`${server.url}/tools/${tools['ICP-1'].code}`);
     await page.getByTestId('tool-status').waitFor();

@@ -167,7 +167,9 @@ describe('the same draft in two tabs', () => {
     expect(await second.getByLabel(/^What happened\?/).inputValue()).toBe('Words from the first tab');
     await second.getByLabel(/^What happened\?/).fill('Words from the first tab, and more typed in the second tab');
     // The first tab now shows the second tab's words: neither will overwrite the other.
-    await expect.poll(() => first.getByLabel(/^What happened\?/).inputValue()).toBe('Words from the first tab, and more typed in the second tab');
+    await expect
+      .poll(() => first.getByLabel(/^What happened\?/).inputValue())
+      .toBe('Words from the first tab, and more typed in the second tab');
 
     await first.getByLabel(/^Still usable/).check();
     await first.getByLabel('Other', { exact: true }).check();
@@ -177,5 +179,65 @@ describe('the same draft in two tabs', () => {
     await screenshot(second, 'report-two-tabs-desktop');
     const sent = await Ticket.findAll({ where: { toolId: tool.id } });
     expect(sent.map((t) => t.description)).toEqual(['Words from the first tab, and more typed in the second tab']);
+  });
+});
+
+describe('words, panels and targets', () => {
+  it('when a member looks around, then every way in says "Report a fault", never "Report a problem"', async () => {
+    const member = await createUser('member');
+    const { tool } = await createTool(server.deps.sequelize, { name: 'Wording check tool (e2e)' });
+    const { page } = await signedInPage(member.email, VIEWPORTS.desktop);
+    for (const path of ['/', '/board', `/tools/${tool.code}`, '/my-reports', '/report']) {
+      await page.goto(`${server.url}${path}`);
+      await page.locator('main').first().waitFor();
+      await page.waitForTimeout(300);
+      const text = await page.locator('body').innerText();
+      expect(text, path).not.toMatch(/report a problem/i);
+    }
+    expect(await page.title()).toBe('Report a fault · Faultline');
+    expect(await page.getByRole('navigation').getByRole('link', { name: 'Report a fault' }).count()).toBeGreaterThan(0);
+    await page.goto(`${server.url}/tools/${tool.code}`);
+    expect(await page.getByTestId('report-fault').innerText()).toBe('Report a fault');
+  });
+
+  it('when the notices panel is opened on a phone, then it lies wholly on screen', async () => {
+    const member = await createUser('member');
+    const { page } = await signedInPage(member.email, VIEWPORTS.phone);
+    await page.goto(`${server.url}/board`);
+    await page
+      .getByRole('button', { name: /notices/i })
+      .first()
+      .click();
+    const panel = page.getByRole('region', { name: 'Notices' });
+    await panel.waitFor();
+    const box = (await panel.boundingBox())!;
+    expect(box.x).toBeGreaterThanOrEqual(0);
+    expect(box.x + box.width).toBeLessThanOrEqual(VIEWPORTS.phone.width);
+    await screenshot(page, 'notices-panel-phone', { fullPage: false });
+  });
+
+  it('when a manager sets a restore target of 12 days, then it is typed as days and kept as 17,280 minutes', async () => {
+    const manager = await createUser('manager');
+    const api = new TestClient(server.url);
+    await api.signIn(manager.email, TEST_PASSWORD);
+    const before = (await api.get('/api/service-targets')).body.find((t: any) => t.priority === 'P4');
+    try {
+      const { page } = await signedInPage(manager.email, VIEWPORTS.phone);
+      await page.goto(`${server.url}/admin/service-targets`);
+      const row = page.getByRole('form', { name: /Targets for .*P4|Targets for/ }).last();
+      await row.getByLabel(/^Restore within$/).fill('12');
+      await row.getByLabel('Restore within: unit').selectOption('days');
+      await row.getByRole('button', { name: /^Save P4/ }).click();
+      await expect
+        .poll(async () => (await api.get('/api/service-targets')).body.find((t: any) => t.priority === 'P4').restoreMinutes)
+        .toBe(17_280);
+      await page.reload();
+      const again = page.getByRole('form', { name: /Targets for/ }).last();
+      expect(await again.getByLabel(/^Restore within$/).inputValue()).toBe('12');
+      expect(await again.getByLabel('Restore within: unit').inputValue()).toBe('days');
+      await screenshot(page, 'service-targets-phone');
+    } finally {
+      await api.put('/api/service-targets/P4', { acknowledgeMinutes: before.acknowledgeMinutes, restoreMinutes: before.restoreMinutes });
+    }
   });
 });

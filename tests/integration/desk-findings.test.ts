@@ -195,7 +195,10 @@ describe('one draft in two tabs', () => {
     const again = await client.post('/api/tickets', reportBody(tool.id, { description: 'Words from the first tab', clientKey }));
     expect(again.body.id).toBe(first.body.id);
 
-    const other = await client.post('/api/tickets', reportBody(tool.id, { description: 'Different words typed in the second tab', clientKey }));
+    const other = await client.post(
+      '/api/tickets',
+      reportBody(tool.id, { description: 'Different words typed in the second tab', clientKey }),
+    );
     expect(other.status).toBe(409);
     expect(other.body.error.code).toBe('draft_sent_elsewhere');
     expect(other.body.error.message).toContain(`#${first.body.id}`);
@@ -238,7 +241,9 @@ describe('"tool limited" reports', () => {
     const { client: tech } = await staffClient();
     expect((await act(tech, t.id, { action: 'start_repair' })).status).toBe(200);
     expect((await openState(tool.id))!.restriction).not.toBeNull();
-    expect((await act(tech, t.id, { action: 'fix', fixKind: 'failure', workDone: 'Replaced the chuck seal', returnToService: true })).status).toBe(200);
+    expect(
+      (await act(tech, t.id, { action: 'fix', fixKind: 'failure', workDone: 'Replaced the chuck seal', returnToService: true })).status,
+    ).toBe(200);
     const after = await openState(tool.id);
     expect(after!.restriction).toBeNull();
     expect(after!.state).toBe('standby');
@@ -253,7 +258,8 @@ describe('stale words on the board', () => {
     const { client: tech } = await staffClient();
     expect((await act(tech, t.id, { action: 'acknowledge' })).status).toBe(200);
     expect((await act(tech, t.id, { action: 'wait', waitReason: 'parts', note: 'Waiting for a new pressure gauge' })).status).toBe(200);
-    const boardEntry = async () => (await member.get(`/api/board?q=${tool.code}`)).body.areas.flatMap((a: any) => a.tools).find((x: any) => x.code === tool.code);
+    const boardEntry = async () =>
+      (await member.get(`/api/board?q=${tool.code}`)).body.areas.flatMap((a: any) => a.tools).find((x: any) => x.code === tool.code);
     expect((await boardEntry()).note).toBe('Waiting for a new pressure gauge');
     expect((await act(tech, t.id, { action: 'resume' })).status).toBe(200);
     const entry = await boardEntry();
@@ -271,7 +277,12 @@ describe('notices without the flood', () => {
     expect((await watcher.put(`/api/tools/${tool.id}/follow`)).status).toBe(200);
     const t = await fileReport(reporter, tool.id, { impact: 'tool_stopped' });
     const { client: tech } = await staffClient();
-    for (const step of [{ action: 'acknowledge' }, { action: 'wait', waitReason: 'parts', note: 'Gauge ordered' }, { action: 'resume' }, { action: 'fix', fixKind: 'failure', workDone: 'New gauge fitted', returnToService: true }]) {
+    for (const step of [
+      { action: 'acknowledge' },
+      { action: 'wait', waitReason: 'parts', note: 'Gauge ordered' },
+      { action: 'resume' },
+      { action: 'fix', fixKind: 'failure', workDone: 'New gauge fitted', returnToService: true },
+    ]) {
       expect((await act(tech, t.id, step)).status).toBe(200);
     }
     const mine = await Notice.findAll({ where: { userId: reporterUser.id }, order: [['id', 'ASC']] });
@@ -292,7 +303,11 @@ describe('notices without the flood', () => {
       const techUser = await createUser('technician');
       const tech = new TestClient(folding.url);
       await tech.signIn(techUser.email, TEST_PASSWORD);
-      for (const step of [{ action: 'acknowledge' }, { action: 'start_repair' }, { action: 'fix', fixKind: 'assist', workDone: 'Reset the controller', returnToService: true }]) {
+      for (const step of [
+        { action: 'acknowledge' },
+        { action: 'start_repair' },
+        { action: 'fix', fixKind: 'assist', workDone: 'Reset the controller', returnToService: true },
+      ]) {
         const current = await tech.get(`/api/tickets/${t.id}`);
         expect((await tech.post(`/api/tickets/${t.id}/actions`, { version: current.body.version, ...step })).status).toBe(200);
       }

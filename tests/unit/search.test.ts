@@ -3,7 +3,8 @@ import { matchesSearch, searchKey } from '../../shared/search';
 
 describe('finding a tool by what people type', () => {
   it('when the code is typed without its hyphen, with a space or in lower case, then it still matches', () => {
-    for (const typed of ['LPCVD3', 'lpcvd 3', 'lpcvd-3', 'Lpcvd_3', ' LPCVD - 3 ']) expect(matchesSearch(typed, ['LPCVD-3', 'LPCVD tube 3'])).toBe(true);
+    for (const typed of ['LPCVD3', 'lpcvd 3', 'lpcvd-3', 'Lpcvd_3', ' LPCVD - 3 '])
+      expect(matchesSearch(typed, ['LPCVD-3', 'LPCVD tube 3'])).toBe(true);
   });
   it('when a bay name is typed, then the tools in that bay match', () => {
     expect(matchesSearch('thin film', ['DEP-01', 'E-beam evaporator', 'Thin-film bay'])).toBe(true);

@@ -59,8 +59,8 @@ export function ToolPage() {
         }
         actions={
           !retired && (
-            <Link to={`/report?tool=${encodeURIComponent(t.code)}`} className={buttonClasses({ variant: 'danger', size: 'lg' })} data-testid="report-problem">
-              Report a problem
+            <Link to={`/report?tool=${encodeURIComponent(t.code)}`} className={buttonClasses({ variant: 'danger', size: 'lg' })} data-testid="report-fault">
+              Report a fault
             </Link>
           )
         }

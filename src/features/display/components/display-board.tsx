@@ -116,7 +116,7 @@ export function DisplayBoard({ name, data, status, areaCodes = [] }: DisplayBoar
       </section>
 
       <footer className="mt-auto text-[clamp(0.875rem,1vw,1.125rem)] text-muted">
-        Scan a tool’s label to report a problem. This screen does not replace the facility’s alarms: in an emergency, follow the emergency procedures.
+        Scan a tool’s label to report a fault. This screen does not replace the facility’s alarms: in an emergency, follow the emergency procedures.
       </footer>
     </div>
   );
