@@ -109,6 +109,9 @@ describe('the status board in the browser', () => {
       const tech = await signedInPage(technicianEmail, viewport);
       await tech.goto(`${server.url}/tools/${tools['TRACK-A'].code}`);
       await tech.getByTestId('tool-status').waitFor();
+      // The history is folded, automatic changes collapsed, until asked for.
+      await tech.getByTestId('state-history').locator('summary').click();
+      await tech.getByLabel(/Show automatic changes/).check();
       await tech.getByTestId('history-entry').first().waitFor();
       expect(await tech.getByTestId('report-fault').getAttribute('href')).toBe(`/report?tool=${tools['TRACK-A'].code}`);
       await screenshot(tech, `tool-page-${name}`);
@@ -136,6 +139,8 @@ describe('the status board in the browser', () => {
     await page.getByTestId('tool-status').waitFor();
     expect(await page.getByTestId('tool-status').textContent()).toContain('Maintenance');
     expect(await page.getByTestId('availability').textContent()).toMatch(/^\d+\.\d %$/);
+    await page.getByTestId('state-history').locator('summary').click();
+    await page.getByLabel(/Show automatic changes/).check();
     await expect.poll(() => page.getByTestId('history-entry').count()).toBe(2);
     // Members follow tools but never see the state form.
     expect(await page.getByRole('button', { name: 'Set state' }).count()).toBe(0);

@@ -6,6 +6,7 @@ import { launchBrowser, screenshot, signInThroughPage, VIEWPORTS } from '../supp
 import { createTool, drainOutbox, fileReport } from '../integration/tickets-fixtures';
 import { TestClient } from '../support/client';
 import { Ticket } from '../../server/modules/tickets/ticket.model';
+import { changeState } from '../../server/modules/facility/state.service';
 
 // What people at the tools and at the desk ran into, checked in Chromium at phone and desktop
 // width.
@@ -239,5 +240,36 @@ describe('words, panels and targets', () => {
     } finally {
       await api.put('/api/service-targets/P4', { acknowledgeMinutes: before.acknowledgeMinutes, restoreMinutes: before.restoreMinutes });
     }
+  });
+});
+
+describe('a tool page on a phone', () => {
+  it('when a member opens a tool with a long history, then Follow sits right under the current state, the history is folded, and the tool then shows on "Tools I follow"', async () => {
+    const member = await createUser('member');
+    const { tool } = await createTool(server.deps.sequelize, { name: 'Long history tool (e2e)' });
+    // Thirty automatic busy/idle flips, like a tool in steady use.
+    for (let i = 0; i < 30; i++) {
+      await changeState(server.deps, { toolId: tool.id, state: i % 2 ? 'standby' : 'productive', source: 'system', actorId: null });
+    }
+    const { page } = await signedInPage(member.email, VIEWPORTS.phone);
+    await page.goto(`${server.url}/tools/${tool.code}`);
+    const follow = page.getByRole('button', { name: 'Follow this tool' });
+    await follow.waitFor();
+    const followY = (await follow.boundingBox())!.y;
+    expect(followY).toBeLessThan(VIEWPORTS.phone.height);
+    expect(followY).toBeGreaterThan((await page.getByTestId('tool-status').boundingBox())!.y);
+    expect(await page.getByTestId('history-entry').count()).toBe(0);
+    await screenshot(page, 'tool-page-follow-first-phone', { fullPage: false });
+
+    await page.getByTestId('state-history').locator('summary').click();
+    await page.getByText(/automatic changes on this page folded away/).waitFor();
+    await follow.click();
+    await page.getByRole('button', { name: 'Stop following' }).waitFor();
+
+    await page.goto(`${server.url}/following`);
+    const list = page.getByTestId('followed-tools');
+    await list.waitFor();
+    expect(await list.innerText()).toContain(tool.code);
+    await screenshot(page, 'tools-i-follow-phone');
   });
 });

@@ -19,6 +19,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { to: '/board', label: 'Status board', minimumRole: 'member', ready: true },
   { to: '/report', label: 'Report a fault', minimumRole: 'member', ready: true },
   { to: '/my-reports', label: 'My reports', minimumRole: 'member', ready: true },
+  { to: '/following', label: 'Tools I follow', minimumRole: 'member', ready: true },
   { to: '/queue', label: 'Queue', minimumRole: 'technician', ready: true },
   { to: '/analytics', label: 'Analytics', minimumRole: 'manager', ready: true },
   { to: '/admin', label: 'Admin', minimumRole: 'admin', ready: true },

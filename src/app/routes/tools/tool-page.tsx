@@ -72,6 +72,13 @@ export function ToolPage() {
             <ToolStatusPanel tool={t} />
           </Card>
 
+          {/* First on a phone too: following is what most people at the tool came to do. */}
+          {!retired && (
+            <Card as="section" title="Tell me when it changes">
+              <FollowButton toolId={t.id} code={t.code} following={t.following} />
+            </Card>
+          )}
+
           {t.modules.length > 0 && (
             <Card as="section" title="Modules" description="Some modules down make the tool Limited; all of them down make it Down.">
               <ModuleStates modules={t.modules} />
@@ -80,18 +87,10 @@ export function ToolPage() {
 
           <ToolTickets toolId={t.id} />
 
-          <Card as="section" title="State history">
-            <StateHistory toolId={t.id} />
-          </Card>
+          <StateHistory toolId={t.id} />
         </div>
 
         <div className="flex min-w-0 flex-col gap-6">
-          {!retired && (
-            <Card as="section" title="Tell me when it changes">
-              <FollowButton toolId={t.id} code={t.code} following={t.following} />
-            </Card>
-          )}
-
           {staff && !retired && (
             <Card as="section" title="Change the state">
               <ChangeStateForm toolId={t.id} modules={t.modules} />

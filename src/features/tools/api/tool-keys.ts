@@ -5,5 +5,6 @@ export const toolKeys = {
   detail: (code: string) => [...toolKeys.details(), code] as const,
   histories: () => [...toolKeys.all, 'history'] as const,
   history: (toolId: number, page: { limit: number; offset: number }) => [...toolKeys.histories(), toolId, page] as const,
+  following: () => [...toolKeys.all, 'following'] as const,
   labels: (areaId: number | null) => [...toolKeys.all, 'labels', areaId] as const,
 };
