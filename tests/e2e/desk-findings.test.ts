@@ -7,6 +7,7 @@ import { createTool, drainOutbox, fileReport } from '../integration/tickets-fixt
 import { TestClient } from '../support/client';
 import { Ticket } from '../../server/modules/tickets/ticket.model';
 import { changeState } from '../../server/modules/facility/state.service';
+import { makeArea, makeTool } from '../integration/facility-fixtures';
 
 // What people at the tools and at the desk ran into, checked in Chromium at phone and desktop
 // width.
@@ -271,5 +272,79 @@ describe('a tool page on a phone', () => {
     await list.waitFor();
     expect(await list.innerText()).toContain(tool.code);
     await screenshot(page, 'tools-i-follow-phone');
+  });
+});
+
+describe('the lobby display', () => {
+  async function facilityOf(bays: number, perBay: number, attention: number) {
+    const codes: string[] = [];
+    let down = 0;
+    for (let b = 0; b < bays; b++) {
+      const area = await makeArea();
+      codes.push(area.code);
+      for (let i = 0; i < perBay; i++) {
+        const { tool } = await makeTool(server.deps.sequelize, { areaId: area.id, name: `Display tool ${b + 1}.${i + 1} (e2e)` });
+        if (down++ < attention) await changeState(server.deps, { toolId: tool.id, state: 'unscheduled_downtime', reason: 'repair', note: 'Pump fault under investigation', actorId: null, source: 'staff' });
+      }
+    }
+    return codes;
+  }
+
+  it('when the demo-sized facility (40 tools, 13 needing attention) is shown at 1920×1080 and 1280×720, then every tool is on screen without scrolling, in the facility time zone', async () => {
+    const admin = await createUser('admin');
+    const api = new TestClient(server.url);
+    await api.signIn(admin.email, TEST_PASSWORD);
+    const before = (await api.get('/api/facility-settings')).body;
+    const codes = await facilityOf(8, 5, 13);
+    const link = await api.post('/api/admin/display-links', { name: 'Entrance screen (e2e)' });
+    try {
+      await api.put('/api/admin/facility-settings', { ...before, timeZone: 'Pacific/Kiritimati' });
+      for (const viewport of [{ width: 1920, height: 1080 }, { width: 1280, height: 720 }]) {
+        const context = await browser.newContext({ viewport });
+        contexts.push(context);
+        const page = await context.newPage();
+        await page.goto(`${server.url}/display/${link.body.key}?areas=${codes.join(',')}`);
+        await page.getByTestId('display-board').waitFor();
+        await expect.poll(() => page.getByTestId('display-bay-tool').count()).toBe(40);
+        await page.waitForTimeout(500);
+        expect(await page.getByTestId('display-board').getAttribute('data-pages')).toBe('1');
+        expect(await page.locator('[data-testid^="display-tool-"]').count()).toBe(13);
+        const offScreen = await page.evaluate(() =>
+          [...document.querySelectorAll('[data-testid="display-bay-tool"], [data-testid^="display-tool-"]')].filter((el) => {
+            const r = el.getBoundingClientRect();
+            return r.top < 0 || r.bottom > window.innerHeight || r.left < 0 || r.right > window.innerWidth;
+          }).length,
+        );
+        expect(offScreen).toBe(0);
+        expect(await page.evaluate(() => document.documentElement.scrollHeight <= window.innerHeight)).toBe(true);
+        expect(await page.getByTestId('display-board').innerText()).toContain('Pacific/Kiritimati');
+        const expected = new Intl.DateTimeFormat('en-US', { hour: '2-digit', minute: '2-digit', timeZone: 'Pacific/Kiritimati' }).format(new Date()).slice(0, 2);
+        expect((await page.getByTestId('display-clock').innerText()).slice(0, 2)).toBe(expected);
+        await screenshot(page, `display-${viewport.width}x${viewport.height}`, { fullPage: false });
+      }
+    } finally {
+      await api.put('/api/admin/facility-settings', before);
+    }
+  });
+
+  it('when a facility has more bays than fit, then the display pages through them by itself with a page indicator', async () => {
+    const admin = await createUser('admin');
+    const api = new TestClient(server.url);
+    await api.signIn(admin.email, TEST_PASSWORD);
+    const codes = await facilityOf(16, 8, 4);
+    const link = await api.post('/api/admin/display-links', { name: 'Big facility screen (e2e)' });
+    const context = await browser.newContext({ viewport: { width: 1280, height: 720 } });
+    contexts.push(context);
+    const page = await context.newPage();
+    await page.clock.install();
+    await page.goto(`${server.url}/display/${link.body.key}?areas=${codes.join(',')}`);
+    const indicator = page.getByTestId('display-page');
+    await indicator.waitFor();
+    expect(await indicator.innerText()).toMatch(/^Page 1 of \d+/);
+    const firstBays = await page.getByTestId('display-bay').allInnerTexts();
+    await page.clock.runFor(16_000);
+    await expect.poll(() => indicator.innerText()).toMatch(/^Page 2 of/);
+    expect(await page.getByTestId('display-bay').allInnerTexts()).not.toEqual(firstBays);
+    await screenshot(page, 'display-paged-1280x720', { fullPage: false });
   });
 });

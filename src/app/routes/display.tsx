@@ -6,6 +6,7 @@ import { useDisplayBoard } from '@/features/display/api/get-display-board';
 import { useDisplayLink } from '@/features/display/api/get-display-link';
 import { DisplayBoard } from '@/features/display/components/display-board';
 import { useDisplaySocket } from '@/features/display/hooks/use-display-socket';
+import { useFacilitySettings } from '@/lib/facility-settings';
 
 function Message({ title, text }: { title: string; text: string }) {
   return (
@@ -28,6 +29,7 @@ export function DisplayPage() {
   const allowed = Boolean(link.data) && !refused;
   const board = useDisplayBoard(key, allowed);
   const status = useDisplaySocket(key, allowed);
+  const settings = useFacilitySettings(allowed ? key : undefined);
 
   if (refused || (isApiError(board.error) && board.error.status === 401)) {
     return <Message title="This display link is not valid any more" text="It was revoked or mistyped. Ask a Faultline administrator for a new display link." />;
@@ -43,7 +45,7 @@ export function DisplayPage() {
   return (
     <>
       <title>{`${link.data.name} · Faultline`}</title>
-      <DisplayBoard name={link.data.name} data={board.data} status={status} areaCodes={areaCodes} />
+      <DisplayBoard name={link.data.name} data={board.data} status={status} areaCodes={areaCodes} timeZone={settings.data?.timeZone} />
     </>
   );
 }
