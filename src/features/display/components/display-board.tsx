@@ -59,7 +59,7 @@ function usePagedAreas<T>(areas: T[], box: React.RefObject<HTMLElement | null>) 
     const bays = [...el.children].map((c) => c.getBoundingClientRect());
     const fit = bays.findIndex((r) => r.right > edge.right + 1 || r.bottom > edge.bottom + 1);
     if (fit !== -1 && fit < perPage) setPerPage(Math.max(1, fit));
-  });
+  }, [box, perPage, areas, size.w, size.h]);
   const pages = Math.max(1, Math.ceil(areas.length / perPage));
   useEffect(() => {
     if (pages <= 1) return;
