@@ -348,3 +348,21 @@ describe('the lobby display', () => {
     await screenshot(page, 'display-paged-1280x720', { fullPage: false });
   });
 });
+
+describe('one vocabulary for states', () => {
+  it('when a technician opens "Set tool state" on a ticket, then each choice reads the board word first with the E10 state beside it', async () => {
+    const tech = await createUser('technician');
+    const { tool } = await createTool(server.deps.sequelize, { name: 'Vocabulary check tool (e2e)' });
+    const { client } = await memberClient();
+    const t = await fileReport(client, tool.id, { impact: 'still_usable' });
+    const { page } = await signedInPage(tech.email, VIEWPORTS.desktop);
+    await page.goto(`${server.url}/tickets/${t.id}`);
+    await page.getByRole('button', { name: 'Set tool state' }).click();
+    const options = await page.getByLabel('State', { exact: true }).locator('option').allInnerTexts();
+    expect(options).toContain('Down (Unscheduled downtime)');
+    expect(options).toContain('Maintenance (Scheduled downtime)');
+    expect(options.every((o) => /^(Running|Limited|Down|Maintenance|Engineering|Offline) \(/.test(o))).toBe(true);
+    await page.goto(`${server.url}/tools/${tool.code}`);
+    expect(await page.getByTestId('tool-status').innerText()).not.toMatch(/Tool state/);
+  });
+});

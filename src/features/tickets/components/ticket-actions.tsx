@@ -2,7 +2,7 @@ import { useState, type FormEvent, type ReactNode } from 'react';
 import { ACTIONS, type TicketAction } from '@shared/ticket-workflow';
 import { PRIORITIES, PRIORITY_LABELS } from '@shared/priority';
 import { FIX_KINDS, FIX_KIND_HELP, FIX_KIND_LABELS, WAIT_REASONS, WAIT_REASON_LABELS, type FixKind, type WaitReason } from '@shared/report-options';
-import { E10_LABELS, E10_STATES, REASONS_BY_STATE, REASON_LABELS, type E10State, type StateReason } from '@shared/equipment-state';
+import { BOARD_LABELS, E10_LABELS, E10_STATES, REASONS_BY_STATE, REASON_LABELS, boardStatusOf, type E10State, type StateReason } from '@shared/equipment-state';
 import { ticketActionSchema, type TicketActionInput, type TicketDetail } from '@shared/schemas/tickets';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
@@ -316,7 +316,8 @@ function ActionForm({ form, seen, busy, onSubmit, onCancel }: { form: FormName; 
           <SelectField label="State" value={v('state')} onChange={(e) => setValues((o) => ({ ...o, state: e.target.value, stateReason: '' }))}>
             {E10_STATES.map((s) => (
               <option key={s} value={s}>
-                {E10_LABELS[s]}
+                {/* The board's word first, the E10 state beside it: one vocabulary everywhere. */}
+                {BOARD_LABELS[boardStatusOf(s)]} ({E10_LABELS[s]})
               </option>
             ))}
           </SelectField>
