@@ -362,7 +362,10 @@ describe('one vocabulary for states', () => {
     expect(options).toContain('Down (Unscheduled downtime)');
     expect(options).toContain('Maintenance (Scheduled downtime)');
     expect(options.every((o) => /^(Running|Limited|Down|Maintenance|Engineering|Offline) \(/.test(o))).toBe(true);
-    await page.goto(`${server.url}/tools/${tool.code}`);
+    // The ticket links to its tool's page.
+    await page.getByTestId('ticket-tool-link').click();
+    await page.waitForURL(new RegExp(`/tools/${tool.code}$`));
+    await page.getByTestId('tool-status').waitFor();
     expect(await page.getByTestId('tool-status').innerText()).not.toMatch(/Tool state/);
   });
 });

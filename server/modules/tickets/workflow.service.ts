@@ -56,11 +56,11 @@ function checkPermission(user: AuthUser, ticket: Ticket, action: TicketActionDat
  * shows. A note belongs to the reason it was written for, so a new reason brings its own note
  * (the wait's note, or none) instead of keeping words like "waiting for a gauge" after a resume.
  */
-async function syncDowntimeReason(deps: AppDeps, ticket: Ticket, actorId: number, reason: StateReason, transaction: Transaction, note: string | null = null) {
+async function syncDowntimeReason(deps: AppDeps, ticket: Ticket, actorId: number, reason: StateReason, transaction: Transaction, note: string | null = null, expectedReturnAt?: Date | null) {
   for (const held of await intervalsHeldBy(ticket.id, transaction)) {
     // A limited (restricted, still running) interval keeps its running reason.
     if (held.state !== 'unscheduled_downtime' || held.reason === reason) continue;
-    await changeStateForTicket(deps, ticket, actorId, { toolId: held.toolId, moduleId: held.moduleId, state: 'unscheduled_downtime', reason, note, expectedReturnAt: held.expectedReturnAt, source: held.source === 'user_report' ? 'user_report' : 'staff', confirmed: held.confirmed }, transaction);
+    await changeStateForTicket(deps, ticket, actorId, { toolId: held.toolId, moduleId: held.moduleId, state: 'unscheduled_downtime', reason, note, expectedReturnAt: expectedReturnAt ?? held.expectedReturnAt, source: held.source === 'user_report' ? 'user_report' : 'staff', confirmed: held.confirmed }, transaction);
   }
 }
 
@@ -111,8 +111,8 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
       case 'wait':
         ticket.waitReason = input.waitReason;
         statusNote = input.note;
-        statusData = { waitReason: input.waitReason };
-        await syncDowntimeReason(deps, ticket, user.id, WAIT_STATE_REASON[input.waitReason], transaction, input.note);
+        statusData = { waitReason: input.waitReason, expectedReturnAt: input.expectedReturnAt?.toISOString() ?? null };
+        await syncDowntimeReason(deps, ticket, user.id, WAIT_STATE_REASON[input.waitReason], transaction, input.note, input.expectedReturnAt);
         break;
       case 'resume':
         ticket.waitReason = null;

@@ -188,7 +188,7 @@ function ActionForm({ form, seen, busy, onSubmit, onCancel }: { form: FormName; 
     e.preventDefault();
     switch (form) {
       case 'wait':
-        return onSubmit({ action: 'wait', waitReason: v('waitReason') as WaitReason, note: text('note') });
+        return onSubmit({ action: 'wait', waitReason: v('waitReason') as WaitReason, note: text('note'), expectedReturnAt: v('expectedReturnAt') ? new Date(v('expectedReturnAt')).toISOString() : null });
       case 'fix':
         return onSubmit({
           action: 'fix',
@@ -237,7 +237,8 @@ function ActionForm({ form, seen, busy, onSubmit, onCancel }: { form: FormName; 
               </option>
             ))}
           </SelectField>
-          <TextAreaField label="Note for the reporter" hint="What you are waiting for and when you expect it." value={v('note')} onChange={set('note')} />
+          <TextAreaField label="Note for the reporter" hint="What you are waiting for. It shows on the board while the tool waits." value={v('note')} onChange={set('note')} />
+          <TextField label="Expected back" hint="When the parts, the vendor or the answer should be here; the board shows it." type="datetime-local" min={toLocalInput(new Date())} value={v('expectedReturnAt')} onChange={set('expectedReturnAt')} />
           <FormButtons busy={busy} label="Set waiting" onCancel={onCancel} />
         </>
       )}
