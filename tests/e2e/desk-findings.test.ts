@@ -369,3 +369,24 @@ describe('one vocabulary for states', () => {
     expect(await page.getByTestId('tool-status').innerText()).not.toMatch(/Tool state/);
   });
 });
+
+describe('ticket actions', () => {
+  it('when a technician opens a reported "tool stopped" ticket, then the next steps lead, the rest sit apart, and a one-click step says it was done', async () => {
+    const tech = await createUser('technician');
+    const { tool } = await createTool(server.deps.sequelize, { name: 'Actions check tool (e2e)' });
+    const { client } = await memberClient();
+    const t = await fileReport(client, tool.id, { impact: 'tool_stopped' });
+    const { page } = await signedInPage(tech.email, VIEWPORTS.phone);
+    await page.goto(`${server.url}/tickets/${t.id}`);
+    const next = page.getByTestId('next-steps');
+    await next.waitFor();
+    expect(await next.getByRole('button').allInnerTexts()).toEqual(['Confirm it is Down', 'Not down: revert', 'Acknowledge']);
+    const others = await page.getByTestId('other-actions').getByRole('button').allInnerTexts();
+    expect(others).toEqual(expect.arrayContaining(['Assign', 'Change priority', 'Set tool state']));
+    expect(others).not.toContain('Acknowledge');
+    await next.getByRole('button', { name: 'Acknowledge' }).click();
+    await page.getByText('Acknowledged.', { exact: true }).waitFor();
+    await expect.poll(() => page.getByTestId('next-steps').getByRole('button').allInnerTexts()).toEqual(expect.arrayContaining(['Start repair', 'Mark fixed']));
+    await screenshot(page, 'ticket-actions-phone');
+  });
+});

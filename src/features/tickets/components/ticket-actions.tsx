@@ -28,6 +28,25 @@ interface Conflict {
 
 const ONE_CLICK: TicketAction[] = ['acknowledge', 'start_repair', 'resume', 'close'];
 
+// The one or two steps the workflow expects next from each status; every other action
+// allowed is offered in a quieter group below them.
+const NEXT_STEPS: Partial<Record<TicketDetail['status'], readonly string[]>> = {
+  reported: ['confirm_down', 'acknowledge'],
+  acknowledged: ['start_repair', 'fix'],
+  in_repair: ['fix', 'wait'],
+  waiting: ['resume'],
+  fixed: ['close'],
+};
+
+const DONE_WORDS: Partial<Record<string, string>> = {
+  acknowledge: 'Acknowledged.',
+  start_repair: 'Repair started.',
+  resume: 'Repair resumed.',
+  close: 'Ticket closed.',
+  confirm_down: 'Confirmed: the tool state is as reported.',
+  revert_down: 'Reverted: the tool is back in the state it had before.',
+};
+
 /**
  * Every change a viewer may make, as buttons that follow the shared workflow table. A form
  * remembers the ticket as it was when the form opened; saving sends that version, so a
@@ -38,10 +57,13 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
   const [open, setOpen] = useState<{ form: FormName; seen: TicketDetail } | null>(null);
   const [conflict, setConflict] = useState<Conflict | null>(null);
   const [error, setError] = useState<{ message: string; fields?: Record<string, string[]> } | null>(null);
+  const [done, setDone] = useState<string | null>(null);
   const allowed = new Set(ticket.allowedActions);
+  const next = new Set(NEXT_STEPS[ticket.status] ?? []);
 
   const send = (body: Body, seen: TicketDetail) => {
     setError(null);
+    setDone(null);
     const input = { ...body, version: seen.version } as Input;
     const parsed = ticketActionSchema.safeParse(input);
     if (!parsed.success) {
@@ -54,6 +76,7 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
       onSuccess: () => {
         setOpen(null);
         setConflict(null);
+        setDone(DONE_WORDS[body.action] ?? 'Saved.');
       },
       onError: (e) => {
         if (e instanceof StaleTicket) setConflict({ before: seen, current: e.current, attempted: body });
@@ -68,6 +91,7 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
   };
 
   const buttons: ReactNode[] = [];
+  const others: ReactNode[] = [];
   if (allowed.has('confirm_down')) {
     // A "tool limited" report holds a restriction on a running tool rather than a Down.
     const held = ticket.toolStates.find((s) => s.ticketId === ticket.id && s.source === 'user_report' && !s.confirmed);
@@ -83,21 +107,21 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
   }
   for (const a of ONE_CLICK) {
     if (allowed.has(a)) {
-      buttons.push(
-        <Button key={a} size="lg" variant={a === 'acknowledge' || a === 'start_repair' ? 'primary' : 'secondary'} busy={action.isPending && action.variables?.action === a} onClick={() => send({ action: a } as Body, ticket)}>
-          {ACTIONS[a].label}
-        </Button>,
+      (next.has(a) ? buttons : others).push(
+          <Button key={a} size="lg" variant={next.has(a) ? 'primary' : 'secondary'} busy={action.isPending && action.variables?.action === a} onClick={() => send({ action: a } as Body, ticket)}>
+            {ACTIONS[a].label}
+          </Button>,
       );
     }
   }
-  const formButton = (form: FormName, label: string, when: boolean, variant: 'primary' | 'secondary' = 'secondary') =>
+  const formButton = (form: FormName, label: string, when: boolean) =>
     when &&
-    buttons.push(
-      <Button key={form} size="lg" variant={variant} aria-expanded={open?.form === form} onClick={() => (open?.form === form ? setOpen(null) : openForm(form))}>
+    (next.has(form) ? buttons : others).push(
+      <Button key={form} size="lg" variant={next.has(form) ? 'primary' : 'secondary'} aria-expanded={open?.form === form} onClick={() => (open?.form === form ? setOpen(null) : openForm(form))}>
         {label}
       </Button>,
     );
-  formButton('fix', ACTIONS.fix.label, allowed.has('fix'), 'primary');
+  formButton('fix', ACTIONS.fix.label, allowed.has('fix'));
   formButton('wait', ACTIONS.wait.label, allowed.has('wait'));
   formButton('state', 'Set tool state', allowed.has('set_state'));
   formButton('assign', 'Assign', allowed.has('assign'));
@@ -106,7 +130,7 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
   formButton('no_fault_found', ACTIONS.no_fault_found.label, allowed.has('no_fault_found'));
   formButton('reopen', ACTIONS.reopen.label, allowed.has('reopen'));
 
-  if (buttons.length === 0 && !conflict) return null;
+  if (buttons.length === 0 && others.length === 0 && !conflict) return null;
 
   return (
     <section aria-labelledby="ticket-actions-title" className="flex flex-col gap-4" data-testid="ticket-actions">
@@ -126,7 +150,22 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
           }}
         />
       )}
-      <div className="flex flex-wrap gap-2">{buttons}</div>
+      {buttons.length > 0 && (
+        <div className="flex flex-wrap gap-2" data-testid="next-steps">
+          {buttons}
+        </div>
+      )}
+      {others.length > 0 && (
+        <div className="flex flex-col gap-2" data-testid="other-actions">
+          <p className="text-sm font-semibold text-muted">Other actions</p>
+          <div className="flex flex-wrap gap-2">{others}</div>
+        </div>
+      )}
+      {done && !error && (
+        <Alert tone="success" live title={done}>
+          The timeline below shows the step.
+        </Alert>
+      )}
       {error && (
         <Alert tone="danger" live title="That did not work">
           {error.message}
