@@ -59,7 +59,7 @@ export function TicketView({ ticket }: { ticket: TicketDetail }) {
           <HazardChips hazards={ticket.hazards} />
         </div>
         <p className="text-sm text-muted">
-          <Link to={`/tools/${encodeURIComponent(ticket.tool.code)}`} data-testid="ticket-tool-link">
+          <Link to={`/tools/${encodeURIComponent(ticket.tool.code)}`} className="underline" data-testid="ticket-tool-link">
             <span className="font-mono">{ticket.tool.code}</span> · {ticket.tool.name}
           </Link>
           {ticket.module ? ` · ${ticket.module.name}` : ''}
