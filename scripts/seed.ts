@@ -8,7 +8,11 @@ const sequelize = createSequelize(config);
 try {
   const started = Date.now();
   const { seeded } = await seedDemo(sequelize);
-  console.log(seeded ? `• Seeded the demo facility in ${((Date.now() - started) / 1000).toFixed(1)} s.` : '• Data already present; demo seed skipped.');
+  console.log(
+    seeded
+      ? `• Seeded the demo facility in ${((Date.now() - started) / 1000).toFixed(1)} s.`
+      : '• Data already present; demo seed skipped.',
+  );
 } finally {
   await sequelize.close();
 }

@@ -2,9 +2,7 @@ import { z } from 'zod';
 
 // Typed configuration from the environment, validated once at start-up: a wrong or missing
 // value stops the process with a readable message instead of failing later at random.
-const bool = z
-  .enum(['true', 'false', '1', '0', 'yes', 'no'])
-  .transform((v) => v === 'true' || v === '1' || v === 'yes');
+const bool = z.enum(['true', 'false', '1', '0', 'yes', 'no']).transform((v) => v === 'true' || v === '1' || v === 'yes');
 
 const configSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),

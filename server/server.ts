@@ -47,7 +47,10 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
   const allowedOrigins = [new URL(config.publicUrl).origin];
   const io = attachRealtime(server, { allowedOrigins, session, passport, events, log, verifyDisplayKey });
 
-  const worker = new OutboxWorker(createTransport(config), config, log, { pollMs: config.OUTBOX_POLL_MS, baseBackoffMs: config.OUTBOX_BASE_BACKOFF_MS });
+  const worker = new OutboxWorker(createTransport(config), config, log, {
+    pollMs: config.OUTBOX_POLL_MS,
+    baseBackoffMs: config.OUTBOX_BASE_BACKOFF_MS,
+  });
   if (opts.outboxWorker !== false) worker.start();
 
   await new Promise<void>((resolve) => server.listen(config.PORT, config.HOST, () => resolve()));

@@ -1,14 +1,7 @@
 // The one truth about equipment states, used by the client, the server and the analytics.
 // Storage uses the six SEMI E10 states; people see the simpler board words of product.md.
 
-export const E10_STATES = [
-  'productive',
-  'standby',
-  'engineering',
-  'scheduled_downtime',
-  'unscheduled_downtime',
-  'non_scheduled',
-] as const;
+export const E10_STATES = ['productive', 'standby', 'engineering', 'scheduled_downtime', 'unscheduled_downtime', 'non_scheduled'] as const;
 export type E10State = (typeof E10_STATES)[number];
 
 export const E10_LABELS: Record<E10State, string> = {
@@ -111,7 +104,14 @@ export const BOARD_LABELS: Record<BoardStatus, string> = {
  * Each board status is told three ways: a colour whose meaning follows the IEC 60073
  * indicator code, a shape of Faultline's own, and the word. `tone` names the colour role.
  */
-export const BOARD_LOOK: Record<BoardStatus, { tone: 'green' | 'amber' | 'red' | 'blue' | 'slate' | 'grey'; shape: 'disc' | 'triangle' | 'cross' | 'diamond' | 'hexagon' | 'ring'; rank: number }> = {
+export const BOARD_LOOK: Record<
+  BoardStatus,
+  {
+    tone: 'green' | 'amber' | 'red' | 'blue' | 'slate' | 'grey';
+    shape: 'disc' | 'triangle' | 'cross' | 'diamond' | 'hexagon' | 'ring';
+    rank: number;
+  }
+> = {
   // rank orders "worst first" for sorting and for summaries
   down: { tone: 'red', shape: 'cross', rank: 0 },
   limited: { tone: 'amber', shape: 'triangle', rank: 1 },

@@ -241,8 +241,7 @@ export function e10Metrics(totals: E10Totals): E10Metrics {
   } = totals;
 
   const downtime = scheduledDowntime + unscheduledDowntime;
-  const insideDowntime =
-    maintenanceDelayUser + maintenanceDelaySupplier + outOfSpecInput + facilitiesRelated + repair;
+  const insideDowntime = maintenanceDelayUser + maintenanceDelaySupplier + outOfSpecInput + facilitiesRelated + repair;
   if (insideDowntime > downtime + HOURS_EPSILON) {
     fail(
       `downtime sub-states (maintenance delay, out-of-spec input, facilities, repair) add up to ` +
@@ -334,10 +333,7 @@ export interface ReverseArrangementCriticalValues {
  * at most 1 − confidence under "no trend". Both are inclusive: published tables that give
  * the number to be exceeded print `upper − 1`.
  */
-export function reverseArrangementCriticalValues(
-  n: number,
-  confidence = 0.95,
-): ReverseArrangementCriticalValues {
+export function reverseArrangementCriticalValues(n: number, confidence = 0.95): ReverseArrangementCriticalValues {
   requireCount('n', n);
   requireTrendConfidence(confidence);
   const alpha = 1 - confidence;

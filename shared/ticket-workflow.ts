@@ -4,16 +4,7 @@ import { hasRole, isStaff, type Role } from './roles';
 // requests to accept). Everything below is derived from the ACTIONS table, so a change to the
 // workflow is a change to that table and nowhere else.
 
-export const TICKET_STATUSES = [
-  'reported',
-  'acknowledged',
-  'in_repair',
-  'waiting',
-  'fixed',
-  'closed',
-  'merged',
-  'no_fault_found',
-] as const;
+export const TICKET_STATUSES = ['reported', 'acknowledged', 'in_repair', 'waiting', 'fixed', 'closed', 'merged', 'no_fault_found'] as const;
 export type TicketStatus = (typeof TICKET_STATUSES)[number];
 
 export const STATUS_LABELS: Record<TicketStatus, string> = {
@@ -144,9 +135,7 @@ function checkMemberCondition(condition: MemberCondition, ctx: TransitionContext
       // A resolution time slightly in the future (clock skew between machines) counts as "just now".
       const elapsed = ctx.now.getTime() - ctx.resolvedAt.getTime();
       if (elapsed > REOPEN_WINDOW_DAYS * DAY_MS) {
-        return refuse(
-          `Reporters can reopen a ticket for ${REOPEN_WINDOW_DAYS} days after it is resolved; ask a technician instead.`,
-        );
+        return refuse(`Reporters can reopen a ticket for ${REOPEN_WINDOW_DAYS} days after it is resolved; ask a technician instead.`);
       }
       return ALLOWED;
     }

@@ -87,7 +87,15 @@ function pickPriority(rnd: Random): string {
 const ACK_MEAN_MIN: Record<string, number> = { P1: 12, P2: 45, P3: 180, P4: 600 };
 
 /** One tool's history: running stretches broken by failures, PM, engineering and shutdowns. */
-function toolHistory(rnd: Random, toolId: number, start: number, now: number, nextTicketId: () => number, tickets: TicketRow[], out: Interval[]) {
+function toolHistory(
+  rnd: Random,
+  toolId: number,
+  start: number,
+  now: number,
+  nextTicketId: () => number,
+  tickets: TicketRow[],
+  out: Interval[],
+) {
   let t = start;
   const push = (state: E10State, reason: StateReason, hours: number, ticketId: number | null = null) => {
     if (t >= now) return false;
@@ -104,7 +112,10 @@ function toolHistory(rnd: Random, toolId: number, start: number, now: number, ne
       const created = t + rnd.int(0, 600) * 1000;
       const priority = pickPriority(rnd);
       let up = push('unscheduled_downtime', 'repair', rnd.exp(3), id);
-      if (up && rnd.chance(0.35)) up = push('unscheduled_downtime', rnd.chance(0.7) ? 'waiting_parts' : 'maintenance_delay_supplier', rnd.exp(20), id) && push('unscheduled_downtime', 'repair', rnd.exp(2), id);
+      if (up && rnd.chance(0.35))
+        up =
+          push('unscheduled_downtime', rnd.chance(0.7) ? 'waiting_parts' : 'maintenance_delay_supplier', rnd.exp(20), id) &&
+          push('unscheduled_downtime', 'repair', rnd.exp(2), id);
       if (up && rnd.chance(0.3)) up = push('unscheduled_downtime', 'qualification', rnd.exp(1.5), id);
       const fixed = up ? t : null;
       const ack = created + rnd.exp(ACK_MEAN_MIN[priority]) * 60_000;
@@ -159,7 +170,15 @@ function moduleHistory(rnd: Random, toolId: number, moduleId: number, start: num
     const down = out.length % 2 === 1;
     const hours = down ? rnd.exp(12) : rnd.exp(300);
     const end = t + Math.round(hours * HOUR_MS);
-    out.push({ toolId, moduleId, state: down ? 'unscheduled_downtime' : 'standby', reason: down ? 'repair' : 'none', start: t, end: end >= now ? null : end, ticketId: null });
+    out.push({
+      toolId,
+      moduleId,
+      state: down ? 'unscheduled_downtime' : 'standby',
+      reason: down ? 'repair' : 'none',
+      start: t,
+      end: end >= now ? null : end,
+      ticketId: null,
+    });
     t = end;
   }
 }
@@ -186,7 +205,11 @@ export async function generate(sequelize: Sequelize, now: number) {
     sequelize,
     'tools',
     'id, area_id, name, code, criticality, created_at, updated_at',
-    Array.from({ length: TOOLS }, (_, i) => `(${i + 1}, ${(i % AREAS) + 1}, 'Bench tool ${i + 1}', 'BT-${String(i + 1).padStart(3, '0')}', 'normal', ${created}, ${created})`),
+    Array.from(
+      { length: TOOLS },
+      (_, i) =>
+        `(${i + 1}, ${(i % AREAS) + 1}, 'Bench tool ${i + 1}', 'BT-${String(i + 1).padStart(3, '0')}', 'normal', ${created}, ${created})`,
+    ),
   );
   const moduleTools = Array.from({ length: TOOLS }, (_, i) => i + 1).filter((id) => id % 3 === 0);
   await insertRows(
@@ -265,13 +288,19 @@ async function prepareDatabase(keep: boolean) {
       const [[counts]] = (await sequelize.query(
         `SELECT (SELECT COUNT(*) FROM state_intervals) AS intervals, (SELECT COUNT(*) FROM state_intervals WHERE module_id IS NULL) AS toolIntervals, (SELECT COUNT(*) FROM tickets) AS tickets, (SELECT MAX(started_at) FROM state_intervals) AS latest`,
       )) as [Array<{ intervals: number; toolIntervals: number; tickets: number; latest: Date }>, unknown];
-      return { counts: { intervals: Number(counts.intervals), toolIntervals: Number(counts.toolIntervals), tickets: Number(counts.tickets) }, seconds: 0, now: new Date(counts.latest).getTime() };
+      return {
+        counts: { intervals: Number(counts.intervals), toolIntervals: Number(counts.toolIntervals), tickets: Number(counts.tickets) },
+        seconds: 0,
+        now: new Date(counts.latest).getTime(),
+      };
     }
     const now = Date.now();
     const t0 = performance.now();
     const counts = await generate(sequelize, now);
     await migrator.up();
-    await sequelize.query('ANALYZE TABLE state_intervals, tickets, tools, state_hours_monthly, downtime_hours_by_ticket, state_stretch_starts');
+    await sequelize.query(
+      'ANALYZE TABLE state_intervals, tickets, tools, state_hours_monthly, downtime_hours_by_ticket, state_stretch_starts',
+    );
     const email = 'bench.manager@bench.faultline.test';
     const stamp = sqlDate(now);
     await sequelize.query(
@@ -351,7 +380,9 @@ async function main() {
     await timed(target, headers, 3); // warm caches and the pool
     const sequential = await timed(target, headers, 40);
     const floor = await timed(`${base}/api/health`, {}, 200);
-    console.log(`  sequential, ${sequential.n} requests: median ${fmt(sequential.median)}, p90 ${fmt(sequential.p90)}, p99 ${fmt(sequential.p99)}`);
+    console.log(
+      `  sequential, ${sequential.n} requests: median ${fmt(sequential.median)}, p90 ${fmt(sequential.p90)}, p99 ${fmt(sequential.p99)}`,
+    );
     console.log(`  floor (GET /api/health), ${floor.n} requests: median ${fmt(floor.median)}, p99 ${fmt(floor.p99)}`);
 
     const loaded = await cannon(target, headers, 4, 10);
@@ -362,7 +393,12 @@ async function main() {
         `p50 ${fmt(loaded.latency.p50)}, p90 ${fmt(loaded.latency.p90)}, p99 ${fmt(loaded.latency.p99)}, non-2xx ${loaded.non2xx}`,
     );
     // Other work on the machine skews every figure above; say how busy it was.
-    console.log(`  machine: ${os.cpus().length} cores, load average ${os.loadavg().map((l) => l.toFixed(1)).join(' / ')} (1 / 5 / 15 min)`);
+    console.log(
+      `  machine: ${os.cpus().length} cores, load average ${os
+        .loadavg()
+        .map((l) => l.toFixed(1))
+        .join(' / ')} (1 / 5 / 15 min)`,
+    );
     const goal = sequential.median < 300;
     console.log(`  goal (median under 300 ms for one request at a time): ${goal ? 'met' : 'NOT met'}`);
     if (!goal) process.exitCode = 1;

@@ -53,14 +53,25 @@ async function fill(sequelize: Awaited<ReturnType<typeof rebuildDatabase>>, disp
     ('bench-member@bench.test', 'Bench member', 'member', '${hash}', 1, 0, NOW(3), NOW(3))`);
   const areas = Array.from({ length: AREAS }, (_, i) => `('Bench area ${i + 1}', 'BA${i + 1}', ${i}, NOW(3), NOW(3))`);
   await q(`INSERT INTO areas (name, code, sort_order, created_at, updated_at) VALUES ${areas.join(',')}`);
-  const tools = Array.from({ length: TOOLS }, (_, i) => `(${(i % AREAS) + 1}, 'Bench tool ${i + 1}', 'BT-${i + 1}', 'normal', 1, NOW(3), NOW(3))`);
+  const tools = Array.from(
+    { length: TOOLS },
+    (_, i) => `(${(i % AREAS) + 1}, 'Bench tool ${i + 1}', 'BT-${i + 1}', 'normal', 1, NOW(3), NOW(3))`,
+  );
   await q(`INSERT INTO tools (area_id, name, code, criticality, primary_engineer_id, created_at, updated_at) VALUES ${tools.join(',')}`);
   const modules: string[] = [];
-  for (let t = 1; t <= TOOLS; t++) if (t % 5 === 0) for (let m = 1; m <= 3; m++) modules.push(`(${t}, 'Chamber ${m}', 'PM${m}', ${m}, NOW(3), NOW(3))`);
+  for (let t = 1; t <= TOOLS; t++)
+    if (t % 5 === 0) for (let m = 1; m <= 3; m++) modules.push(`(${t}, 'Chamber ${m}', 'PM${m}', ${m}, NOW(3), NOW(3))`);
   await q(`INSERT INTO modules (tool_id, name, code, sort_order, created_at, updated_at) VALUES ${modules.join(',')}`);
 
   const states = ['productive', 'standby', 'standby', 'engineering', 'scheduled_downtime', 'unscheduled_downtime', 'non_scheduled'];
-  const reasons: Record<string, string> = { productive: 'none', standby: 'none', engineering: 'process_development', scheduled_downtime: 'preventive_maintenance', unscheduled_downtime: 'repair', non_scheduled: 'not_staffed' };
+  const reasons: Record<string, string> = {
+    productive: 'none',
+    standby: 'none',
+    engineering: 'process_development',
+    scheduled_downtime: 'preventive_maintenance',
+    unscheduled_downtime: 'repair',
+    non_scheduled: 'not_staffed',
+  };
   const rows: string[] = [];
   const log = (toolId: number, moduleId: number | null, count: number) => {
     let t = now - 365 * 86_400_000;
@@ -68,7 +79,9 @@ async function fill(sequelize: Awaited<ReturnType<typeof rebuildDatabase>>, disp
     for (let i = 0; i < count; i++) {
       const state = i === count - 1 && rnd.chance(0.15) ? rnd.pick(states.slice(3)) : rnd.pick(states);
       const end = i === count - 1 ? null : t + step * (0.5 + rnd.next());
-      rows.push(`(${toolId}, ${moduleId ?? 'NULL'}, '${state}', '${reasons[state]}', ${state === 'productive' || state === 'standby' ? 'NULL' : `'Bench note ${i}'`}, '${fmt(new Date(t))}', ${end ? `'${fmt(new Date(end))}'` : 'NULL'}, 'staff', 1, NOW(3))`);
+      rows.push(
+        `(${toolId}, ${moduleId ?? 'NULL'}, '${state}', '${reasons[state]}', ${state === 'productive' || state === 'standby' ? 'NULL' : `'Bench note ${i}'`}, '${fmt(new Date(t))}', ${end ? `'${fmt(new Date(end))}'` : 'NULL'}, 'staff', 1, NOW(3))`,
+      );
       if (end) t = end;
     }
   };
@@ -76,13 +89,22 @@ async function fill(sequelize: Awaited<ReturnType<typeof rebuildDatabase>>, disp
   let moduleId = 0;
   for (let t = 1; t <= TOOLS; t++) if (t % 5 === 0) for (let m = 0; m < 3; m++) log(t, ++moduleId, 20);
   for (let i = 0; i < rows.length; i += 5000) {
-    await q(`INSERT INTO state_intervals (tool_id, module_id, state, reason, note, started_at, ended_at, source, confirmed, created_at) VALUES ${rows.slice(i, i + 5000).join(',')}`);
+    await q(
+      `INSERT INTO state_intervals (tool_id, module_id, state, reason, note, started_at, ended_at, source, confirmed, created_at) VALUES ${rows.slice(i, i + 5000).join(',')}`,
+    );
   }
   const statuses = ['reported', 'acknowledged', 'in_repair', 'waiting', 'fixed', 'closed', 'closed', 'closed'];
-  const tickets = Array.from({ length: 1500 }, (_, i) => `(${rnd.int(1, TOOLS)}, 'other', 'Bench ticket ${i}', 'tool_stopped', '[]', '${rnd.pick(statuses)}', 'P3', NOW(3), NOW(3))`);
-  await q(`INSERT INTO tickets (tool_id, category, title, impact, hazards, status, priority, created_at, updated_at) VALUES ${tickets.join(',')}`);
+  const tickets = Array.from(
+    { length: 1500 },
+    (_, i) => `(${rnd.int(1, TOOLS)}, 'other', 'Bench ticket ${i}', 'tool_stopped', '[]', '${rnd.pick(statuses)}', 'P3', NOW(3), NOW(3))`,
+  );
+  await q(
+    `INSERT INTO tickets (tool_id, category, title, impact, hazards, status, priority, created_at, updated_at) VALUES ${tickets.join(',')}`,
+  );
   const keyHash = crypto.createHash('sha256').update(displayKey).digest('hex');
-  await q(`INSERT INTO display_links (name, key_hash, created_by_id, created_at, updated_at) VALUES ('Bench screen', '${keyHash}', 1, NOW(3), NOW(3))`);
+  await q(
+    `INSERT INTO display_links (name, key_hash, created_by_id, created_at, updated_at) VALUES ('Bench screen', '${keyHash}', 1, NOW(3), NOW(3))`,
+  );
   return rows.length;
 }
 
@@ -113,7 +135,15 @@ async function measure(name: string, url: string, headers: Record<string, string
   // A short warm-up so JIT and pools settle before the measured run.
   await autocannon({ url, headers, connections: CONNECTIONS, duration: 2 });
   const r = await autocannon({ url, headers, connections: CONNECTIONS, duration: SECONDS });
-  return { name, rps: r.requests.average, p50: r.latency.p50, p90: r.latency.p90, p99: r.latency.p99, requests: r.requests.total, bad: r.non2xx + r.errors + r.timeouts };
+  return {
+    name,
+    rps: r.requests.average,
+    p50: r.latency.p50,
+    p90: r.latency.p90,
+    p99: r.latency.p99,
+    requests: r.requests.total,
+    bad: r.non2xx + r.errors + r.timeouts,
+  };
 }
 
 const sequelize = await rebuildDatabase();
@@ -121,7 +151,9 @@ const displayKey = crypto.randomBytes(32).toString('base64url');
 const started = Date.now();
 const intervals = await fill(sequelize, displayKey);
 await sequelize.close();
-console.log(`Data: ${TOOLS} tools in ${AREAS} areas, ${intervals} state intervals, 1500 tickets (filled in ${((Date.now() - started) / 1000).toFixed(1)} s).`);
+console.log(
+  `Data: ${TOOLS} tools in ${AREAS} areas, ${intervals} state intervals, 1500 tickets (filled in ${((Date.now() - started) / 1000).toFixed(1)} s).`,
+);
 
 const server = await startServer(config, { outboxWorker: false, serveClient: false });
 try {
@@ -139,8 +171,13 @@ try {
     await measure('GET /api/board (signed-in member)', `${server.url}/api/board`, { cookie }),
   ];
   const pad = (s: string | number, n: number) => String(s).padStart(n);
-  console.log(`${'endpoint'.padEnd(36)} ${pad('req/s', 8)} ${pad('p50 ms', 7)} ${pad('p90 ms', 7)} ${pad('p99 ms', 7)} ${pad('requests', 9)} ${pad('non-2xx', 8)}`);
-  for (const r of results) console.log(`${r.name.padEnd(36)} ${pad(r.rps.toFixed(0), 8)} ${pad(r.p50, 7)} ${pad(r.p90, 7)} ${pad(r.p99, 7)} ${pad(r.requests, 9)} ${pad(r.bad, 8)}`);
+  console.log(
+    `${'endpoint'.padEnd(36)} ${pad('req/s', 8)} ${pad('p50 ms', 7)} ${pad('p90 ms', 7)} ${pad('p99 ms', 7)} ${pad('requests', 9)} ${pad('non-2xx', 8)}`,
+  );
+  for (const r of results)
+    console.log(
+      `${r.name.padEnd(36)} ${pad(r.rps.toFixed(0), 8)} ${pad(r.p50, 7)} ${pad(r.p90, 7)} ${pad(r.p99, 7)} ${pad(r.requests, 9)} ${pad(r.bad, 8)}`,
+    );
   if (results.some((r) => r.bad > 0)) process.exitCode = 1;
   // Let the last requests' session writes finish before the pool closes.
   await new Promise((resolve) => setTimeout(resolve, 1000));

@@ -6,7 +6,10 @@ import type { Config } from '../config';
 import { initModels } from './models';
 
 /** A Sequelize instance; `bindModels: false` for side connections (admin, scratch databases). */
-export function createSequelize(config: Pick<Config, 'DB_HOST' | 'DB_PORT' | 'DB_NAME' | 'DB_USER' | 'DB_PASSWORD' | 'DB_POOL_MAX'>, opts: { bindModels?: boolean } = {}) {
+export function createSequelize(
+  config: Pick<Config, 'DB_HOST' | 'DB_PORT' | 'DB_NAME' | 'DB_USER' | 'DB_PASSWORD' | 'DB_POOL_MAX'>,
+  opts: { bindModels?: boolean } = {},
+) {
   const sequelize = new Sequelize(config.DB_NAME, config.DB_USER, config.DB_PASSWORD, {
     dialect: 'mariadb',
     host: config.DB_HOST,
@@ -51,9 +54,27 @@ export function createMigrator(sequelize: Sequelize) {
 export function isDatabaseDown(error: unknown): boolean {
   const e = error as { name?: string; code?: string; original?: { code?: string }; parent?: { code?: string } } | null;
   if (!e) return false;
-  const names = ['SequelizeConnectionError', 'SequelizeConnectionRefusedError', 'SequelizeConnectionAcquireTimeoutError', 'SequelizeHostNotReachableError', 'SequelizeConnectionTimedOutError', 'SequelizeAccessDeniedError'];
+  const names = [
+    'SequelizeConnectionError',
+    'SequelizeConnectionRefusedError',
+    'SequelizeConnectionAcquireTimeoutError',
+    'SequelizeHostNotReachableError',
+    'SequelizeConnectionTimedOutError',
+    'SequelizeAccessDeniedError',
+  ];
   if (e.name && names.includes(e.name)) return true;
-  const codes = ['ECONNREFUSED', 'ER_GET_CONNECTION_TIMEOUT', 'ER_CONNECTION_TIMEOUT', 'ER_SOCKET_UNEXPECTED_CLOSE', 'ECONNRESET', 'EPIPE', 'ER_CONNECTION_ALREADY_CLOSED', 'PROTOCOL_CONNECTION_LOST', 'ER_CLOSING_POOL', 'ER_POOL_ALREADY_CLOSED'];
+  const codes = [
+    'ECONNREFUSED',
+    'ER_GET_CONNECTION_TIMEOUT',
+    'ER_CONNECTION_TIMEOUT',
+    'ER_SOCKET_UNEXPECTED_CLOSE',
+    'ECONNRESET',
+    'EPIPE',
+    'ER_CONNECTION_ALREADY_CLOSED',
+    'PROTOCOL_CONNECTION_LOST',
+    'ER_CLOSING_POOL',
+    'ER_POOL_ALREADY_CLOSED',
+  ];
   const code = e.code ?? e.original?.code ?? e.parent?.code;
   return !!code && codes.includes(code);
 }

@@ -13,8 +13,7 @@ export class AppError extends Error {
   }
 }
 
-export const badRequest = (message: string, fields?: Record<string, string[]>) =>
-  new AppError(400, 'validation_failed', message, fields);
+export const badRequest = (message: string, fields?: Record<string, string[]>) => new AppError(400, 'validation_failed', message, fields);
 export const unauthorized = (message = 'Please sign in.') => new AppError(401, 'unauthenticated', message);
 export const forbidden = (message = 'You are not allowed to do this.') => new AppError(403, 'forbidden', message);
 export const notFound = (what = 'That') => new AppError(404, 'not_found', `${what} was not found.`);

@@ -22,7 +22,7 @@ export class DomainEvents {
   }
 
   publish(event: DomainEvent, transaction?: Transaction | null) {
-    if (transaction) transaction.afterCommit(() => void this.emitter.emit("event", event));
+    if (transaction) transaction.afterCommit(() => void this.emitter.emit('event', event));
     else this.emitter.emit('event', event);
   }
 

@@ -55,7 +55,11 @@ export interface HandlerContext<B, Q, P> {
   deps: AppDeps;
 }
 
-export interface RouteSpec<B extends ZodType | undefined = ZodType | undefined, Q extends ZodType | undefined = ZodType | undefined, P extends ZodType | undefined = ZodType | undefined> {
+export interface RouteSpec<
+  B extends ZodType | undefined = ZodType | undefined,
+  Q extends ZodType | undefined = ZodType | undefined,
+  P extends ZodType | undefined = ZodType | undefined,
+> {
   method: 'get' | 'post' | 'put' | 'patch' | 'delete';
   path: string;
   access: Access;
@@ -71,9 +75,11 @@ export interface RouteSpec<B extends ZodType | undefined = ZodType | undefined, 
 }
 
 /** Declares a route with its access rule and input schemas; types flow from the schemas. */
-export function route<B extends ZodType | undefined = undefined, Q extends ZodType | undefined = undefined, P extends ZodType | undefined = undefined>(
-  spec: RouteSpec<B, Q, P>,
-): RouteSpec {
+export function route<
+  B extends ZodType | undefined = undefined,
+  Q extends ZodType | undefined = undefined,
+  P extends ZodType | undefined = undefined,
+>(spec: RouteSpec<B, Q, P>): RouteSpec {
   return spec as unknown as RouteSpec;
 }
 
@@ -84,7 +90,6 @@ export interface RegisteredRoute {
   hasBody: boolean;
   hasParams: boolean;
 }
-
 
 export function requireAccess(access: Access, log: Logger): RequestHandler {
   return (req, _res, next) => {
@@ -126,7 +131,11 @@ export function mountRoutes(router: Router, prefix: string, routes: RouteSpec[],
         const body = parsePart(spec.body, req.body, 'body');
         const query = parsePart(spec.query, req.query, 'query');
         const params = parsePart(spec.params, req.params, 'params');
-        const result = await spec.handle({ body, query, params, user: req.user ?? null, req, res, deps } as HandlerContext<never, never, never>);
+        const result = await spec.handle({ body, query, params, user: req.user ?? null, req, res, deps } as HandlerContext<
+          never,
+          never,
+          never
+        >);
         if (res.headersSent) return;
         if (result === undefined) res.status(204).end();
         else res.status(spec.status ?? 200).json(result);

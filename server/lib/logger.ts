@@ -6,11 +6,11 @@ export type Logger = pino.Logger;
 export function createLogger(level: string, destination?: pino.DestinationStream): Logger {
   return pino(
     {
-    level,
-    base: undefined,
-    timestamp: pino.stdTimeFunctions.isoTime,
-    // Secrets never reach a log line, even by accident.
-    redact: { paths: ['password', '*.password', 'token', '*.token', 'req.headers.cookie', 'sessionId'], remove: true },
+      level,
+      base: undefined,
+      timestamp: pino.stdTimeFunctions.isoTime,
+      // Secrets never reach a log line, even by accident.
+      redact: { paths: ['password', '*.password', 'token', '*.token', 'req.headers.cookie', 'sessionId'], remove: true },
     },
     destination,
   );

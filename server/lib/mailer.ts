@@ -48,7 +48,16 @@ export async function queueMail(messages: MailMessage | MailMessage[], transacti
     if (open) await open.update(foldInto(open, m), { transaction: transaction ?? undefined });
     else
       await OutboxMail.create(
-        { toAddress: m.to, subject: m.subject.slice(0, 255), textBody: m.text, htmlBody: m.html ?? null, nextAttemptAt: new Date(now.getTime() + m.fold.ms), lastError: null, sentAt: null, foldKey: m.fold.key },
+        {
+          toAddress: m.to,
+          subject: m.subject.slice(0, 255),
+          textBody: m.text,
+          htmlBody: m.html ?? null,
+          nextAttemptAt: new Date(now.getTime() + m.fold.ms),
+          lastError: null,
+          sentAt: null,
+          foldKey: m.fold.key,
+        },
         { transaction: transaction ?? undefined },
       );
   }
@@ -150,7 +159,13 @@ export class OutboxWorker {
       });
       for (const mail of due) {
         try {
-          await this.transport.sendMail({ from: this.config.MAIL_FROM, to: mail.toAddress, subject: mail.subject, text: mail.textBody, html: mail.htmlBody ?? undefined });
+          await this.transport.sendMail({
+            from: this.config.MAIL_FROM,
+            to: mail.toAddress,
+            subject: mail.subject,
+            text: mail.textBody,
+            html: mail.htmlBody ?? undefined,
+          });
           await mail.update({ status: 'sent', sentAt: new Date(), attempts: mail.attempts + 1, lastError: null });
           sent++;
         } catch (error) {

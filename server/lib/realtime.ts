@@ -46,7 +46,8 @@ export function attachRealtime(server: HttpServer, opts: RealtimeOptions) {
     connectionStateRecovery: { maxDisconnectionDuration: 2 * 60_000 },
   });
   const onlyForHandshake = (middleware: RequestHandler) => (req: Req, res: ServerResponse, next: (err?: unknown) => void) => {
-    if (req._query?.sid === undefined) (middleware as unknown as (a: Req, b: ServerResponse, c: (err?: unknown) => void) => void)(req, res, next);
+    if (req._query?.sid === undefined)
+      (middleware as unknown as (a: Req, b: ServerResponse, c: (err?: unknown) => void) => void)(req, res, next);
     else next();
   };
   instance.engine.use(onlyForHandshake(opts.session));

@@ -90,7 +90,10 @@ async function reencode(file: IncomingFile, index: number): Promise<{ full: Buff
       .resize({ width: MAX_EDGE, height: MAX_EDGE, fit: 'inside', withoutEnlargement: true })
       .jpeg({ quality: 82, mozjpeg: true })
       .toBuffer({ resolveWithObject: true });
-    const thumb = await sharp(full).resize({ width: THUMB_EDGE, height: THUMB_EDGE, fit: 'inside', withoutEnlargement: true }).jpeg({ quality: 72 }).toBuffer();
+    const thumb = await sharp(full)
+      .resize({ width: THUMB_EDGE, height: THUMB_EDGE, fit: 'inside', withoutEnlargement: true })
+      .jpeg({ quality: 72 })
+      .toBuffer();
     return { full, thumb, width: info.width, height: info.height };
   } catch (error) {
     throw refusal(error, index);
@@ -100,7 +103,9 @@ async function reencode(file: IncomingFile, index: number): Promise<{ full: Buff
 function refusal(error: unknown, index: number): AppError {
   const message = error instanceof Error ? error.message : '';
   if (/pixel limit/i.test(message)) {
-    return new AppError(413, 'upload_too_large', `Photo ${index + 1} has too many pixels.`, { photos: ['The picture is too large in pixels.'] });
+    return new AppError(413, 'upload_too_large', `Photo ${index + 1} has too many pixels.`, {
+      photos: ['The picture is too large in pixels.'],
+    });
   }
   return unsupported(index);
 }

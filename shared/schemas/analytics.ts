@@ -41,8 +41,10 @@ export const analyticsQuerySchema = z
     }
     if (v.scope === 'area' && v.areaId === undefined) ctx.addIssue({ code: 'custom', path: ['areaId'], message: 'Choose the area.' });
     if (v.scope === 'tool' && v.toolId === undefined) ctx.addIssue({ code: 'custom', path: ['toolId'], message: 'Choose the tool.' });
-    if (v.scope !== 'area' && v.areaId !== undefined) ctx.addIssue({ code: 'custom', path: ['areaId'], message: 'An area goes with the area scope only.' });
-    if (v.scope !== 'tool' && v.toolId !== undefined) ctx.addIssue({ code: 'custom', path: ['toolId'], message: 'A tool goes with the tool scope only.' });
+    if (v.scope !== 'area' && v.areaId !== undefined)
+      ctx.addIssue({ code: 'custom', path: ['areaId'], message: 'An area goes with the area scope only.' });
+    if (v.scope !== 'tool' && v.toolId !== undefined)
+      ctx.addIssue({ code: 'custom', path: ['toolId'], message: 'A tool goes with the tool scope only.' });
   });
 export type AnalyticsQueryInput = z.input<typeof analyticsQuerySchema>;
 export type AnalyticsQuery = z.output<typeof analyticsQuerySchema>;

@@ -1,5 +1,13 @@
 import { z } from 'zod';
-import { BOARD_STATUSES, E10_STATES, STATE_REASONS, isReasonAllowed, type BoardStatus, type E10State, type StateReason } from '../equipment-state';
+import {
+  BOARD_STATUSES,
+  E10_STATES,
+  STATE_REASONS,
+  isReasonAllowed,
+  type BoardStatus,
+  type E10State,
+  type StateReason,
+} from '../equipment-state';
 
 // Inputs and answers of the facility API (areas, tools, modules, states, the board, lobby
 // displays, follows, labels), shared by the client forms and the server routes.
@@ -61,7 +69,10 @@ export const toolCreateSchema = z
     modules: z.array(moduleCreateSchema).max(24, 'At most 24 modules per tool.').optional(),
   })
   .refine(engineersDiffer, engineersMessage)
-  .refine((v) => !v.modules || new Set(v.modules.map((m) => m.code)).size === v.modules.length, { message: 'Each module needs its own code.', path: ['modules'] });
+  .refine((v) => !v.modules || new Set(v.modules.map((m) => m.code)).size === v.modules.length, {
+    message: 'Each module needs its own code.',
+    path: ['modules'],
+  });
 
 export const toolUpdateSchema = z
   .strictObject({
@@ -126,7 +137,11 @@ export const stateChangeSchema = z
     }
     if (v.expectedReturnAt) {
       if (running) {
-        ctx.addIssue({ code: 'custom', path: ['expectedReturnAt'], message: 'An expected return time fits only a state in which it is not running.' });
+        ctx.addIssue({
+          code: 'custom',
+          path: ['expectedReturnAt'],
+          message: 'An expected return time fits only a state in which it is not running.',
+        });
       } else if (Date.parse(v.expectedReturnAt) < Date.now() - RETURN_TIME_SLACK_MS) {
         ctx.addIssue({ code: 'custom', path: ['expectedReturnAt'], message: 'The expected return time is in the past.' });
       }

@@ -1,5 +1,16 @@
 import { z } from 'zod';
-import { TICKET_CATEGORIES, IMPACTS, HAZARDS, WAIT_REASONS, FIX_KINDS, type Hazard, type Impact, type TicketCategory, type WaitReason, type FixKind } from '../report-options';
+import {
+  TICKET_CATEGORIES,
+  IMPACTS,
+  HAZARDS,
+  WAIT_REASONS,
+  FIX_KINDS,
+  type Hazard,
+  type Impact,
+  type TicketCategory,
+  type WaitReason,
+  type FixKind,
+} from '../report-options';
 import { PRIORITIES, type Priority, type TargetStatus } from '../priority';
 import { TICKET_STATUSES, type TicketAction, type TicketStatus } from '../ticket-workflow';
 import { E10_STATES, STATE_REASONS, type E10State, type StateReason } from '../equipment-state';
@@ -50,13 +61,21 @@ const clientKey = z
 const waferFields = {
   wafersCount: z.number().int().min(0, 'Cannot be negative.').max(1000, 'At most 1000.').default(0),
   wafersOwner: optionalText(120),
-  wafersRecoverable: z.enum(WAFER_RECOVERABLE).nullish().transform((v) => v ?? null),
+  wafersRecoverable: z
+    .enum(WAFER_RECOVERABLE)
+    .nullish()
+    .transform((v) => v ?? null),
 };
 
 /** A new fault report from the form (or the JSON API). */
 export const reportInputSchema = z.strictObject({
   toolId: z.number({ error: 'Choose the tool.' }).int().positive('Choose the tool.'),
-  moduleId: z.number().int().positive().nullish().transform((v) => v ?? null),
+  moduleId: z
+    .number()
+    .int()
+    .positive()
+    .nullish()
+    .transform((v) => v ?? null),
   category: z.enum(TICKET_CATEGORIES, { error: 'Choose what kind of problem it is.' }),
   description: text(4000).min(3, 'Say in a few words what happened.'),
   alarmText: optionalText(1000),
@@ -72,7 +91,10 @@ export type ReportData = z.output<typeof reportInputSchema>;
 export const addReportInputSchema = z.strictObject({
   description: text(4000).min(3, 'Say in a few words what you saw.'),
   alarmText: optionalText(1000),
-  impact: z.enum(IMPACTS).nullish().transform((v) => v ?? null),
+  impact: z
+    .enum(IMPACTS)
+    .nullish()
+    .transform((v) => v ?? null),
   hazards: hazardList,
   ...waferFields,
   clientKey,
@@ -107,7 +129,12 @@ const version = z.number({ error: 'The version you read is required.' }).int().m
 
 const stateTarget = {
   /** null: the tool itself; otherwise one of its modules. */
-  moduleId: z.number().int().positive().nullish().transform((v) => v ?? null),
+  moduleId: z
+    .number()
+    .int()
+    .positive()
+    .nullish()
+    .transform((v) => v ?? null),
 };
 
 /**
@@ -118,7 +145,12 @@ export const ticketActionSchema = z.discriminatedUnion('action', [
   z.strictObject({ action: z.literal('acknowledge'), version }),
   z.strictObject({ action: z.literal('start_repair'), version }),
   z.strictObject({ action: z.literal('assign'), version, assigneeId: z.number().int().positive().nullable() }),
-  z.strictObject({ action: z.literal('set_priority'), version, priority: z.enum(PRIORITIES), reason: text(500).min(3, 'Say why the priority changes.') }),
+  z.strictObject({
+    action: z.literal('set_priority'),
+    version,
+    priority: z.enum(PRIORITIES),
+    reason: text(500).min(3, 'Say why the priority changes.'),
+  }),
   z.strictObject({
     action: z.literal('set_state'),
     version,
@@ -126,7 +158,10 @@ export const ticketActionSchema = z.discriminatedUnion('action', [
     state: z.enum(E10_STATES),
     reason: z.enum(STATE_REASONS).optional(),
     note: optionalText(500),
-    expectedReturnAt: z.iso.datetime({ offset: true }).nullish().transform((v) => (v ? new Date(v) : null)),
+    expectedReturnAt: z.iso
+      .datetime({ offset: true })
+      .nullish()
+      .transform((v) => (v ? new Date(v) : null)),
   }),
   z.strictObject({ action: z.literal('confirm_down'), version }),
   z.strictObject({ action: z.literal('revert_down'), version, note: optionalText(500) }),
@@ -136,7 +171,10 @@ export const ticketActionSchema = z.discriminatedUnion('action', [
     waitReason: z.enum(WAIT_REASONS),
     note: optionalText(1000),
     /** When the wait should end (parts due, vendor visit); shown on the board as the expected return. */
-    expectedReturnAt: z.iso.datetime({ offset: true }).nullish().transform((v) => (v ? new Date(v) : null)),
+    expectedReturnAt: z.iso
+      .datetime({ offset: true })
+      .nullish()
+      .transform((v) => (v ? new Date(v) : null)),
   }),
   z.strictObject({ action: z.literal('resume'), version }),
   z.strictObject({
@@ -147,9 +185,27 @@ export const ticketActionSchema = z.discriminatedUnion('action', [
     cause: optionalText(4000),
     workDone: text(4000).min(3, 'Say what was done.'),
     partsUsed: optionalText(2000),
-    handsOnMinutes: z.number().int().min(0).max(100_000).nullish().transform((v) => v ?? null),
-    wafersRecovered: z.number().int().min(0).max(1000).nullish().transform((v) => v ?? null),
-    wafersReturned: z.number().int().min(0).max(1000).nullish().transform((v) => v ?? null),
+    handsOnMinutes: z
+      .number()
+      .int()
+      .min(0)
+      .max(100_000)
+      .nullish()
+      .transform((v) => v ?? null),
+    wafersRecovered: z
+      .number()
+      .int()
+      .min(0)
+      .max(1000)
+      .nullish()
+      .transform((v) => v ?? null),
+    wafersReturned: z
+      .number()
+      .int()
+      .min(0)
+      .max(1000)
+      .nullish()
+      .transform((v) => v ?? null),
     /** Put every tool or module this ticket holds down back to standby in the same step. */
     returnToService: z.boolean().default(false),
   }),
@@ -206,10 +262,21 @@ export interface TicketListQuery {
 
 export const serviceTargetInputSchema = z
   .strictObject({
-    acknowledgeMinutes: z.number().int().min(1).max(60 * 24 * 60),
-    restoreMinutes: z.number().int().min(1).max(60 * 24 * 120),
+    acknowledgeMinutes: z
+      .number()
+      .int()
+      .min(1)
+      .max(60 * 24 * 60),
+    restoreMinutes: z
+      .number()
+      .int()
+      .min(1)
+      .max(60 * 24 * 120),
   })
-  .refine((v) => v.restoreMinutes >= v.acknowledgeMinutes, { path: ['restoreMinutes'], message: 'Restoring cannot be due before acknowledging.' });
+  .refine((v) => v.restoreMinutes >= v.acknowledgeMinutes, {
+    path: ['restoreMinutes'],
+    message: 'Restoring cannot be due before acknowledging.',
+  });
 export type ServiceTargetInput = z.input<typeof serviceTargetInputSchema>;
 
 export const priorityParams = z.strictObject({ priority: z.enum(PRIORITIES) });

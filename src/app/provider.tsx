@@ -45,7 +45,9 @@ class AppErrorBoundary extends Component<{ children: ReactNode }, BoundaryState>
     return (
       <div role="alert" style={{ maxWidth: '36rem', margin: '4rem auto', padding: '0 1rem', fontFamily: 'system-ui, sans-serif' }}>
         <h1 style={{ fontSize: '1.5rem', fontWeight: 700 }}>Faultline stopped with an error</h1>
-        <p style={{ margin: '1rem 0' }}>Reload the page to start again. If it happens again, tell the facility staff what you were doing.</p>
+        <p style={{ margin: '1rem 0' }}>
+          Reload the page to start again. If it happens again, tell the facility staff what you were doing.
+        </p>
         <button type="button" onClick={() => window.location.reload()} style={{ minHeight: 44, padding: '0 1rem', fontWeight: 600 }}>
           Reload the page
         </button>

@@ -57,9 +57,15 @@ export const router = createBrowserRouter([
               },
               // Pages for technicians or managers go in their own group, like the admin one:
               //   { element: <RoleGate minimum="technician" />, children: [ ...one line per page... ] },
-              { element: <RoleGate minimum="technician" />, children: [{ path: 'labels', lazy: () => import('@/app/routes/tools/labels') }] },
+              {
+                element: <RoleGate minimum="technician" />,
+                children: [{ path: 'labels', lazy: () => import('@/app/routes/tools/labels') }],
+              },
               { element: <RoleGate minimum="technician" />, children: [{ path: 'queue', lazy: () => import('@/app/routes/queue') }] },
-              { element: <RoleGate minimum="manager" />, children: [{ path: 'admin/service-targets', lazy: () => import('@/app/routes/admin-service-targets') }] },
+              {
+                element: <RoleGate minimum="manager" />,
+                children: [{ path: 'admin/service-targets', lazy: () => import('@/app/routes/admin-service-targets') }],
+              },
               { element: <RoleGate minimum="manager" />, children: [{ path: 'analytics', lazy: () => import('@/app/routes/analytics') }] },
 
               { path: '*', element: <NotFoundPage /> },

@@ -179,7 +179,13 @@ async function upload<T>(url: string, formData: FormData, onProgress?: ProgressH
   }
 }
 
-async function uploadOnce<T>(url: string, formData: FormData, onProgress: ProgressHandler | undefined, options: UploadOptions, freshToken: boolean): Promise<T> {
+async function uploadOnce<T>(
+  url: string,
+  formData: FormData,
+  onProgress: ProgressHandler | undefined,
+  options: UploadOptions,
+  freshToken: boolean,
+): Promise<T> {
   const method = options.method ?? 'POST';
   const headers = await csrfHeader(method, freshToken);
   return new Promise<T>((resolve, reject) => {

@@ -80,7 +80,11 @@ function subscribeStatus(listener: () => void): () => void {
 
 /** Whether live updates are flowing, for a small indicator in the layout. */
 export function useRealtimeStatus(): RealtimeStatus {
-  return useSyncExternalStore(subscribeStatus, () => status, () => 'off');
+  return useSyncExternalStore(
+    subscribeStatus,
+    () => status,
+    () => 'off',
+  );
 }
 
 // A burst of events (a facility-wide power dip changes dozens of tools at once) is folded

@@ -28,5 +28,9 @@ function subscribe(listener: () => void): () => void {
 
 /** The current time in epoch ms, refreshed every 15 s while anything is watching. */
 export function useNow(): number {
-  return useSyncExternalStore(subscribe, () => now, () => now);
+  return useSyncExternalStore(
+    subscribe,
+    () => now,
+    () => now,
+  );
 }

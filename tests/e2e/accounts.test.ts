@@ -21,7 +21,15 @@ const emailFor = (local: string) => `${local}.${tag}@test.faultline.test`;
 let admin: User;
 
 // Invented people for a realistic list; none of them is a real person.
-const SHOWCASE: { local: string; name: string; role: Role; onCall?: boolean; active?: boolean; invited?: boolean; signedInHoursAgo?: number }[] = [
+const SHOWCASE: {
+  local: string;
+  name: string;
+  role: Role;
+  onCall?: boolean;
+  active?: boolean;
+  invited?: boolean;
+  signedInHoursAgo?: number;
+}[] = [
   { local: 'ines', name: 'Ines Varga-Holt', role: 'technician', onCall: true, signedInHoursAgo: 3 },
   { local: 'tomas', name: 'Tomas Quillfeather', role: 'member', signedInHoursAgo: 50 },
   { local: 'priya', name: 'Priya Okonkwo-Lind', role: 'manager', signedInHoursAgo: 26 },
@@ -33,7 +41,15 @@ beforeAll(async () => {
   server = await startTestServer({}, { serveClient: true });
   browser = await launchBrowser();
   const passwordHash = await hashPassword(TEST_PASSWORD);
-  admin = await User.create({ email: emailFor('admin'), name: 'Dana Achterberg', role: 'admin', passwordHash, lastSignInAt: null, onCall: false, active: true });
+  admin = await User.create({
+    email: emailFor('admin'),
+    name: 'Dana Achterberg',
+    role: 'admin',
+    passwordHash,
+    lastSignInAt: null,
+    onCall: false,
+    active: true,
+  });
   for (const person of SHOWCASE) {
     await User.create({
       email: emailFor(person.local),
@@ -107,7 +123,10 @@ describe('inviting, editing and disabling people', () => {
     await form.getByLabel('On call').check();
     await screenshot(adminPage, 'admin-users-invite-desktop');
     await form.getByRole('button', { name: 'Send the invitation' }).click();
-    await adminPage.getByRole('alert').filter({ hasText: `Invitation sent to ${newEmail}` }).waitFor();
+    await adminPage
+      .getByRole('alert')
+      .filter({ hasText: `Invitation sent to ${newEmail}` })
+      .waitFor();
     await expect.poll(() => row(adminPage, newEmail).count()).toBe(1);
     const invitedRow = await row(adminPage, newEmail).innerText();
     expect(invitedRow).toContain('Invited');
@@ -236,7 +255,15 @@ describe('inviting, editing and disabling people', () => {
 
 describe('forgot password', () => {
   it('when a person asks for a reset link from the sign-in page, then the mailed link sets a new password they can sign in with, once', async () => {
-    const person = await User.create({ email: emailFor('forgetful'), name: 'Noor Halvorsen', role: 'member', passwordHash: await hashPassword(TEST_PASSWORD), lastSignInAt: null, onCall: false, active: true });
+    const person = await User.create({
+      email: emailFor('forgetful'),
+      name: 'Noor Halvorsen',
+      role: 'member',
+      passwordHash: await hashPassword(TEST_PASSWORD),
+      lastSignInAt: null,
+      onCall: false,
+      active: true,
+    });
 
     const context = await browser.newContext({ viewport: VIEWPORTS.phone });
     const page = await context.newPage();

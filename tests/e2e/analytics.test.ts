@@ -26,12 +26,25 @@ const contexts: BrowserContext[] = [];
 /** About 400 days of plausible history per tool: running, failures with tickets, PM, engineering. */
 async function buildHistory() {
   const rnd = createRandom(4242);
-  const area = await Area.create({ name: unique('Invented litho bay'), code: unique('AB').toUpperCase(), description: null, retiredAt: null });
+  const area = await Area.create({
+    name: unique('Invented litho bay'),
+    code: unique('AB').toUpperCase(),
+    description: null,
+    retiredAt: null,
+  });
   areaId = area.id;
   const now = Date.now();
   const start = now - 400 * 24 * H;
   for (const name of ['Resist coat track', 'Mask aligner', 'ICP etcher', 'LPCVD tube', 'E-beam evaporator']) {
-    const tool = await Tool.create({ areaId, name: `${name} (invented)`, code: unique('AN').toUpperCase(), description: null, primaryEngineerId: null, backupEngineerId: null, retiredAt: null });
+    const tool = await Tool.create({
+      areaId,
+      name: `${name} (invented)`,
+      code: unique('AN').toUpperCase(),
+      description: null,
+      primaryEngineerId: null,
+      backupEngineerId: null,
+      retiredAt: null,
+    });
     toolCodes.push(tool.code);
     const rows: { state: E10State; reason: StateReason; start: number; end: number | null; ticketId: number | null }[] = [];
     let t = start;
@@ -50,14 +63,31 @@ async function buildHistory() {
       if (r < 0.45) {
         const created = t + 5 * 60_000;
         const ticket = await Ticket.create({
-          toolId: tool.id, moduleId: null, category: rnd.pick(TICKET_CATEGORIES), title: 'Invented fault for the analytics test', description: null, alarmText: null,
-          impact: 'tool_stopped', hazards: [], wafersOwner: null, wafersRecoverable: null, status: 'closed', priority: rnd.pick(['P1', 'P2', 'P2', 'P3'] as const),
-          reporterId: null, assigneeId: null, ...UNWORKED_TICKET_FIELDS, fixKind: 'failure', failureMode: rnd.pick(MODES), acknowledgedAt: new Date(created + rnd.exp(40) * 60_000),
+          toolId: tool.id,
+          moduleId: null,
+          category: rnd.pick(TICKET_CATEGORIES),
+          title: 'Invented fault for the analytics test',
+          description: null,
+          alarmText: null,
+          impact: 'tool_stopped',
+          hazards: [],
+          wafersOwner: null,
+          wafersRecoverable: null,
+          status: 'closed',
+          priority: rnd.pick(['P1', 'P2', 'P2', 'P3'] as const),
+          reporterId: null,
+          assigneeId: null,
+          ...UNWORKED_TICKET_FIELDS,
+          fixKind: 'failure',
+          failureMode: rnd.pick(MODES),
+          acknowledgedAt: new Date(created + rnd.exp(40) * 60_000),
         });
         push('unscheduled_downtime', 'repair', rnd.exp(3), ticket.id);
         if (rnd.chance(0.4) && t < now) push('unscheduled_downtime', 'waiting_parts', rnd.exp(20), ticket.id);
         if (t < now) push('unscheduled_downtime', 'repair', rnd.exp(2), ticket.id);
-        await ticket.sequelize.query('UPDATE tickets SET created_at = :c, fixed_at = :f, resolved_at = :f WHERE id = :id', { replacements: { c: new Date(created), f: new Date(Math.min(t, now - 1000)), id: ticket.id } });
+        await ticket.sequelize.query('UPDATE tickets SET created_at = :c, fixed_at = :f, resolved_at = :f WHERE id = :id', {
+          replacements: { c: new Date(created), f: new Date(Math.min(t, now - 1000)), id: ticket.id },
+        });
       } else if (r < 0.7) {
         push('scheduled_downtime', 'preventive_maintenance', rnd.exp(5));
       } else if (r < 0.9) {
@@ -67,7 +97,20 @@ async function buildHistory() {
       }
     }
     await StateInterval.bulkCreate(
-      rows.map((row) => ({ toolId: tool.id, moduleId: null, state: row.state, reason: row.reason, note: null, startedAt: new Date(row.start), endedAt: row.end === null ? null : new Date(row.end), expectedReturnAt: null, ticketId: row.ticketId, setById: null, source: 'staff' as const, confirmed: true })),
+      rows.map((row) => ({
+        toolId: tool.id,
+        moduleId: null,
+        state: row.state,
+        reason: row.reason,
+        note: null,
+        startedAt: new Date(row.start),
+        endedAt: row.end === null ? null : new Date(row.end),
+        expectedReturnAt: null,
+        ticketId: row.ticketId,
+        setById: null,
+        source: 'staff' as const,
+        confirmed: true,
+      })),
     );
   }
 }
@@ -97,7 +140,11 @@ async function managerPage(viewport: { width: number; height: number }): Promise
 
 /** Rows of a downloaded CSV (the export quotes only fields that need it; ours have no quotes). */
 function parseCsv(text: string): Record<string, string>[] {
-  const [header, ...lines] = text.replace(/^\uFEFF/, '').trim().split('\r\n').map((l) => l.split(','));
+  const [header, ...lines] = text
+    .replace(/^\uFEFF/, '')
+    .trim()
+    .split('\r\n')
+    .map((l) => l.split(','));
   return lines.map((cells) => Object.fromEntries(header.map((h, i) => [h, cells[i]])));
 }
 
@@ -126,7 +173,9 @@ describe('the analytics page in the browser', () => {
     expect(availability).toBeLessThan(100);
     const failures = await figure(page, 'failures');
     expect(failures).toBeGreaterThan(5);
-    expect(await page.getByTestId('mtbf-interval').textContent()).toMatch(/^With 90 % confidence the true MTBF lies between [\d,.]+ h and [\d,.]+ h, assuming failures occur at a constant rate\.$/);
+    expect(await page.getByTestId('mtbf-interval').textContent()).toMatch(
+      /^With 90 % confidence the true MTBF lies between [\d,.]+ h and [\d,.]+ h, assuming failures occur at a constant rate\.$/,
+    );
     expect(await page.getByText('MTTR (E10: repair only)').count()).toBe(1);
 
     // Every chart drew its bars or line.

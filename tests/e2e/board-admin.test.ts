@@ -16,7 +16,16 @@ beforeAll(async () => {
   const port = await freePort();
   server = await startTestServer({ PORT: String(port), PUBLIC_URL: `http://127.0.0.1:${port}` }, { serveClient: true });
   browser = await launchBrowser();
-  area = await Area.create({ name: unique('Thin-film bay'), code: unique('TF').toUpperCase().replace(/[^A-Z0-9-]/g, '').slice(0, 20), description: null, sortOrder: -200, retiredAt: null });
+  area = await Area.create({
+    name: unique('Thin-film bay'),
+    code: unique('TF')
+      .toUpperCase()
+      .replace(/[^A-Z0-9-]/g, '')
+      .slice(0, 20),
+    description: null,
+    sortOrder: -200,
+    retiredAt: null,
+  });
   await createUser('technician', { name: 'Hedda Marangoni' });
   const admin = await createUser('admin', { name: 'Yusuf Brennecke' });
   const context = await browser.newContext({ viewport: VIEWPORTS.desktop });

@@ -9,34 +9,107 @@ interface ToolPlan {
   name: string;
   code: string;
   modules?: [string, string][];
-  state?: { state: E10State; reason?: StateReason; note?: string; restriction?: string; backInHours?: number; agoHours: number; module?: string };
+  state?: {
+    state: E10State;
+    reason?: StateReason;
+    note?: string;
+    restriction?: string;
+    backInHours?: number;
+    agoHours: number;
+    module?: string;
+  };
 }
 
 const PLAN: { area: string; tools: ToolPlan[] }[] = [
   {
     area: 'Lithography bay',
     tools: [
-      { name: 'Resist coat track A', code: 'TRACK-A', modules: [['COAT1', 'Coater bowl 1'], ['COAT2', 'Coater bowl 2'], ['DEV', 'Developer bowl']], state: { module: 'COAT2', state: 'unscheduled_downtime', reason: 'repair', note: 'Dispense pump not delivering resist', agoHours: 2, backInHours: 5 } },
+      {
+        name: 'Resist coat track A',
+        code: 'TRACK-A',
+        modules: [
+          ['COAT1', 'Coater bowl 1'],
+          ['COAT2', 'Coater bowl 2'],
+          ['DEV', 'Developer bowl'],
+        ],
+        state: {
+          module: 'COAT2',
+          state: 'unscheduled_downtime',
+          reason: 'repair',
+          note: 'Dispense pump not delivering resist',
+          agoHours: 2,
+          backInHours: 5,
+        },
+      },
       { name: 'Mask aligner 1', code: 'ALIGN-1' },
-      { name: 'Mask aligner 2', code: 'ALIGN-2', state: { state: 'unscheduled_downtime', reason: 'waiting_parts', note: 'Exposure lamp failed; replacement ordered', agoHours: 26, backInHours: 30 } },
+      {
+        name: 'Mask aligner 2',
+        code: 'ALIGN-2',
+        state: {
+          state: 'unscheduled_downtime',
+          reason: 'waiting_parts',
+          note: 'Exposure lamp failed; replacement ordered',
+          agoHours: 26,
+          backInHours: 30,
+        },
+      },
       { name: 'E-beam lithography system', code: 'EBL-1', state: { state: 'productive', agoHours: 1 } },
     ],
   },
   {
     area: 'Dry etch bay',
     tools: [
-      { name: 'ICP etcher 1', code: 'ICP-1', state: { state: 'scheduled_downtime', reason: 'preventive_maintenance', note: 'Chamber wet clean and seal change', agoHours: 3, backInHours: 2 } },
-      { name: 'ICP etcher 2', code: 'ICP-2', modules: [['PM1', 'Process chamber 1'], ['PM2', 'Process chamber 2']] },
-      { name: 'Deep silicon etcher', code: 'DRIE-1', state: { state: 'engineering', reason: 'process_development', note: 'Recipe tuning for a user project', agoHours: 4 } },
-      { name: 'Oxygen plasma asher', code: 'ASH-1', state: { state: 'productive', restriction: 'Descum only; strip recipes disabled', agoHours: 20 } },
+      {
+        name: 'ICP etcher 1',
+        code: 'ICP-1',
+        state: {
+          state: 'scheduled_downtime',
+          reason: 'preventive_maintenance',
+          note: 'Chamber wet clean and seal change',
+          agoHours: 3,
+          backInHours: 2,
+        },
+      },
+      {
+        name: 'ICP etcher 2',
+        code: 'ICP-2',
+        modules: [
+          ['PM1', 'Process chamber 1'],
+          ['PM2', 'Process chamber 2'],
+        ],
+      },
+      {
+        name: 'Deep silicon etcher',
+        code: 'DRIE-1',
+        state: { state: 'engineering', reason: 'process_development', note: 'Recipe tuning for a user project', agoHours: 4 },
+      },
+      {
+        name: 'Oxygen plasma asher',
+        code: 'ASH-1',
+        state: { state: 'productive', restriction: 'Descum only; strip recipes disabled', agoHours: 20 },
+      },
     ],
   },
   {
     area: 'Furnace bay',
     tools: [
-      { name: 'LPCVD tube 3', code: 'LPCVD-3', state: { state: 'unscheduled_downtime', reason: 'repair', note: 'Pressure will not reach base; leak check in progress', agoHours: 3, backInHours: 20 } },
+      {
+        name: 'LPCVD tube 3',
+        code: 'LPCVD-3',
+        state: {
+          state: 'unscheduled_downtime',
+          reason: 'repair',
+          note: 'Pressure will not reach base; leak check in progress',
+          agoHours: 3,
+          backInHours: 20,
+        },
+      },
       { name: 'Rapid thermal annealer', code: 'RTA-1' },
-      { name: 'Forming gas anneal oven', code: 'ANL-1', state: { state: 'non_scheduled', reason: 'not_staffed', note: 'Out of use until the gas line is requalified', agoHours: 24 * 6 } },
+      {
+        name: 'Forming gas anneal oven',
+        code: 'ANL-1',
+        state: { state: 'non_scheduled', reason: 'not_staffed', note: 'Out of use until the gas line is requalified', agoHours: 24 * 6 },
+      },
     ],
   },
 ];
@@ -58,12 +131,29 @@ export async function buildFacility(deps: AppDeps, sequelize: Sequelize = deps.s
   const areas: Area[] = [];
   const created = new Date(Date.now() - 30 * 24 * 3_600_000);
   for (const [i, block] of PLAN.entries()) {
-    const area = await Area.create({ name: `${block.area} ${suffix}`, code: `E2E${suffix}${i}`, description: 'Invented for a browser test.', sortOrder: -100 + i, retiredAt: null });
+    const area = await Area.create({
+      name: `${block.area} ${suffix}`,
+      code: `E2E${suffix}${i}`,
+      description: 'Invented for a browser test.',
+      sortOrder: -100 + i,
+      retiredAt: null,
+    });
     areas.push(area);
     for (const plan of block.tools) {
       const code = `${plan.code}-${suffix}`;
       const { tool, modules } = await sequelize.transaction(async (transaction) => {
-        const t = await Tool.create({ areaId: area.id, name: plan.name, code, description: `${plan.name}, invented for a browser test.`, primaryEngineerId: null, backupEngineerId: null, retiredAt: null }, { transaction });
+        const t = await Tool.create(
+          {
+            areaId: area.id,
+            name: plan.name,
+            code,
+            description: `${plan.name}, invented for a browser test.`,
+            primaryEngineerId: null,
+            backupEngineerId: null,
+            retiredAt: null,
+          },
+          { transaction },
+        );
         await openInitialState(t.id, null, created, null, transaction);
         const mods: ToolModule[] = [];
         for (const [j, [mcode, mname]] of (plan.modules ?? []).entries()) {

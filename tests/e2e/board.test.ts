@@ -74,7 +74,13 @@ describe('the status board in the browser', () => {
 
     // Cut every socket's transport (as a network blip would) and change the tool while it is down.
     for (const socket of server.io.sockets.sockets.values()) socket.conn.close();
-    await changeState(server.deps, { toolId: tool.id, state: 'scheduled_downtime', reason: 'preventive_maintenance', note: 'Lamp hours check', actorId: null });
+    await changeState(server.deps, {
+      toolId: tool.id,
+      state: 'scheduled_downtime',
+      reason: 'preventive_maintenance',
+      note: 'Lamp hours check',
+      actorId: null,
+    });
 
     await card(watcher, tool.code).and(watcher.locator('[data-status="maintenance"]')).waitFor({ timeout: 10_000 });
   });
@@ -87,7 +93,8 @@ describe('the status board in the browser', () => {
     await expect.poll(() => page.locator('[data-testid^="board-tool-"]').count(), { timeout: 5000 }).toBe(1);
     await page.getByLabel('Search tools').fill('');
     await page.getByRole('button', { name: /tools Limited/ }).click();
-    const statuses = () => page.locator('[data-testid^="board-tool-"]').evaluateAll((els) => [...new Set(els.map((e) => e.getAttribute('data-status')))]);
+    const statuses = () =>
+      page.locator('[data-testid^="board-tool-"]').evaluateAll((els) => [...new Set(els.map((e) => e.getAttribute('data-status')))]);
     await expect.poll(statuses, { timeout: 5000 }).toEqual(['limited']);
     expect(await page.locator('[data-testid^="board-tool-"]').count()).toBeGreaterThanOrEqual(2);
     // Every badge carries its word and a shape, so it never rests on colour alone.

@@ -284,7 +284,15 @@ describe('the lobby display', () => {
       codes.push(area.code);
       for (let i = 0; i < perBay; i++) {
         const { tool } = await makeTool(server.deps.sequelize, { areaId: area.id, name: `Display tool ${b + 1}.${i + 1} (e2e)` });
-        if (down++ < attention) await changeState(server.deps, { toolId: tool.id, state: 'unscheduled_downtime', reason: 'repair', note: 'Pump fault under investigation', actorId: null, source: 'staff' });
+        if (down++ < attention)
+          await changeState(server.deps, {
+            toolId: tool.id,
+            state: 'unscheduled_downtime',
+            reason: 'repair',
+            note: 'Pump fault under investigation',
+            actorId: null,
+            source: 'staff',
+          });
       }
     }
     return codes;
@@ -299,7 +307,10 @@ describe('the lobby display', () => {
     const link = await api.post('/api/admin/display-links', { name: 'Entrance screen (e2e)' });
     try {
       await api.put('/api/admin/facility-settings', { ...before, timeZone: 'Pacific/Kiritimati' });
-      for (const viewport of [{ width: 1920, height: 1080 }, { width: 1280, height: 720 }]) {
+      for (const viewport of [
+        { width: 1920, height: 1080 },
+        { width: 1280, height: 720 },
+      ]) {
         const context = await browser.newContext({ viewport });
         contexts.push(context);
         const page = await context.newPage();
@@ -309,16 +320,19 @@ describe('the lobby display', () => {
         await page.waitForTimeout(500);
         expect(await page.getByTestId('display-board').getAttribute('data-pages')).toBe('1');
         expect(await page.locator('[data-testid^="display-tool-"]').count()).toBe(13);
-        const offScreen = await page.evaluate(() =>
-          [...document.querySelectorAll('[data-testid="display-bay-tool"], [data-testid^="display-tool-"]')].filter((el) => {
-            const r = el.getBoundingClientRect();
-            return r.top < 0 || r.bottom > window.innerHeight || r.left < 0 || r.right > window.innerWidth;
-          }).length,
+        const offScreen = await page.evaluate(
+          () =>
+            [...document.querySelectorAll('[data-testid="display-bay-tool"], [data-testid^="display-tool-"]')].filter((el) => {
+              const r = el.getBoundingClientRect();
+              return r.top < 0 || r.bottom > window.innerHeight || r.left < 0 || r.right > window.innerWidth;
+            }).length,
         );
         expect(offScreen).toBe(0);
         expect(await page.evaluate(() => document.documentElement.scrollHeight <= window.innerHeight)).toBe(true);
         expect(await page.getByTestId('display-board').innerText()).toContain('Pacific/Kiritimati');
-        const expected = new Intl.DateTimeFormat('en-US', { hour: '2-digit', minute: '2-digit', timeZone: 'Pacific/Kiritimati' }).format(new Date()).slice(0, 2);
+        const expected = new Intl.DateTimeFormat('en-US', { hour: '2-digit', minute: '2-digit', timeZone: 'Pacific/Kiritimati' })
+          .format(new Date())
+          .slice(0, 2);
         expect((await page.getByTestId('display-clock').innerText()).slice(0, 2)).toBe(expected);
         await screenshot(page, `display-${viewport.width}x${viewport.height}`, { fullPage: false });
       }
@@ -386,7 +400,9 @@ describe('ticket actions', () => {
     expect(others).not.toContain('Acknowledge');
     await next.getByRole('button', { name: 'Acknowledge' }).click();
     await page.getByText('Acknowledged.', { exact: true }).waitFor();
-    await expect.poll(() => page.getByTestId('next-steps').getByRole('button').allInnerTexts()).toEqual(expect.arrayContaining(['Start repair', 'Mark fixed']));
+    await expect
+      .poll(() => page.getByTestId('next-steps').getByRole('button').allInnerTexts())
+      .toEqual(expect.arrayContaining(['Start repair', 'Mark fixed']));
     await screenshot(page, 'ticket-actions-phone');
   });
 });

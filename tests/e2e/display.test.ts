@@ -60,7 +60,13 @@ describe('the lobby display', () => {
     const tool = tools['RTA-1'];
     expect(await row(page, tool.code).count()).toBe(0);
     const changedAt = Date.now();
-    await changeState(server.deps, { toolId: tool.id, state: 'unscheduled_downtime', reason: 'repair', note: 'Lamp bank 2 does not fire', actorId: null });
+    await changeState(server.deps, {
+      toolId: tool.id,
+      state: 'unscheduled_downtime',
+      reason: 'repair',
+      note: 'Lamp bank 2 does not fire',
+      actorId: null,
+    });
     await row(page, tool.code).waitFor({ timeout: 2000 });
     expect(Date.now() - changedAt).toBeLessThan(2000);
     expect(await row(page, tool.code).textContent()).toContain('Lamp bank 2 does not fire');
@@ -74,7 +80,9 @@ describe('the lobby display', () => {
       // Other tests' tools share the database; ?areas= limits the screen to this file's bays.
       await page.goto(`${server.url}/display/${link.key}?areas=${codes}`);
       await row(page, tools['LPCVD-3'].code).waitFor();
-      const shown = await page.locator('[data-testid^="display-tool-"]').evaluateAll((els) => els.map((e) => e.getAttribute('data-testid')));
+      const shown = await page
+        .locator('[data-testid^="display-tool-"]')
+        .evaluateAll((els) => els.map((e) => e.getAttribute('data-testid')));
       expect(shown.every((id) => Object.values(tools).some((t) => id === `display-tool-${t.code}`))).toBe(true);
       expect(await page.getByTestId('display-count-down').textContent()).toBe('3');
       await screenshot(page, `display-${name}`);

@@ -43,7 +43,11 @@ describe('the QR label sheet', () => {
 
     const expected = Object.values(tools).filter((t) => t.areaId === areaId);
     expect(expected.length).toBe(4);
-    await expect.poll(() => page.locator('[data-testid^="label-"]:not([data-testid="label-qr"]):not([data-testid="label-sheet"])').count(), { timeout: 10_000 }).toBe(expected.length);
+    await expect
+      .poll(() => page.locator('[data-testid^="label-"]:not([data-testid="label-qr"]):not([data-testid="label-sheet"])').count(), {
+        timeout: 10_000,
+      })
+      .toBe(expected.length);
 
     for (const tool of expected) {
       const label = page.getByTestId(`label-${tool.code}`);

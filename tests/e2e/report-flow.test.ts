@@ -139,7 +139,16 @@ describe('reporting a fault from a phone and fixing it', () => {
     let down = true;
     await page.route(
       (url) => url.pathname === '/api/tickets',
-      (route) => (route.request().method() === 'POST' && down ? route.fulfill({ status: 503, contentType: 'application/json', body: JSON.stringify({ error: { code: 'db_unavailable', message: 'The database is not reachable right now. Nothing was saved.' } }) }) : route.continue()),
+      (route) =>
+        route.request().method() === 'POST' && down
+          ? route.fulfill({
+              status: 503,
+              contentType: 'application/json',
+              body: JSON.stringify({
+                error: { code: 'db_unavailable', message: 'The database is not reachable right now. Nothing was saved.' },
+              }),
+            })
+          : route.continue(),
     );
     await page.goto(`${server.url}/report?tool=${tool.code}`);
     await fillReport(page, text);
@@ -198,7 +207,12 @@ describe('safety and concurrent edits in the browser', () => {
     const { tool } = await createTool(server.deps.sequelize, { name: 'Sputter coater (e2e)' });
     const reporterClient = new TestClient(server.url);
     await reporterClient.signIn(member.email, TEST_PASSWORD);
-    const created = await reporterClient.post('/api/tickets', { toolId: tool.id, category: 'vacuum', description: 'Base pressure will not come down', impact: 'tool_limited' });
+    const created = await reporterClient.post('/api/tickets', {
+      toolId: tool.id,
+      category: 'vacuum',
+      description: 'Base pressure will not come down',
+      impact: 'tool_limited',
+    });
     const id = created.body.id as number;
 
     const a = await signedInPage(one.email, VIEWPORTS.desktop);

@@ -16,7 +16,8 @@ beforeAll(async () => {
   // The demo accounts, as `npm start` seeds them (the test database has no demo seed).
   for (const u of DEMO_SIGN_INS) {
     const existing = await User.findOne({ where: { email: u.email } });
-    if (!existing) await User.create({ email: u.email, name: u.name, role: u.role, passwordHash: await hashPassword(u.password), lastSignInAt: null });
+    if (!existing)
+      await User.create({ email: u.email, name: u.name, role: u.role, passwordHash: await hashPassword(u.password), lastSignInAt: null });
   }
 });
 afterAll(async () => {

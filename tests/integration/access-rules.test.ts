@@ -16,7 +16,8 @@ beforeAll(async () => {
 afterAll(() => server.close());
 
 /** Fills route parameters with plausible values so the request reaches the access check. */
-const concrete = (path: string) => path.replace(/:(\w+)/g, (_m, name: string) => (/token|key/i.test(name) ? 'x'.repeat(43) : /code/i.test(name) ? 'NOPE' : '1'));
+const concrete = (path: string) =>
+  path.replace(/:(\w+)/g, (_m, name: string) => (/token|key/i.test(name) ? 'x'.repeat(43) : /code/i.test(name) ? 'NOPE' : '1'));
 
 /** Counts route handlers Express really has, including nested routers. */
 function countExpressRoutes(app: Express): number {

@@ -48,7 +48,20 @@ async function writeLog(toolId: number, start: Date, steps: Step[]) {
   }
 }
 
-async function makeTicket(toolId: number, fields: Partial<{ category: string; failureMode: string | null; priority: Priority; status: 'fixed' | 'closed' | 'merged' | 'reported'; fixKind: 'failure' | 'assist' | null; createdAt: Date; acknowledgedAt: Date | null; fixedAt: Date | null; resolvedAt: Date | null }>) {
+async function makeTicket(
+  toolId: number,
+  fields: Partial<{
+    category: string;
+    failureMode: string | null;
+    priority: Priority;
+    status: 'fixed' | 'closed' | 'merged' | 'reported';
+    fixKind: 'failure' | 'assist' | null;
+    createdAt: Date;
+    acknowledgedAt: Date | null;
+    fixedAt: Date | null;
+    resolvedAt: Date | null;
+  }>,
+) {
   const ticket = await Ticket.create({
     toolId,
     moduleId: null,
@@ -72,7 +85,10 @@ async function makeTicket(toolId: number, fields: Partial<{ category: string; fa
     resolvedAt: fields.resolvedAt ?? null,
   });
   // createdAt is set by Sequelize on insert; the response figures need a chosen one.
-  if (fields.createdAt) await ticket.sequelize.query('UPDATE tickets SET created_at = :c WHERE id = :id', { replacements: { c: fields.createdAt, id: ticket.id } });
+  if (fields.createdAt)
+    await ticket.sequelize.query('UPDATE tickets SET created_at = :c WHERE id = :id', {
+      replacements: { c: fields.createdAt, id: ticket.id },
+    });
   return ticket;
 }
 
@@ -90,18 +106,69 @@ beforeAll(async () => {
   ({ client: manager } = await signedInClient(server.url, 'manager'));
   const area = await Area.create({ name: unique('Analytics bay'), code: unique('AN').toUpperCase(), description: null, retiredAt: null });
   areaId = area.id;
-  const tool = (name: string) => Tool.create({ areaId, name: unique(name), code: unique('AN').toUpperCase(), description: null, primaryEngineerId: null, backupEngineerId: null, retiredAt: null });
+  const tool = (name: string) =>
+    Tool.create({
+      areaId,
+      name: unique(name),
+      code: unique('AN').toUpperCase(),
+      description: null,
+      primaryEngineerId: null,
+      backupEngineerId: null,
+      retiredAt: null,
+    });
   toolA = await tool('Analytics etcher');
   toolB = await tool('Analytics furnace');
   toolC = await tool('Analytics coater');
 
-  t1 = await makeTicket(toolA.id, { category: 'vacuum', failureMode: 'Turbo pump fault', priority: 'P2', fixKind: 'failure', createdAt: at('2024-01-25T00:05:00'), acknowledgedAt: at('2024-01-25T00:35:00'), fixedAt: at('2024-01-26T14:00:00'), resolvedAt: at('2024-01-26T14:00:00') });
+  t1 = await makeTicket(toolA.id, {
+    category: 'vacuum',
+    failureMode: 'Turbo pump fault',
+    priority: 'P2',
+    fixKind: 'failure',
+    createdAt: at('2024-01-25T00:05:00'),
+    acknowledgedAt: at('2024-01-25T00:35:00'),
+    fixedAt: at('2024-01-26T14:00:00'),
+    resolvedAt: at('2024-01-26T14:00:00'),
+  });
   // Same mode written differently: the Pareto groups modes regardless of case and spaces.
-  const t2 = await makeTicket(toolA.id, { category: 'vacuum', failureMode: ' turbo PUMP fault ', priority: 'P1', fixKind: 'failure', createdAt: at('2024-02-20T02:00:00'), acknowledgedAt: at('2024-02-20T02:10:00'), fixedAt: at('2024-02-20T08:00:00'), resolvedAt: at('2024-02-20T08:00:00') });
-  const t3 = await makeTicket(toolB.id, { category: 'wafer_handling', failureMode: null, priority: 'P3', fixKind: 'failure', createdAt: at('2024-02-15T00:00:00'), acknowledgedAt: at('2024-02-15T05:00:00'), fixedAt: at('2024-02-15T12:00:00'), resolvedAt: at('2024-02-15T12:00:00') });
+  const t2 = await makeTicket(toolA.id, {
+    category: 'vacuum',
+    failureMode: ' turbo PUMP fault ',
+    priority: 'P1',
+    fixKind: 'failure',
+    createdAt: at('2024-02-20T02:00:00'),
+    acknowledgedAt: at('2024-02-20T02:10:00'),
+    fixedAt: at('2024-02-20T08:00:00'),
+    resolvedAt: at('2024-02-20T08:00:00'),
+  });
+  const t3 = await makeTicket(toolB.id, {
+    category: 'wafer_handling',
+    failureMode: null,
+    priority: 'P3',
+    fixKind: 'failure',
+    createdAt: at('2024-02-15T00:00:00'),
+    acknowledgedAt: at('2024-02-15T05:00:00'),
+    fixedAt: at('2024-02-15T12:00:00'),
+    resolvedAt: at('2024-02-15T12:00:00'),
+  });
   // An assist in the period, one after it, and a merged duplicate (left out of response times).
-  await makeTicket(toolB.id, { category: 'wafer_handling', priority: 'P4', fixKind: 'assist', createdAt: at('2024-03-01T11:00:00'), acknowledgedAt: at('2024-03-01T11:30:00'), fixedAt: at('2024-03-01T12:00:00'), resolvedAt: at('2024-03-01T12:00:00') });
-  await makeTicket(toolA.id, { priority: 'P4', fixKind: 'assist', createdAt: at('2024-03-15T11:00:00'), acknowledgedAt: at('2024-03-15T11:30:00'), fixedAt: at('2024-03-15T12:00:00'), resolvedAt: at('2024-03-15T12:00:00') });
+  await makeTicket(toolB.id, {
+    category: 'wafer_handling',
+    priority: 'P4',
+    fixKind: 'assist',
+    createdAt: at('2024-03-01T11:00:00'),
+    acknowledgedAt: at('2024-03-01T11:30:00'),
+    fixedAt: at('2024-03-01T12:00:00'),
+    resolvedAt: at('2024-03-01T12:00:00'),
+  });
+  await makeTicket(toolA.id, {
+    priority: 'P4',
+    fixKind: 'assist',
+    createdAt: at('2024-03-15T11:00:00'),
+    acknowledgedAt: at('2024-03-15T11:30:00'),
+    fixedAt: at('2024-03-15T12:00:00'),
+    resolvedAt: at('2024-03-15T12:00:00'),
+  });
   await makeTicket(toolA.id, { priority: 'P1', status: 'merged', createdAt: at('2024-01-25T00:06:00') });
 
   // Tool A, hours inside the period in brackets:
@@ -123,11 +190,31 @@ beforeAll(async () => {
   ]);
   // A module log is for the board's Limited state only: its downtime must not count.
   const mod = await ToolModule.create({ toolId: toolA.id, name: 'Chamber B', code: 'B', sortOrder: 0, retiredAt: null });
-  await StateInterval.create({ toolId: toolA.id, moduleId: mod.id, state: 'unscheduled_downtime', reason: 'repair', note: null, startedAt: at('2024-02-10T00:00:00'), endedAt: at('2024-02-12T00:00:00'), expectedReturnAt: null, ticketId: null, setById: null, source: 'staff', confirmed: true });
+  await StateInterval.create({
+    toolId: toolA.id,
+    moduleId: mod.id,
+    state: 'unscheduled_downtime',
+    reason: 'repair',
+    note: null,
+    startedAt: at('2024-02-10T00:00:00'),
+    endedAt: at('2024-02-12T00:00:00'),
+    expectedReturnAt: null,
+    ticketId: null,
+    setById: null,
+    source: 'staff',
+    confirmed: true,
+  });
 
   // Tool B goes through the state service, as the app writes the log (close, then open).
   await server.deps.sequelize.transaction((transaction) => openInitialState(toolB.id, null, at('2024-01-01T00:00:00'), null, transaction));
-  await changeState(server.deps, { toolId: toolB.id, state: 'unscheduled_downtime', reason: 'repair', ticketId: t3.id, actorId: null, at: at('2024-02-15T00:00:00') });
+  await changeState(server.deps, {
+    toolId: toolB.id,
+    state: 'unscheduled_downtime',
+    reason: 'repair',
+    ticketId: t3.id,
+    actorId: null,
+    at: at('2024-02-15T00:00:00'),
+  });
   await changeState(server.deps, { toolId: toolB.id, state: 'standby', actorId: null, at: at('2024-02-15T12:00:00') });
 
   // Tool C: written out of order (later intervals first), as a bulk import might.
@@ -296,7 +383,12 @@ describe('analytics: time accounting from the state log', () => {
     // All four: mean time to acknowledge (10 + 30 + 300 + 30) / 4 = 92.5 min.
     expect(overall.tickets).toBe(4);
     close(overall.ackMeanMinutes, 92.5);
-    const met = [10 <= targets.P1.acknowledgeMinutes, 30 <= targets.P2.acknowledgeMinutes, 300 <= targets.P3.acknowledgeMinutes, 30 <= targets.P4.acknowledgeMinutes].filter(Boolean).length;
+    const met = [
+      10 <= targets.P1.acknowledgeMinutes,
+      30 <= targets.P2.acknowledgeMinutes,
+      300 <= targets.P3.acknowledgeMinutes,
+      30 <= targets.P4.acknowledgeMinutes,
+    ].filter(Boolean).length;
     close(overall.ackMetShare, met / 4);
     // 90th percentile of 10, 30, 30, 300 (linear interpolation): 30 + 0.7 × 270 = 219 min.
     close(overall.ackP90Minutes, 219);
@@ -344,19 +436,31 @@ describe('analytics: time accounting from the state log', () => {
     const tools = await manager.get(`/api/analytics/tools.csv?${query(`scope=area&areaId=${areaId}`)}`);
     expect(tools.status).toBe(200);
     expect(tools.headers.get('content-type')).toMatch(/^text\/csv/);
-    expect(tools.headers.get('content-disposition')).toMatch(/^attachment; filename="faultline-tools-area-\d+-2024-01-20-2024-03-10\.csv"$/);
-    const toolLines = tools.text.replace(/^\uFEFF/, '').trim().split('\r\n');
+    expect(tools.headers.get('content-disposition')).toMatch(
+      /^attachment; filename="faultline-tools-area-\d+-2024-01-20-2024-03-10\.csv"$/,
+    );
+    const toolLines = tools.text
+      .replace(/^\uFEFF/, '')
+      .trim()
+      .split('\r\n');
     const header = toolLines[0].split(',');
     expect(toolLines).toHaveLength(4);
     const udt = header.indexOf('Unscheduled downtime h');
     const failures = header.indexOf('Failures');
     const cells = toolLines.slice(1).map((line) => line.split(','));
-    close(cells.reduce((s, c) => s + Number(c[udt]), 0), 69, 0.01);
+    close(
+      cells.reduce((s, c) => s + Number(c[udt]), 0),
+      69,
+      0.01,
+    );
     expect(cells.reduce((s, c) => s + Number(c[failures]), 0)).toBe(5);
 
     const months = await manager.get(`/api/analytics/months.csv?${query(`scope=area&areaId=${areaId}`)}`);
     expect(months.status).toBe(200);
-    const monthLines = months.text.replace(/^\uFEFF/, '').trim().split('\r\n');
+    const monthLines = months.text
+      .replace(/^\uFEFF/, '')
+      .trim()
+      .split('\r\n');
     expect(monthLines.map((l) => l.split(',')[0])).toEqual(['Month (UTC)', '2024-01', '2024-02', '2024-03']);
     const mHeader = monthLines[0].split(',');
     const total = monthLines.slice(1).reduce((s, l) => s + Number(l.split(',')[mHeader.indexOf('Unscheduled downtime h')]), 0);

@@ -65,7 +65,8 @@ describe('sign-in', () => {
     try {
       await Throttle.destroy({ where: { key: { [Op.like]: 'signin:address:%' } } });
       const client = new TestClient(s.url);
-      for (let i = 0; i < 4; i++) expect((await client.signIn(`probe-${i}-${Date.now()}@test.faultline.test`, 'guess-guess')).status).toBe(401);
+      for (let i = 0; i < 4; i++)
+        expect((await client.signIn(`probe-${i}-${Date.now()}@test.faultline.test`, 'guess-guess')).status).toBe(401);
       expect((await client.signIn(`probe-last-${Date.now()}@test.faultline.test`, 'guess-guess')).status).toBe(429);
     } finally {
       await Throttle.destroy({ where: { key: { [Op.like]: 'signin:address:%' } } });

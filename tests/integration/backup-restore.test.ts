@@ -23,7 +23,9 @@ describe('backup and restore', () => {
     await admin.query(`CREATE DATABASE \`${source}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
     const db = createSequelize({ ...testConfig(), DB_NAME: source }, { bindModels: false });
     await createMigrator(db).up();
-    await db.query(`INSERT INTO users (email, name, role, created_at, updated_at) VALUES ('kept@test.faultline.test', 'Zoë Überprüfung', 'member', NOW(3), NOW(3))`);
+    await db.query(
+      `INSERT INTO users (email, name, role, created_at, updated_at) VALUES ('kept@test.faultline.test', 'Zoë Überprüfung', 'member', NOW(3), NOW(3))`,
+    );
     await db.close();
 
     fs.mkdirSync(path.dirname(file), { recursive: true });
@@ -32,7 +34,9 @@ describe('backup and restore', () => {
     execFileSync('bash', [path.join(projectRoot, 'scripts/db-restore.sh'), file, target]);
 
     const restored = createSequelize({ ...testConfig(), DB_NAME: target }, { bindModels: false });
-    const rows = await restored.query<{ name: string }>(`SELECT name FROM users WHERE email = 'kept@test.faultline.test'`, { type: QueryTypes.SELECT });
+    const rows = await restored.query<{ name: string }>(`SELECT name FROM users WHERE email = 'kept@test.faultline.test'`, {
+      type: QueryTypes.SELECT,
+    });
     const migrations = await restored.query<{ n: number }>('SELECT COUNT(*) AS n FROM schema_migrations', { type: QueryTypes.SELECT });
     await restored.close();
     expect(rows).toEqual([{ name: 'Zoë Überprüfung' }]);

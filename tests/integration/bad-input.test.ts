@@ -10,7 +10,8 @@ beforeAll(async () => {
 });
 afterAll(() => server.close());
 
-const concrete = (path: string) => path.replace(/:(\w+)/g, (_m, name: string) => (/token|key/i.test(name) ? 'x'.repeat(43) : /code/i.test(name) ? 'NOPE' : '1'));
+const concrete = (path: string) =>
+  path.replace(/:(\w+)/g, (_m, name: string) => (/token|key/i.test(name) ? 'x'.repeat(43) : /code/i.test(name) ? 'NOPE' : '1'));
 
 // Counters and sessions change on every request by design; everything else must stay put.
 const VOLATILE = new Set(['throttles', 'sessions', 'schema_migrations']);
@@ -48,7 +49,12 @@ describe('bad input', () => {
 
   it('when an unknown field rides along with valid ones, then it is refused by name, not ignored', async () => {
     const { client } = await signedInClient(server.url, 'admin');
-    const r = await client.post('/api/users', { email: `ok-${Date.now()}@test.faultline.test`, name: 'Fine', role: 'member', isSuperuser: true });
+    const r = await client.post('/api/users', {
+      email: `ok-${Date.now()}@test.faultline.test`,
+      name: 'Fine',
+      role: 'member',
+      isSuperuser: true,
+    });
     expect(r.status).toBe(400);
     expect(r.body.error.fields).toHaveProperty('isSuperuser');
   });

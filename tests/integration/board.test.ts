@@ -21,7 +21,23 @@ function findTool(board: BoardData, id: number): BoardTool | undefined {
 }
 
 async function addTicket(toolId: number, status: Ticket['status']) {
-  return Ticket.create({ toolId, moduleId: null, category: 'other', title: `Ticket ${status}`, description: null, alarmText: null, impact: 'still_usable', hazards: [], wafersOwner: null, wafersRecoverable: null, status, priority: 'P3', reporterId: null, assigneeId: null, ...UNWORKED_TICKET_FIELDS });
+  return Ticket.create({
+    toolId,
+    moduleId: null,
+    category: 'other',
+    title: `Ticket ${status}`,
+    description: null,
+    alarmText: null,
+    impact: 'still_usable',
+    hazards: [],
+    wafersOwner: null,
+    wafersRecoverable: null,
+    status,
+    priority: 'P3',
+    reporterId: null,
+    assigneeId: null,
+    ...UNWORKED_TICKET_FIELDS,
+  });
 }
 
 describe('the status board', () => {
@@ -31,9 +47,23 @@ describe('the status board', () => {
     const down = await makeTool(server.deps.sequelize, { areaId: area.id, name: 'Board test down' });
     const limited = await makeTool(server.deps.sequelize, { areaId: area.id, name: 'Board test limited', modules: ['A', 'B'] });
     const back = new Date(Date.now() + 5 * HOUR_MS);
-    const d = await changeState(server.deps, { toolId: down.tool.id, state: 'unscheduled_downtime', reason: 'repair', note: 'Heater zone 3 open', expectedReturnAt: back, actorId: null });
-    const m = await changeState(server.deps, { toolId: limited.tool.id, moduleId: limited.modules[1].id, state: 'scheduled_downtime', note: 'Shield swap', actorId: null });
-    for (const status of ['reported', 'acknowledged', 'in_repair', 'waiting', 'fixed', 'closed', 'no_fault_found'] as const) await addTicket(down.tool.id, status);
+    const d = await changeState(server.deps, {
+      toolId: down.tool.id,
+      state: 'unscheduled_downtime',
+      reason: 'repair',
+      note: 'Heater zone 3 open',
+      expectedReturnAt: back,
+      actorId: null,
+    });
+    const m = await changeState(server.deps, {
+      toolId: limited.tool.id,
+      moduleId: limited.modules[1].id,
+      state: 'scheduled_downtime',
+      note: 'Shield swap',
+      actorId: null,
+    });
+    for (const status of ['reported', 'acknowledged', 'in_repair', 'waiting', 'fixed', 'closed', 'no_fault_found'] as const)
+      await addTicket(down.tool.id, status);
 
     const r = await client.get('/api/board');
     expect(r.status).toBe(200);
@@ -67,7 +97,14 @@ describe('the status board', () => {
   it('when every module of a running tool is down, then the board shows the tool Down', async () => {
     const { client } = await signedInClient(server.url, 'member');
     const { tool, modules } = await makeTool(server.deps.sequelize, { modules: ['A', 'B'] });
-    for (const mod of modules) await changeState(server.deps, { toolId: tool.id, moduleId: mod.id, state: 'unscheduled_downtime', note: 'Power loss', actorId: null });
+    for (const mod of modules)
+      await changeState(server.deps, {
+        toolId: tool.id,
+        moduleId: mod.id,
+        state: 'unscheduled_downtime',
+        note: 'Power loss',
+        actorId: null,
+      });
     const board = (await client.get('/api/board')).body as BoardData;
     expect(findTool(board, tool.id)!.status).toBe('down');
   });
@@ -100,16 +137,26 @@ describe('the status board', () => {
   it('when a state changes, then a signed-in socket hears tool.state_changed within a second', async () => {
     const { client } = await signedInClient(server.url, 'member');
     const { tool } = await makeTool(server.deps.sequelize);
-    const socket: Socket = connect(server.url, { path: '/socket.io', transports: ['websocket'], extraHeaders: { cookie: client.cookie! }, forceNew: true });
+    const socket: Socket = connect(server.url, {
+      path: '/socket.io',
+      transports: ['websocket'],
+      extraHeaders: { cookie: client.cookie! },
+      forceNew: true,
+    });
     try {
       await new Promise<void>((resolve, reject) => {
         socket.once('connect', () => resolve());
         socket.once('connect_error', reject);
       });
-      const heard = new Promise<{ toolId: number; state: string }>((resolve) => socket.on('tool.state_changed', (p) => p.toolId === tool.id && resolve(p)));
+      const heard = new Promise<{ toolId: number; state: string }>((resolve) =>
+        socket.on('tool.state_changed', (p) => p.toolId === tool.id && resolve(p)),
+      );
       const started = Date.now();
       await changeState(server.deps, { toolId: tool.id, state: 'engineering', note: 'Recipe work', actorId: null });
-      const payload = await Promise.race([heard, new Promise<never>((_, reject) => setTimeout(() => reject(new Error('no event within 1 s')), 1000))]);
+      const payload = await Promise.race([
+        heard,
+        new Promise<never>((_, reject) => setTimeout(() => reject(new Error('no event within 1 s')), 1000)),
+      ]);
       expect(payload).toEqual({ toolId: tool.id, moduleId: null, state: 'engineering' });
       expect(Date.now() - started).toBeLessThan(1000);
     } finally {
@@ -124,12 +171,35 @@ describe('the tool page', () => {
     const primary = await createUser('technician', { name: 'Primary Person' });
     const backup = await createUser('technician', { name: 'Backup Person' });
     const created = new Date(Date.now() - 20 * DAY_MS);
-    const { tool } = await makeTool(server.deps.sequelize, { modules: ['PM1'], since: created, primaryEngineerId: primary.id, backupEngineerId: backup.id });
+    const { tool } = await makeTool(server.deps.sequelize, {
+      modules: ['PM1'],
+      since: created,
+      primaryEngineerId: primary.id,
+      backupEngineerId: backup.id,
+    });
     // 20 days: 3 days down in all (1 unscheduled, 0.5 scheduled, 1.5 non-scheduled).
-    await changeState(server.deps, { toolId: tool.id, state: 'unscheduled_downtime', note: 'x', actorId: null, at: new Date(created.getTime() + 2 * DAY_MS) });
+    await changeState(server.deps, {
+      toolId: tool.id,
+      state: 'unscheduled_downtime',
+      note: 'x',
+      actorId: null,
+      at: new Date(created.getTime() + 2 * DAY_MS),
+    });
     await changeState(server.deps, { toolId: tool.id, state: 'productive', actorId: null, at: new Date(created.getTime() + 3 * DAY_MS) });
-    await changeState(server.deps, { toolId: tool.id, state: 'scheduled_downtime', note: 'PM', actorId: null, at: new Date(created.getTime() + 7 * DAY_MS) });
-    await changeState(server.deps, { toolId: tool.id, state: 'non_scheduled', note: 'Holiday', actorId: null, at: new Date(created.getTime() + 7.5 * DAY_MS) });
+    await changeState(server.deps, {
+      toolId: tool.id,
+      state: 'scheduled_downtime',
+      note: 'PM',
+      actorId: null,
+      at: new Date(created.getTime() + 7 * DAY_MS),
+    });
+    await changeState(server.deps, {
+      toolId: tool.id,
+      state: 'non_scheduled',
+      note: 'Holiday',
+      actorId: null,
+      at: new Date(created.getTime() + 7.5 * DAY_MS),
+    });
     await changeState(server.deps, { toolId: tool.id, state: 'standby', actorId: user.id, at: new Date(created.getTime() + 9 * DAY_MS) });
 
     const r = await client.get(`/api/tools/by-code/${tool.code}`);
@@ -156,9 +226,22 @@ describe('the tool page', () => {
     const { tool, modules } = await makeTool(server.deps.sequelize, { modules: ['A'], since: new Date(Date.now() - 10 * HOUR_MS) });
     const states = ['productive', 'standby', 'engineering', 'productive', 'standby'] as const;
     for (const [i, state] of states.entries()) {
-      await changeState(server.deps, { toolId: tool.id, state, note: state === 'engineering' ? 'Qual' : null, actorId: null, at: new Date(Date.now() - (9 - i) * HOUR_MS) });
+      await changeState(server.deps, {
+        toolId: tool.id,
+        state,
+        note: state === 'engineering' ? 'Qual' : null,
+        actorId: null,
+        at: new Date(Date.now() - (9 - i) * HOUR_MS),
+      });
     }
-    await changeState(server.deps, { toolId: tool.id, moduleId: modules[0].id, state: 'unscheduled_downtime', note: 'Arc', actorId: null, at: new Date(Date.now() - 30 * 60_000) });
+    await changeState(server.deps, {
+      toolId: tool.id,
+      moduleId: modules[0].id,
+      state: 'unscheduled_downtime',
+      note: 'Arc',
+      actorId: null,
+      at: new Date(Date.now() - 30 * 60_000),
+    });
 
     const first = await client.get(`/api/tools/${tool.id}/history?limit=3`);
     const second = await client.get(`/api/tools/${tool.id}/history?limit=3&offset=3`);
@@ -191,7 +274,14 @@ describe('availability over a period (computed in SQL by clipping intervals)', (
 
     // Period days 1–8: standby 1, unscheduled 1, productive 4, scheduled 0.5, non-scheduled 0.5.
     const times = await stateTimeInPeriod(server.deps.sequelize, { from: at(1), to: at(8), toolIds: [tool.id] });
-    expect(times.get(tool.id)).toEqual({ productive: 4 * DAY_MS, standby: 1 * DAY_MS, engineering: 0, scheduled_downtime: 0.5 * DAY_MS, unscheduled_downtime: 1 * DAY_MS, non_scheduled: 0.5 * DAY_MS });
+    expect(times.get(tool.id)).toEqual({
+      productive: 4 * DAY_MS,
+      standby: 1 * DAY_MS,
+      engineering: 0,
+      scheduled_downtime: 0.5 * DAY_MS,
+      unscheduled_downtime: 1 * DAY_MS,
+      non_scheduled: 0.5 * DAY_MS,
+    });
 
     const figure = (await availabilityForPeriod(server.deps.sequelize, { from: at(1), to: at(8), toolIds: [tool.id] })).get(tool.id)!;
     expect(figure.coveredMs).toBe(7 * DAY_MS);
@@ -199,7 +289,9 @@ describe('availability over a period (computed in SQL by clipping intervals)', (
     expect(figure.availability).toBeCloseTo(5 / 7, 10);
 
     // Before the tool existed there is nothing to measure.
-    const before = (await availabilityForPeriod(server.deps.sequelize, { from: new Date(base.getTime() - 5 * DAY_MS), to: base, toolIds: [tool.id] })).get(tool.id)!;
+    const before = (
+      await availabilityForPeriod(server.deps.sequelize, { from: new Date(base.getTime() - 5 * DAY_MS), to: base, toolIds: [tool.id] })
+    ).get(tool.id)!;
     expect(before).toMatchObject({ coveredMs: 0, availability: null });
   });
 });

@@ -21,7 +21,11 @@ describe('CSRF', () => {
 
   it('when the token is wrong, then 403', async () => {
     const { client } = await signedInClient(server.url, 'admin');
-    const r = await client.post('/api/users', { email: 'x@test.faultline.test', name: 'X', role: 'member' }, { 'x-csrf-token': 'A'.repeat(43) });
+    const r = await client.post(
+      '/api/users',
+      { email: 'x@test.faultline.test', name: 'X', role: 'member' },
+      { 'x-csrf-token': 'A'.repeat(43) },
+    );
     expect(r.status).toBe(403);
   });
 
@@ -51,7 +55,11 @@ describe('security headers', () => {
     expect(r.headers.get('cache-control')).toBe('no-store');
     expect(r.headers.get('x-powered-by')).toBeNull();
 
-    const bad = await fetch(`${server.url}/api/session`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: '{not json' });
+    const bad = await fetch(`${server.url}/api/session`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json' },
+      body: '{not json',
+    });
     const text = await bad.text();
     expect(text).not.toMatch(/at .*\.ts:\d+/);
     expect(JSON.parse(text).error).toEqual(expect.objectContaining({ code: expect.any(String), message: expect.any(String) }));

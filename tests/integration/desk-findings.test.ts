@@ -338,8 +338,12 @@ describe('waiting with an expected date', () => {
     const { client: tech } = await staffClient();
     const due = new Date(Date.now() + 3 * 24 * 3_600_000);
     expect((await act(tech, t.id, { action: 'acknowledge' })).status).toBe(200);
-    expect((await act(tech, t.id, { action: 'wait', waitReason: 'parts', note: 'Valve ordered', expectedReturnAt: due.toISOString() })).status).toBe(200);
-    const entry = (await member.get(`/api/board?q=${tool.code}`)).body.areas.flatMap((a: any) => a.tools).find((x: any) => x.code === tool.code);
+    expect(
+      (await act(tech, t.id, { action: 'wait', waitReason: 'parts', note: 'Valve ordered', expectedReturnAt: due.toISOString() })).status,
+    ).toBe(200);
+    const entry = (await member.get(`/api/board?q=${tool.code}`)).body.areas
+      .flatMap((a: any) => a.tools)
+      .find((x: any) => x.code === tool.code);
     expect(new Date(entry.expectedReturnAt).getTime()).toBe(due.getTime());
   });
 });

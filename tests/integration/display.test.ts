@@ -17,7 +17,13 @@ afterAll(() => server.close());
 const withKey = (key: string) => ({ headers: { 'x-display-key': key } });
 
 function displaySocket(key: string): Socket {
-  return connect(server.url, { path: '/socket.io', transports: ['websocket'], auth: { displayKey: key }, forceNew: true, reconnection: false });
+  return connect(server.url, {
+    path: '/socket.io',
+    transports: ['websocket'],
+    auth: { displayKey: key },
+    forceNew: true,
+    reconnection: false,
+  });
 }
 
 function waitFor<T>(register: (done: (value: T) => void) => void, ms = 2000, what = 'event'): Promise<T> {
@@ -74,7 +80,11 @@ describe('lobby display links', () => {
     // A display key opens the board only: the tool pages and the notices need a person.
     expect((await fetch(`${server.url}/api/tools/by-code/${tool.code}`, withKey(key))).status).toBe(401);
     expect((await fetch(`${server.url}/api/notices`, withKey(key))).status).toBe(401);
-    const write = await fetch(`${server.url}/api/tools/${tool.id}/state`, { method: 'POST', headers: { 'x-display-key': key, 'content-type': 'application/json' }, body: JSON.stringify({ state: 'standby' }) });
+    const write = await fetch(`${server.url}/api/tools/${tool.id}/state`, {
+      method: 'POST',
+      headers: { 'x-display-key': key, 'content-type': 'application/json' },
+      body: JSON.stringify({ state: 'standby' }),
+    });
     expect(write.status).toBeGreaterThanOrEqual(401);
     expect(write.status).toBeLessThanOrEqual(403);
   });
@@ -102,7 +112,11 @@ describe('lobby display links', () => {
     try {
       await waitFor<void>((done) => socket.once('connect', () => done()), 2000, 'connect');
       // The display hears state changes like any board.
-      const heard = waitFor<{ toolId: number }>((done) => socket.on('tool.state_changed', (p) => p.toolId === tool.id && done(p)), 1000, 'tool.state_changed');
+      const heard = waitFor<{ toolId: number }>(
+        (done) => socket.on('tool.state_changed', (p) => p.toolId === tool.id && done(p)),
+        1000,
+        'tool.state_changed',
+      );
       await changeState(server.deps, { toolId: tool.id, state: 'unscheduled_downtime', note: 'x', actorId: null });
       expect((await heard).toolId).toBe(tool.id);
 

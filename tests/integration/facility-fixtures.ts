@@ -14,7 +14,15 @@ export async function makeArea(name?: string) {
 
 export async function makeTool(
   sequelize: Sequelize,
-  opts: { areaId?: number; name?: string; criticality?: Criticality; modules?: string[]; since?: Date; primaryEngineerId?: number | null; backupEngineerId?: number | null } = {},
+  opts: {
+    areaId?: number;
+    name?: string;
+    criticality?: Criticality;
+    modules?: string[];
+    since?: Date;
+    primaryEngineerId?: number | null;
+    backupEngineerId?: number | null;
+  } = {},
 ) {
   const areaId = opts.areaId ?? (await makeArea()).id;
   const since = opts.since ?? new Date(Date.now() - 60_000);
@@ -45,7 +53,13 @@ export async function makeTool(
 
 /** The state log of a tool or module, oldest first. */
 export function intervalsOf(toolId: number, moduleId: number | null = null) {
-  return StateInterval.findAll({ where: { toolId, moduleId }, order: [['startedAt', 'ASC'], ['id', 'ASC']] });
+  return StateInterval.findAll({
+    where: { toolId, moduleId },
+    order: [
+      ['startedAt', 'ASC'],
+      ['id', 'ASC'],
+    ],
+  });
 }
 
 /** Checks the log invariant: starts at the previous end, one open interval, the last one. */
@@ -58,7 +72,9 @@ export function logProblems(intervals: StateInterval[]): string[] {
     const prev = intervals[i - 1];
     const cur = intervals[i];
     if (!prev.endedAt || prev.endedAt.getTime() !== cur.startedAt.getTime()) {
-      problems.push(`interval ${cur.id} starts at ${cur.startedAt.toISOString()} but the one before ends at ${prev.endedAt?.toISOString() ?? 'never'}`);
+      problems.push(
+        `interval ${cur.id} starts at ${cur.startedAt.toISOString()} but the one before ends at ${prev.endedAt?.toISOString() ?? 'never'}`,
+      );
     }
   }
   return problems;

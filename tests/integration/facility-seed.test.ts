@@ -38,7 +38,8 @@ async function seededThenRolledBack<T>(now: Date, inspect: (seed: FacilitySeed, 
   return out!;
 }
 
-const rows = <T extends object>(t: Transaction, sql: string, replacements: Record<string, unknown>) => sequelize.query<T>(sql, { type: QueryTypes.SELECT, transaction: t, replacements });
+const rows = <T extends object>(t: Transaction, sql: string, replacements: Record<string, unknown>) =>
+  sequelize.query<T>(sql, { type: QueryTypes.SELECT, transaction: t, replacements });
 
 describe('the demo facility seed', () => {
   it('when seeded, then about 40 tools in 6 areas get a gap-free year of history within seconds, with some tools in trouble now', async () => {
@@ -48,13 +49,21 @@ describe('the demo facility seed', () => {
       expect(seed.areas).toHaveLength(6);
       expect(seed.tools).toHaveLength(40);
       expect(seed.facilityName).toMatch(/fictional/);
-      expect(seed.tools.every((tool) => tool.primaryEngineerId && tool.backupEngineerId && tool.primaryEngineerId !== tool.backupEngineerId)).toBe(true);
+      expect(
+        seed.tools.every((tool) => tool.primaryEngineerId && tool.backupEngineerId && tool.primaryEngineerId !== tool.backupEngineerId),
+      ).toBe(true);
       expect(seed.tools.filter((tool) => tool.modules.length > 0).length).toBeGreaterThanOrEqual(5);
       const ids = seed.tools.map((tool) => tool.id);
 
       // The log invariant, for every tool and module: one open interval, each start = previous end.
-      const open = await rows<{ n: number }>(t, `SELECT COUNT(*) AS n FROM state_intervals WHERE tool_id IN (:ids) AND ended_at IS NULL`, { ids });
-      const logs = await rows<{ n: number }>(t, `SELECT COUNT(DISTINCT tool_id, module_key) AS n FROM state_intervals WHERE tool_id IN (:ids)`, { ids });
+      const open = await rows<{ n: number }>(t, `SELECT COUNT(*) AS n FROM state_intervals WHERE tool_id IN (:ids) AND ended_at IS NULL`, {
+        ids,
+      });
+      const logs = await rows<{ n: number }>(
+        t,
+        `SELECT COUNT(DISTINCT tool_id, module_key) AS n FROM state_intervals WHERE tool_id IN (:ids)`,
+        { ids },
+      );
       expect(Number(open[0].n)).toBe(Number(logs[0].n));
       expect(Number(logs[0].n)).toBe(40 + seed.tools.reduce((n, tool) => n + tool.modules.length, 0));
       const gaps = await rows<{ n: number }>(
@@ -71,7 +80,11 @@ describe('the demo facility seed', () => {
       expect(now.getTime() - span[0].first.getTime()).toBeGreaterThanOrEqual(364 * 86_400_000);
 
       // Every kind of time a year brings.
-      const kinds = await rows<{ state: string; reason: string }>(t, `SELECT DISTINCT state, reason FROM state_intervals WHERE tool_id IN (:ids) AND module_id IS NULL`, { ids });
+      const kinds = await rows<{ state: string; reason: string }>(
+        t,
+        `SELECT DISTINCT state, reason FROM state_intervals WHERE tool_id IN (:ids) AND module_id IS NULL`,
+        { ids },
+      );
       const has = (state: string, reason?: string) => kinds.some((k) => k.state === state && (!reason || k.reason === reason));
       expect(has('unscheduled_downtime', 'repair')).toBe(true);
       expect(has('unscheduled_downtime', 'waiting_parts')).toBe(true);

@@ -85,7 +85,14 @@ describe('tools and modules (admin)', () => {
     });
     stop();
     expect(r.status).toBe(201);
-    expect(r.body).toMatchObject({ code, areaId: area.id, criticality: 'high', primaryEngineerId: primary.id, backupEngineerId: backup.id, version: expect.any(Number) });
+    expect(r.body).toMatchObject({
+      code,
+      areaId: area.id,
+      criticality: 'high',
+      primaryEngineerId: primary.id,
+      backupEngineerId: backup.id,
+      version: expect.any(Number),
+    });
     expect(r.body.modules.map((m: { code: string }) => m.code)).toEqual(['PM1', 'LL']);
 
     const own = await intervalsOf(r.body.id);
@@ -100,10 +107,21 @@ describe('tools and modules (admin)', () => {
     const area = await makeArea();
     const member = await createUser('member');
     const tech = await createUser('technician');
-    const notStaff = await client.post('/api/admin/tools', { name: 'X', code: uniqueCode('x'), areaId: area.id, primaryEngineerId: member.id });
+    const notStaff = await client.post('/api/admin/tools', {
+      name: 'X',
+      code: uniqueCode('x'),
+      areaId: area.id,
+      primaryEngineerId: member.id,
+    });
     expect(notStaff.status).toBe(400);
     expect(notStaff.body.error.fields.primaryEngineerId).toBeDefined();
-    const same = await client.post('/api/admin/tools', { name: 'X', code: uniqueCode('x'), areaId: area.id, primaryEngineerId: tech.id, backupEngineerId: tech.id });
+    const same = await client.post('/api/admin/tools', {
+      name: 'X',
+      code: uniqueCode('x'),
+      areaId: area.id,
+      primaryEngineerId: tech.id,
+      backupEngineerId: tech.id,
+    });
     expect(same.status).toBe(400);
     expect(same.body.error.fields.backupEngineerId).toBeDefined();
   });
@@ -187,9 +205,20 @@ describe('changing state', () => {
     const { tool } = await makeTool(server.deps.sequelize);
     const back = inAnHour();
     const before = Date.now();
-    const r = await client.post(`/api/tools/${tool.id}/state`, { state: 'unscheduled_downtime', reason: 'waiting_parts', note: 'Turbo pump controller failed', expectedReturnAt: back });
+    const r = await client.post(`/api/tools/${tool.id}/state`, {
+      state: 'unscheduled_downtime',
+      reason: 'waiting_parts',
+      note: 'Turbo pump controller failed',
+      expectedReturnAt: back,
+    });
     expect(r.status).toBe(201);
-    expect(r.body.interval).toMatchObject({ state: 'unscheduled_downtime', previousState: 'standby', reason: 'waiting_parts', note: 'Turbo pump controller failed', expectedReturnAt: back });
+    expect(r.body.interval).toMatchObject({
+      state: 'unscheduled_downtime',
+      previousState: 'standby',
+      reason: 'waiting_parts',
+      note: 'Turbo pump controller failed',
+      expectedReturnAt: back,
+    });
     expect(r.body.tool).toMatchObject({ id: tool.id, status: 'down', note: 'Turbo pump controller failed' });
 
     const open = await StateInterval.findOne({ where: { toolId: tool.id, moduleId: null, endedAt: null } });
@@ -197,7 +226,11 @@ describe('changing state', () => {
     expect(open!.startedAt.getTime()).toBeGreaterThanOrEqual(before - 5);
 
     const history = await client.get(`/api/tools/${tool.id}/history`);
-    expect(history.body.items[0]).toMatchObject({ state: 'unscheduled_downtime', previousState: 'standby', setBy: { id: user.id, name: user.name } });
+    expect(history.body.items[0]).toMatchObject({
+      state: 'unscheduled_downtime',
+      previousState: 'standby',
+      setBy: { id: user.id, name: user.name },
+    });
   });
 
   it('when a member tries to change state, then 403 and the log is untouched', async () => {
@@ -220,7 +253,11 @@ describe('changing state', () => {
   it('when the expected return time is in the past, then 400 on that field', async () => {
     const { client } = await signedInClient(server.url, 'technician');
     const { tool } = await makeTool(server.deps.sequelize);
-    const r = await client.post(`/api/tools/${tool.id}/state`, { state: 'scheduled_downtime', note: 'PM', expectedReturnAt: new Date(Date.now() - 3_600_000).toISOString() });
+    const r = await client.post(`/api/tools/${tool.id}/state`, {
+      state: 'scheduled_downtime',
+      note: 'PM',
+      expectedReturnAt: new Date(Date.now() - 3_600_000).toISOString(),
+    });
     expect(r.status).toBe(400);
     expect(r.body.error.fields.expectedReturnAt).toEqual(['The expected return time is in the past.']);
     expect(await intervalsOf(tool.id)).toHaveLength(1);

@@ -28,7 +28,12 @@ describe('following a tool', () => {
     const row = await ToolFollow.findOne({ where: { userId: follower.user.id, toolId: tool.id } });
     expect(row!.unfollowToken).toMatch(/^[A-Za-z0-9_-]{43}$/);
 
-    const r = await tech.client.post(`/api/tools/${tool.id}/state`, { state: 'unscheduled_downtime', reason: 'waiting_parts', note: 'Boat elevator motor failed', expectedReturnAt: new Date(Date.now() + 86_400_000).toISOString() });
+    const r = await tech.client.post(`/api/tools/${tool.id}/state`, {
+      state: 'unscheduled_downtime',
+      reason: 'waiting_parts',
+      note: 'Boat elevator motor failed',
+      expectedReturnAt: new Date(Date.now() + 86_400_000).toISOString(),
+    });
     expect(r.status).toBe(201);
     // The mail was queued in the change's transaction.
     expect(await OutboxMail.count({ where: { toAddress: follower.user.email } })).toBe(1);
@@ -51,7 +56,13 @@ describe('following a tool', () => {
     await follower.client.put(`/api/tools/${tool.id}/follow`);
     const events: DomainEvent[] = [];
     const stop = server.deps.events.subscribe((e) => events.push(e));
-    await changeState(server.deps, { toolId: tool.id, state: 'scheduled_downtime', reason: 'preventive_maintenance', note: 'Quarterly PM', actorId: null });
+    await changeState(server.deps, {
+      toolId: tool.id,
+      state: 'scheduled_downtime',
+      reason: 'preventive_maintenance',
+      note: 'Quarterly PM',
+      actorId: null,
+    });
     stop();
 
     expect(events).toContainEqual({ type: 'notice.created', audience: { users: [follower.user.id] }, payload: { kind: 'tool_state' } });
@@ -59,14 +70,25 @@ describe('following a tool', () => {
     const list = await follower.client.get('/api/notices');
     expect(list.status).toBe(200);
     expect(list.body.unread).toBe(1);
-    expect(list.body.items[0]).toMatchObject({ kind: 'tool_state', title: `${tool.name} (${tool.code}) is now Maintenance`, link: `/tools/${tool.code}`, readAt: null });
+    expect(list.body.items[0]).toMatchObject({
+      kind: 'tool_state',
+      title: `${tool.name} (${tool.code}) is now Maintenance`,
+      link: `/tools/${tool.code}`,
+      readAt: null,
+    });
   });
 
   it('when a module of a followed tool goes down, then the mail names the module and what the tool now reads', async () => {
     const follower = await signedInClient(server.url, 'member');
     const { tool, modules } = await makeTool(server.deps.sequelize, { modules: ['PM1', 'PM2'] });
     await follower.client.put(`/api/tools/${tool.id}/follow`);
-    await changeState(server.deps, { toolId: tool.id, moduleId: modules[1].id, state: 'unscheduled_downtime', note: 'Chuck leak', actorId: null });
+    await changeState(server.deps, {
+      toolId: tool.id,
+      moduleId: modules[1].id,
+      state: 'unscheduled_downtime',
+      note: 'Chuck leak',
+      actorId: null,
+    });
     await drainOutbox(server);
     const mail = await server.catcher.waitFor((m) => m.to.includes(follower.user.email));
     expect(mail.subject).toContain(`Chamber PM2 of ${tool.name}`);
@@ -123,7 +145,9 @@ describe('notices', () => {
   it('when notices are paged and marked read, then the unread count follows, and nobody can mark another person’s notice', async () => {
     const me = await signedInClient(server.url, 'member');
     const other = await signedInClient(server.url, 'member');
-    await Notice.bulkCreate([1, 2, 3].map((n) => ({ userId: me.user.id, kind: 'test', title: `Notice ${n}`, body: null, link: null, readAt: null })));
+    await Notice.bulkCreate(
+      [1, 2, 3].map((n) => ({ userId: me.user.id, kind: 'test', title: `Notice ${n}`, body: null, link: null, readAt: null })),
+    );
     const page1 = await me.client.get('/api/notices?limit=2');
     expect(page1.body).toMatchObject({ total: 3, unread: 3, limit: 2, offset: 0 });
     expect(page1.body.items).toHaveLength(2);

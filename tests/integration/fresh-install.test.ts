@@ -23,7 +23,10 @@ describe('fresh install', () => {
       const [row] = await fresh.query<{ n: number }>('SELECT COUNT(*) AS n FROM users', { type: QueryTypes.SELECT });
       expect(Number(row.n)).toBe(0);
       await migrator.down({ to: 0 });
-      const tables = await fresh.query<{ n: number }>(`SELECT COUNT(*) AS n FROM information_schema.tables WHERE table_schema = :name AND table_name <> 'schema_migrations'`, { type: QueryTypes.SELECT, replacements: { name } });
+      const tables = await fresh.query<{ n: number }>(
+        `SELECT COUNT(*) AS n FROM information_schema.tables WHERE table_schema = :name AND table_name <> 'schema_migrations'`,
+        { type: QueryTypes.SELECT, replacements: { name } },
+      );
       expect(Number(tables[0].n)).toBe(0);
       expect((await migrator.up()).length).toBe(applied.length);
     } finally {

@@ -16,7 +16,12 @@ afterAll(() => server.close());
 
 /** Renders the label's SVG to pixels and reads the QR code back, as a phone camera would. */
 async function decode(svg: string): Promise<string | null> {
-  const { data, info } = await sharp(Buffer.from(svg), { density: 300 }).resize(400, 400).flatten({ background: '#ffffff' }).ensureAlpha().raw().toBuffer({ resolveWithObject: true });
+  const { data, info } = await sharp(Buffer.from(svg), { density: 300 })
+    .resize(400, 400)
+    .flatten({ background: '#ffffff' })
+    .ensureAlpha()
+    .raw()
+    .toBuffer({ resolveWithObject: true });
   return jsQR(new Uint8ClampedArray(data.buffer, data.byteOffset, data.length), info.width, info.height)?.data ?? null;
 }
 
@@ -37,7 +42,12 @@ describe('QR labels', () => {
       [labels[0], a.tool],
       [labels[1], b.tool],
     ] as const) {
-      expect(label).toMatchObject({ toolId: tool.id, code: tool.code, areaName: area.name, url: `https://faultline.facility.test/tools/${tool.code}` });
+      expect(label).toMatchObject({
+        toolId: tool.id,
+        code: tool.code,
+        areaName: area.name,
+        url: `https://faultline.facility.test/tools/${tool.code}`,
+      });
       expect(label.svg.startsWith('<svg')).toBe(true);
       expect(await decode(label.svg)).toBe(`https://faultline.facility.test/tools/${tool.code}`);
     }

@@ -76,10 +76,15 @@ describe('reporting while the database is down', () => {
     const description = unique('report cut off mid-transaction');
     // Hold the transaction open inside the timeline insert for this one report, long enough to stop the database under it.
     await server.deps.sequelize.query(`DROP TRIGGER IF EXISTS ${TRIGGER}`);
-    await server.deps.sequelize.query(`CREATE TRIGGER ${TRIGGER} BEFORE INSERT ON ticket_events FOR EACH ROW BEGIN IF NEW.body = '${description}' THEN SET @slept = SLEEP(8); END IF; END`);
+    await server.deps.sequelize.query(
+      `CREATE TRIGGER ${TRIGGER} BEFORE INSERT ON ticket_events FOR EACH ROW BEGIN IF NEW.body = '${description}' THEN SET @slept = SLEEP(8); END IF; END`,
+    );
     const before = filesInDir();
 
-    const pending = client.post('/api/tickets', multipartReport(reportBody(tool.id, { description }), [{ bytes: await jpegBytes(), name: 'a.jpg' }]));
+    const pending = client.post(
+      '/api/tickets',
+      multipartReport(reportBody(tool.id, { description }), [{ bytes: await jpegBytes(), name: 'a.jpg' }]),
+    );
     // The photo and its thumbnail are on disk while the transaction waits.
     expect(await poll(async () => filesInDir().length === before.length + 2, 10_000)).toBe(true);
     stopDatabase();

@@ -15,12 +15,17 @@ beforeAll(async () => {
 });
 afterAll(async () => {
   // The test database outlives this run: put the targets back as they were.
-  for (const row of saved) await ServiceTarget.update({ acknowledgeMinutes: row.acknowledgeMinutes, restoreMinutes: row.restoreMinutes }, { where: { priority: row.priority } });
+  for (const row of saved)
+    await ServiceTarget.update(
+      { acknowledgeMinutes: row.acknowledgeMinutes, restoreMinutes: row.restoreMinutes },
+      { where: { priority: row.priority } },
+    );
   await drainOutbox(server);
   await server.close();
 });
 
-const backdate = (id: number, minutes: number) => Ticket.update({ createdAt: new Date(Date.now() - minutes * 60_000) }, { where: { id }, silent: true });
+const backdate = (id: number, minutes: number) =>
+  Ticket.update({ createdAt: new Date(Date.now() - minutes * 60_000) }, { where: { id }, silent: true });
 
 describe('service targets', () => {
   it('when the database is migrated, then migration 0005 has stored the default target for every priority', async () => {

@@ -50,9 +50,39 @@ describe('the state log under concurrent changes', () => {
   });
 
   it('when the invariant checker meets a gap or two open intervals, then it reports them (the check itself can fail)', async () => {
-    const a = StateInterval.build({ toolId: 1, moduleId: null, state: 'standby', note: null, startedAt: new Date(0), endedAt: new Date(1000), expectedReturnAt: null, ticketId: null, setById: null });
-    const b = StateInterval.build({ toolId: 1, moduleId: null, state: 'productive', note: null, startedAt: new Date(2000), endedAt: null, expectedReturnAt: null, ticketId: null, setById: null });
-    const c = StateInterval.build({ toolId: 1, moduleId: null, state: 'productive', note: null, startedAt: new Date(2000), endedAt: null, expectedReturnAt: null, ticketId: null, setById: null });
+    const a = StateInterval.build({
+      toolId: 1,
+      moduleId: null,
+      state: 'standby',
+      note: null,
+      startedAt: new Date(0),
+      endedAt: new Date(1000),
+      expectedReturnAt: null,
+      ticketId: null,
+      setById: null,
+    });
+    const b = StateInterval.build({
+      toolId: 1,
+      moduleId: null,
+      state: 'productive',
+      note: null,
+      startedAt: new Date(2000),
+      endedAt: null,
+      expectedReturnAt: null,
+      ticketId: null,
+      setById: null,
+    });
+    const c = StateInterval.build({
+      toolId: 1,
+      moduleId: null,
+      state: 'productive',
+      note: null,
+      startedAt: new Date(2000),
+      endedAt: null,
+      expectedReturnAt: null,
+      ticketId: null,
+      setById: null,
+    });
     expect(logProblems([a, b])).toHaveLength(1);
     expect(logProblems([a, b, c]).length).toBeGreaterThanOrEqual(2);
   });
@@ -62,10 +92,20 @@ describe('the state log under concurrent changes', () => {
     const seen: DomainEvent[] = [];
     const stop = server.deps.events.subscribe((e) => seen.push(e));
     try {
-      const result = await changeState(server.deps, { toolId: tool.id, state: 'unscheduled_downtime', reason: 'repair', note: 'Pump', actorId: null });
+      const result = await changeState(server.deps, {
+        toolId: tool.id,
+        state: 'unscheduled_downtime',
+        reason: 'repair',
+        note: 'Pump',
+        actorId: null,
+      });
       expect(result.previous?.state).toBe('standby');
       expect(result.previous?.endedAt?.getTime()).toBe(result.current.startedAt.getTime());
-      expect(seen).toContainEqual({ type: 'tool.state_changed', audience: 'all', payload: { toolId: tool.id, moduleId: null, state: 'unscheduled_downtime' } });
+      expect(seen).toContainEqual({
+        type: 'tool.state_changed',
+        audience: 'all',
+        payload: { toolId: tool.id, moduleId: null, state: 'unscheduled_downtime' },
+      });
     } finally {
       stop();
     }

@@ -28,7 +28,13 @@ interface Heard {
 
 async function listen(client: TestClient) {
   const heard: Heard[] = [];
-  const socket = io(server.url, { path: '/socket.io', transports: ['websocket'], extraHeaders: { cookie: client.cookie! }, forceNew: true, reconnection: false });
+  const socket = io(server.url, {
+    path: '/socket.io',
+    transports: ['websocket'],
+    extraHeaders: { cookie: client.cookie! },
+    forceNew: true,
+    reconnection: false,
+  });
   sockets.push(socket);
   socket.onAny((event: string, ...args: unknown[]) => heard.push({ event, args }));
   await new Promise<void>((resolve, reject) => {
@@ -117,7 +123,14 @@ describe('what members may change', () => {
     const { tool } = await createTool(server.deps.sequelize);
     const { client: member, user } = await signedInClient(server.url, 'member');
     const t = await fileReport(member, tool.id);
-    const report = await member.post('/api/tickets', { toolId: tool.id, category: 'other', description: 'Sneaky', impact: 'still_usable', priority: 'P1', assigneeId: user.id });
+    const report = await member.post('/api/tickets', {
+      toolId: tool.id,
+      category: 'other',
+      description: 'Sneaky',
+      impact: 'still_usable',
+      priority: 'P1',
+      assigneeId: user.id,
+    });
     expect(report.status).toBe(400);
     expect(Object.keys(report.body.error.fields)).toEqual(expect.arrayContaining(['priority', 'assigneeId']));
     const reply = await member.post(`/api/tickets/${t.id}/comments`, { body: 'hello', status: 'closed' });

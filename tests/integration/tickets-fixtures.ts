@@ -17,7 +17,13 @@ export interface ToolFixture {
 /** A tool in a new area of its own, up since an hour ago (its tickets come later). */
 export async function createTool(
   sequelize: Sequelize,
-  opts: { criticality?: Criticality; primaryEngineerId?: number | null; backupEngineerId?: number | null; modules?: string[]; name?: string } = {},
+  opts: {
+    criticality?: Criticality;
+    primaryEngineerId?: number | null;
+    backupEngineerId?: number | null;
+    modules?: string[];
+    name?: string;
+  } = {},
 ): Promise<ToolFixture> {
   const { tool, modules } = await makeTool(sequelize, { ...opts, since: new Date(Date.now() - 60 * 60_000) });
   return { tool, modules };
@@ -30,7 +36,8 @@ export async function openState(toolId: number, moduleId: number | null = null) 
 /** A real JPEG (a gradient, so re-encoding has something to do). */
 export async function jpegBytes(width = 320, height = 200, opts: { gps?: boolean; orientation?: number } = {}) {
   const raw = Buffer.alloc(width * height * 3);
-  for (let y = 0; y < height; y++) for (let x = 0; x < width; x++) raw.set([(x * 255) / width, (y * 255) / height, 128], (y * width + x) * 3);
+  for (let y = 0; y < height; y++)
+    for (let x = 0; x < width; x++) raw.set([(x * 255) / width, (y * 255) / height, 128], (y * width + x) * 3);
   let img = sharp(raw, { raw: { width, height, channels: 3 } });
   if (opts.gps) {
     img = img.withExif({

@@ -18,10 +18,25 @@ const at = (days: number) => new Date(NOW.getTime() - days * DAY_MS);
 
 /** A tool with 120 days of invented history: two repaired failures, a Down now, a module down now. */
 async function toolWithHistory(engineerId: number) {
-  const { tool, modules } = await createTool(server.deps.sequelize, { name: 'ICP etcher (seed test)', primaryEngineerId: engineerId, modules: ['PM1'] });
+  const { tool, modules } = await createTool(server.deps.sequelize, {
+    name: 'ICP etcher (seed test)',
+    primaryEngineerId: engineerId,
+    modules: ['PM1'],
+  });
   await StateInterval.destroy({ where: { toolId: tool.id } });
   const iv = (state: string, reason: string, from: Date, to: Date | null, moduleId: number | null = null) => ({
-    toolId: tool.id, moduleId, state, reason, note: null, startedAt: from, endedAt: to, expectedReturnAt: null, ticketId: null, setById: null, source: 'staff', confirmed: true,
+    toolId: tool.id,
+    moduleId,
+    state,
+    reason,
+    note: null,
+    startedAt: from,
+    endedAt: to,
+    expectedReturnAt: null,
+    ticketId: null,
+    setById: null,
+    source: 'staff',
+    confirmed: true,
   });
   const rows = [
     iv('standby', 'none', at(120), at(100)),
@@ -45,13 +60,18 @@ describe('demo tickets', () => {
     const members = [await createUser('member'), await createUser('member')];
     const { tool, modules } = await toolWithHistory(engineer.id);
 
-    const result = await server.deps.sequelize.transaction((t) => seedTickets(t, { staff: [engineer], members }, NOW, { toolIds: [tool.id], seed: 42 }));
+    const result = await server.deps.sequelize.transaction((t) =>
+      seedTickets(t, { staff: [engineer], members }, NOW, { toolIds: [tool.id], seed: 42 }),
+    );
     expect(result.tickets).toBeGreaterThanOrEqual(4);
 
     const tickets = await Ticket.findAll({ where: { toolId: tool.id }, order: [['id', 'ASC']] });
     const failures = tickets.filter((t) => t.fixKind === 'failure');
     expect(failures.map((t) => t.createdAt.toISOString())).toEqual([at(100).toISOString(), at(40).toISOString()]);
-    expect(failures.map((t) => t.fixedAt!.toISOString())).toEqual([new Date(at(98).getTime() + 3 * HOUR_MS).toISOString(), new Date(at(40).getTime() + 4 * HOUR_MS).toISOString()]);
+    expect(failures.map((t) => t.fixedAt!.toISOString())).toEqual([
+      new Date(at(98).getTime() + 3 * HOUR_MS).toISOString(),
+      new Date(at(40).getTime() + 4 * HOUR_MS).toISOString(),
+    ]);
     for (const f of failures) {
       expect(f.status).toBe('closed');
       expect(f.failureMode).toBeTruthy();
@@ -62,17 +82,37 @@ describe('demo tickets', () => {
     expect(tickets.map((t) => t.createdAt.getTime())).toEqual([...tickets.map((t) => t.createdAt.getTime())].sort((a, b) => a - b));
 
     // The three intervals of the first failure (repair, waiting for parts, repair) belong to one ticket.
-    const linked = await StateInterval.findAll({ where: { toolId: tool.id, moduleId: null, state: 'unscheduled_downtime' }, order: [['startedAt', 'ASC']] });
+    const linked = await StateInterval.findAll({
+      where: { toolId: tool.id, moduleId: null, state: 'unscheduled_downtime' },
+      order: [['startedAt', 'ASC']],
+    });
     expect(linked.map((i) => i.ticketId)).toEqual([failures[0].id, failures[0].id, failures[0].id, failures[1].id, expect.any(Number)]);
-    const waitSteps = (await TicketEvent.findAll({ where: { ticketId: failures[0].id, kind: 'status' }, order: [['createdAt', 'ASC'], ['id', 'ASC']] })).map((e) => `${(e.data as any).from}>${(e.data as any).to}`);
-    expect(waitSteps).toEqual(['reported>acknowledged', 'acknowledged>in_repair', 'in_repair>waiting', 'waiting>in_repair', 'in_repair>fixed', 'fixed>closed']);
+    const waitSteps = (
+      await TicketEvent.findAll({
+        where: { ticketId: failures[0].id, kind: 'status' },
+        order: [
+          ['createdAt', 'ASC'],
+          ['id', 'ASC'],
+        ],
+      })
+    ).map((e) => `${(e.data as any).from}>${(e.data as any).to}`);
+    expect(waitSteps).toEqual([
+      'reported>acknowledged',
+      'acknowledged>in_repair',
+      'in_repair>waiting',
+      'waiting>in_repair',
+      'in_repair>fixed',
+      'fixed>closed',
+    ]);
 
     const openDown = tickets.find((t) => t.id === linked[4].ticketId)!;
     expect(openDown).toMatchObject({ impact: 'tool_stopped', fixedAt: null });
     expect(['acknowledged', 'in_repair']).toContain(openDown.status);
     const moduleTicket = tickets.find((t) => t.moduleId === modules[0].id)!;
     expect(moduleTicket).toMatchObject({ impact: 'tool_limited', status: 'acknowledged' });
-    expect((await StateInterval.findOne({ where: { toolId: tool.id, moduleId: modules[0].id, endedAt: null } }))!.ticketId).toBe(moduleTicket.id);
+    expect((await StateInterval.findOne({ where: { toolId: tool.id, moduleId: modules[0].id, endedAt: null } }))!.ticketId).toBe(
+      moduleTicket.id,
+    );
 
     const assists = tickets.filter((t) => t.fixKind === 'assist');
     for (const a of assists) {
@@ -86,9 +126,20 @@ describe('demo tickets', () => {
     const members = [await createUser('member')];
     const one = await toolWithHistory(engineer.id);
     const two = await toolWithHistory(engineer.id);
-    const shape = async (toolId: number) => (await Ticket.findAll({ where: { toolId }, order: [['id', 'ASC']] })).map((t) => [t.title.replace(/\(seed test\)/, ''), t.status, t.createdAt.toISOString(), t.failureMode, t.priority]);
-    await server.deps.sequelize.transaction((t) => seedTickets(t, { staff: [engineer], members }, NOW, { toolIds: [one.tool.id], seed: 7 }));
-    await server.deps.sequelize.transaction((t) => seedTickets(t, { staff: [engineer], members }, NOW, { toolIds: [two.tool.id], seed: 7 }));
+    const shape = async (toolId: number) =>
+      (await Ticket.findAll({ where: { toolId }, order: [['id', 'ASC']] })).map((t) => [
+        t.title.replace(/\(seed test\)/, ''),
+        t.status,
+        t.createdAt.toISOString(),
+        t.failureMode,
+        t.priority,
+      ]);
+    await server.deps.sequelize.transaction((t) =>
+      seedTickets(t, { staff: [engineer], members }, NOW, { toolIds: [one.tool.id], seed: 7 }),
+    );
+    await server.deps.sequelize.transaction((t) =>
+      seedTickets(t, { staff: [engineer], members }, NOW, { toolIds: [two.tool.id], seed: 7 }),
+    );
     expect(await shape(two.tool.id)).toEqual(await shape(one.tool.id));
   });
 });

@@ -72,15 +72,28 @@ describe('filing a report', () => {
     expect(ticket!.status).toBe('reported');
 
     const state = await openState(tool.id);
-    expect(state).toMatchObject({ state: 'unscheduled_downtime', source: 'user_report', confirmed: false, ticketId: ticket!.id, setById: user.id });
+    expect(state).toMatchObject({
+      state: 'unscheduled_downtime',
+      source: 'user_report',
+      confirmed: false,
+      ticketId: ticket!.id,
+      setById: user.id,
+    });
 
     const kinds = (await TicketEvent.findAll({ where: { ticketId: ticket!.id }, order: [['id', 'ASC']] })).map((e) => e.kind);
     expect(kinds).toEqual(['reported', 'assignment', 'tool_state']);
 
     const newEvents = events.slice(seen);
-    expect(newEvents.find((e) => e.type === 'ticket.created')).toMatchObject({ audience: 'all', payload: { id: ticket!.id, toolId: tool.id } });
-    expect(newEvents.find((e) => e.type === 'tool.state_changed')).toMatchObject({ payload: { toolId: tool.id, state: 'unscheduled_downtime' } });
-    expect(newEvents.find((e) => e.type === 'notice.created')).toMatchObject({ audience: { users: expect.arrayContaining([primary.id, backup.id]) } });
+    expect(newEvents.find((e) => e.type === 'ticket.created')).toMatchObject({
+      audience: 'all',
+      payload: { id: ticket!.id, toolId: tool.id },
+    });
+    expect(newEvents.find((e) => e.type === 'tool.state_changed')).toMatchObject({
+      payload: { toolId: tool.id, state: 'unscheduled_downtime' },
+    });
+    expect(newEvents.find((e) => e.type === 'notice.created')).toMatchObject({
+      audience: { users: expect.arrayContaining([primary.id, backup.id]) },
+    });
 
     expect(await Notice.count({ where: { userId: [primary.id, backup.id], link: `/tickets/${ticket!.id}` } })).toBe(2);
     await sendMail();
@@ -91,7 +104,11 @@ describe('filing a report', () => {
 
     const detail = await client.get(`/api/tickets/${ticket!.id}`);
     expect(detail.status).toBe(200);
-    expect(detail.body.toolStates.find((s: any) => s.moduleId === null)).toMatchObject({ state: 'unscheduled_downtime', source: 'user_report', confirmed: false });
+    expect(detail.body.toolStates.find((s: any) => s.moduleId === null)).toMatchObject({
+      state: 'unscheduled_downtime',
+      source: 'user_report',
+      confirmed: false,
+    });
     expect(detail.body.allowedActions).not.toContain('acknowledge');
   });
 
@@ -100,7 +117,12 @@ describe('filing a report', () => {
     onCallUsers.push(onCall.id);
     const { tool } = await createTool(server.deps.sequelize, { criticality: 'low' });
     const { client } = await signedInClient(server.url, 'member');
-    const t = await fileReport(client, tool.id, { category: 'leak_smell', description: 'Sharp smell near the wet bench exhaust', hazards: ['smell', 'leak'], impact: 'still_usable' });
+    const t = await fileReport(client, tool.id, {
+      category: 'leak_smell',
+      description: 'Sharp smell near the wet bench exhaust',
+      hazards: ['smell', 'leak'],
+      impact: 'still_usable',
+    });
     expect(t.priority).toBe('P1');
     await sendMail();
     const mail = await server.catcher.waitFor((m) => m.to.includes(onCall.email) && m.subject.includes(`#${t.id}`));
@@ -122,7 +144,13 @@ describe('filing a report', () => {
     const a = await createTool(server.deps.sequelize, { modules: ['PM1'] });
     const b = await createTool(server.deps.sequelize);
     const { client } = await signedInClient(server.url, 'member');
-    const r = await client.post('/api/tickets', { toolId: b.tool.id, moduleId: a.modules[0].id, category: 'other', description: 'Wrong module', impact: 'still_usable' });
+    const r = await client.post('/api/tickets', {
+      toolId: b.tool.id,
+      moduleId: a.modules[0].id,
+      category: 'other',
+      description: 'Wrong module',
+      impact: 'still_usable',
+    });
     expect(r.status).toBe(400);
     expect(r.body.error.fields.moduleId).toBeDefined();
     expect(await Ticket.count({ where: { toolId: b.tool.id } })).toBe(0);
@@ -166,7 +194,13 @@ describe('the repair workflow', () => {
     });
     expect(fix.status).toBe(200);
     ticket = await Ticket.findByPk(t.id);
-    expect(ticket).toMatchObject({ status: 'fixed', fixKind: 'failure', failureMode: 'Robot encoder', handsOnMinutes: 95, wafersRecovered: 2 });
+    expect(ticket).toMatchObject({
+      status: 'fixed',
+      fixKind: 'failure',
+      failureMode: 'Robot encoder',
+      handsOnMinutes: 95,
+      wafersRecovered: 2,
+    });
     expect(ticket!.fixedAt).not.toBeNull();
     expect(ticket!.resolvedAt).not.toBeNull();
     expect((await openState(tool.id))!.state).toBe('standby');
@@ -178,7 +212,9 @@ describe('the repair workflow', () => {
     expect(detail.body.events.some((e: any) => e.kind === 'down_confirmed')).toBe(true);
 
     await sendMail();
-    const mail = await server.catcher.waitFor((m) => m.to.includes(reporter.email) && m.subject.includes(`#${t.id}`) && m.subject.includes('Fixed'));
+    const mail = await server.catcher.waitFor(
+      (m) => m.to.includes(reporter.email) && m.subject.includes(`#${t.id}`) && m.subject.includes('Fixed'),
+    );
     expect(mail.text).toContain('back in service');
     // The person who acted is not mailed about their own action.
     expect(server.catcher.messages.some((m) => m.to.includes(techUser.email) && m.subject.includes(`[#${t.id}] Fixed`))).toBe(false);
@@ -196,7 +232,13 @@ describe('the repair workflow', () => {
     expect(r.status).toBe(200);
     const now = await openState(tool.id);
     expect(now).toMatchObject({ state: 'standby', source: 'staff', ticketId: t.id });
-    const intervals = await StateInterval.findAll({ where: { toolId: tool.id, moduleId: null }, order: [['startedAt', 'ASC'], ['id', 'ASC']] });
+    const intervals = await StateInterval.findAll({
+      where: { toolId: tool.id, moduleId: null },
+      order: [
+        ['startedAt', 'ASC'],
+        ['id', 'ASC'],
+      ],
+    });
     expect(intervals.map((i) => i.state)).toEqual(['standby', 'unscheduled_downtime', 'standby']);
     expect((await act(tech, t.id, { action: 'revert_down' })).status).toBe(409);
   });
@@ -210,7 +252,11 @@ describe('the repair workflow', () => {
     const t = await fileReport(first, tool.id, { impact: 'tool_limited' });
     expect(t.priority).toBe('P3');
 
-    const r = await second.post(`/api/tickets/${t.id}/reports`, { description: 'Seen it too, and now there is a burning smell', hazards: ['fire_smoke'], impact: 'tool_stopped' });
+    const r = await second.post(`/api/tickets/${t.id}/reports`, {
+      description: 'Seen it too, and now there is a burning smell',
+      hazards: ['fire_smoke'],
+      impact: 'tool_stopped',
+    });
     expect(r.status).toBe(201);
     const ticket = await Ticket.findByPk(t.id);
     expect(ticket).toMatchObject({ priority: 'P1', impact: 'tool_stopped', hazards: ['fire_smoke'] });
@@ -231,7 +277,17 @@ describe('the repair workflow', () => {
     const { client: b, user: bUser } = await signedInClient(server.url, 'member');
     const first = await fileReport(a, tool.id, { description: 'Spin chuck vacuum error' });
     const form = new FormData();
-    form.append('report', JSON.stringify({ toolId: tool.id, category: 'vacuum', description: 'Chuck vacuum low again', impact: 'tool_stopped', hazards: [], wafersCount: 1 }));
+    form.append(
+      'report',
+      JSON.stringify({
+        toolId: tool.id,
+        category: 'vacuum',
+        description: 'Chuck vacuum low again',
+        impact: 'tool_stopped',
+        hazards: [],
+        wafersCount: 1,
+      }),
+    );
     form.append('photos', new Blob([new Uint8Array(await jpegBytes())], { type: 'image/jpeg' }), 'chuck.jpg');
     const second = await b.post('/api/tickets', form);
     expect(second.status).toBe(201);
@@ -248,10 +304,23 @@ describe('the repair workflow', () => {
     const detail = await a.get(`/api/tickets/${first.id}`);
     expect(detail.body.mergedFrom).toEqual([{ id: second.body.id, title: 'Chuck vacuum low again' }]);
     const fromMerged = detail.body.events.filter((e: any) => e.fromTicketId === second.body.id);
-    expect(fromMerged.find((e: any) => e.kind === 'reported')).toMatchObject({ actor: { id: bUser.id }, photos: [expect.objectContaining({ url: expect.stringMatching(/^\/api\/photos\/\d+$/) })] });
+    expect(fromMerged.find((e: any) => e.kind === 'reported')).toMatchObject({
+      actor: { id: bUser.id },
+      photos: [expect.objectContaining({ url: expect.stringMatching(/^\/api\/photos\/\d+$/) })],
+    });
 
     expect((await b.post(`/api/tickets/${second.body.id}/reports`, { description: 'more' })).status).toBe(409);
-    expect((await act(tech, first.id, { action: 'fix', fixKind: 'assist', workDone: 'Cleaned the chuck O-ring', wafersRecovered: 1, wafersReturned: 1 })).status).toBe(200);
+    expect(
+      (
+        await act(tech, first.id, {
+          action: 'fix',
+          fixKind: 'assist',
+          workDone: 'Cleaned the chuck O-ring',
+          wafersRecovered: 1,
+          wafersReturned: 1,
+        })
+      ).status,
+    ).toBe(200);
     await sendMail();
     await server.catcher.waitFor((m) => m.to.includes(bUser.email) && m.subject.includes(`[#${first.id}] Fixed`));
   });
@@ -283,7 +352,9 @@ describe('the repair workflow', () => {
     const t = await fileReport(member, tool.id);
     expect(t.priority).toBe('P4');
     expect((await act(tech, t.id, { action: 'set_priority', priority: 'P2' })).status).toBe(400); // a reason is required
-    expect((await act(tech, t.id, { action: 'set_priority', priority: 'P2', reason: 'Only tool for the course next week' })).status).toBe(200);
+    expect((await act(tech, t.id, { action: 'set_priority', priority: 'P2', reason: 'Only tool for the course next week' })).status).toBe(
+      200,
+    );
     await member.post(`/api/tickets/${t.id}/reports`, { description: 'Also slow to pump down', impact: 'tool_limited' });
     expect(await Ticket.findByPk(t.id)).toMatchObject({ priority: 'P2', priorityOverridden: true });
     const event = await TicketEvent.findOne({ where: { ticketId: t.id, kind: 'priority' } });
@@ -296,7 +367,14 @@ describe('the repair workflow', () => {
     const { client: member } = await signedInClient(server.url, 'member');
     const t = await fileReport(member, tool.id);
     const back = new Date(Date.now() + 3 * 3_600_000).toISOString();
-    const r = await act(tech, t.id, { action: 'set_state', moduleId: modules[0].id, state: 'unscheduled_downtime', reason: 'repair', note: 'Load lock door seal', expectedReturnAt: back });
+    const r = await act(tech, t.id, {
+      action: 'set_state',
+      moduleId: modules[0].id,
+      state: 'unscheduled_downtime',
+      reason: 'repair',
+      note: 'Load lock door seal',
+      expectedReturnAt: back,
+    });
     expect(r.status).toBe(200);
     const s = await openState(tool.id, modules[0].id);
     expect(s).toMatchObject({ state: 'unscheduled_downtime', ticketId: t.id, source: 'staff', note: 'Load lock door seal' });
@@ -383,7 +461,11 @@ describe('concurrent edits', () => {
     expect((await Ticket.findByPk(t.id))!.assigneeId).not.toBe(twoUser.id);
 
     // Re-applied on the version it was shown, the change goes through.
-    const again = await two.post(`/api/tickets/${t.id}/actions`, { action: 'assign', assigneeId: twoUser.id, version: second.body.current.version });
+    const again = await two.post(`/api/tickets/${t.id}/actions`, {
+      action: 'assign',
+      assigneeId: twoUser.id,
+      version: second.body.current.version,
+    });
     expect(again.status).toBe(200);
   });
 });

@@ -74,7 +74,11 @@ describe('photo uploads', () => {
     const [photo] = await Photo.findAll({ where: { ticketId: r.body.id } });
     expect({ width: photo.width, height: photo.height }).toEqual({ width: 120, height: 300 });
     const meta = await sharp(fs.readFileSync(path.join(dir, photo.storedName))).metadata();
-    expect({ width: meta.width, height: meta.height, orientation: meta.orientation }).toEqual({ width: 120, height: 300, orientation: undefined });
+    expect({ width: meta.width, height: meta.height, orientation: meta.orientation }).toEqual({
+      width: 120,
+      height: 300,
+      orientation: undefined,
+    });
   });
 
   it('when an HTML file is renamed .jpg and sent as image/jpeg, then it is refused with 415 and no file, ticket or event is left', async () => {
@@ -84,7 +88,13 @@ describe('photo uploads', () => {
     const description = unique('rejected upload');
     const html = Buffer.from('<!doctype html><html><body><script>alert(document.cookie)</script></body></html>');
     const good = await jpegBytes();
-    const r = await client.post('/api/tickets', multipartReport(reportBody(tool.id, { description }), [{ bytes: good, name: 'ok.jpg' }, { bytes: html, name: 'photo.jpg' }]));
+    const r = await client.post(
+      '/api/tickets',
+      multipartReport(reportBody(tool.id, { description }), [
+        { bytes: good, name: 'ok.jpg' },
+        { bytes: html, name: 'photo.jpg' },
+      ]),
+    );
     expect(r.status).toBe(415);
     expect(r.body.error.code).toBe('unsupported_media_type');
     await nothingWritten(tool.id, description, before);
@@ -94,7 +104,10 @@ describe('photo uploads', () => {
     const { tool } = await createTool(server.deps.sequelize);
     const { client } = await signedInClient(server.url, 'member');
     const svg = Buffer.from('<svg xmlns="http://www.w3.org/2000/svg" width="10" height="10"><rect width="10" height="10"/></svg>');
-    const r = await client.post('/api/tickets', multipartReport(reportBody(tool.id), [{ bytes: svg, name: 'x.jpg', type: 'image/svg+xml' }]));
+    const r = await client.post(
+      '/api/tickets',
+      multipartReport(reportBody(tool.id), [{ bytes: svg, name: 'x.jpg', type: 'image/svg+xml' }]),
+    );
     expect(r.status).toBe(415);
     expect(await Ticket.count({ where: { toolId: tool.id } })).toBe(0);
   });
@@ -106,7 +119,13 @@ describe('photo uploads', () => {
     const description = unique('rejected upload');
     const big = Buffer.alloc(10 * 1024 * 1024 + 10, 0x41);
     big.set([0xff, 0xd8, 0xff, 0xe0]);
-    const r = await client.post('/api/tickets', multipartReport(reportBody(tool.id, { description }), [{ bytes: await jpegBytes(), name: 'a.jpg' }, { bytes: big, name: 'huge.jpg' }]));
+    const r = await client.post(
+      '/api/tickets',
+      multipartReport(reportBody(tool.id, { description }), [
+        { bytes: await jpegBytes(), name: 'a.jpg' },
+        { bytes: big, name: 'huge.jpg' },
+      ]),
+    );
     expect(r.status).toBe(413);
     expect(r.body.error.code).toBe('upload_too_large');
     await nothingWritten(tool.id, description, before);
@@ -118,7 +137,13 @@ describe('photo uploads', () => {
     const before = filesInDir();
     const description = unique('rejected upload');
     const photo = await jpegBytes(40, 40);
-    const r = await client.post('/api/tickets', multipartReport(reportBody(tool.id, { description }), Array.from({ length: 7 }, (_, i) => ({ bytes: photo, name: `p${i}.jpg` }))));
+    const r = await client.post(
+      '/api/tickets',
+      multipartReport(
+        reportBody(tool.id, { description }),
+        Array.from({ length: 7 }, (_, i) => ({ bytes: photo, name: `p${i}.jpg` })),
+      ),
+    );
     expect([400, 413]).toContain(r.status);
     await nothingWritten(tool.id, description, before);
   });
@@ -128,9 +153,14 @@ describe('photo uploads', () => {
     const { client } = await signedInClient(server.url, 'member');
     const before = filesInDir();
     const description = unique('rejected upload');
-    const flood = await sharp({ create: { width: 8000, height: 8000, channels: 3, background: '#000' } }).png({ compressionLevel: 9 }).toBuffer();
+    const flood = await sharp({ create: { width: 8000, height: 8000, channels: 3, background: '#000' } })
+      .png({ compressionLevel: 9 })
+      .toBuffer();
     expect(flood.length).toBeLessThan(10 * 1024 * 1024);
-    const r = await client.post('/api/tickets', multipartReport(reportBody(tool.id, { description }), [{ bytes: flood, name: 'flood.png', type: 'image/png' }]));
+    const r = await client.post(
+      '/api/tickets',
+      multipartReport(reportBody(tool.id, { description }), [{ bytes: flood, name: 'flood.png', type: 'image/png' }]),
+    );
     expect(r.status).toBe(413);
     await nothingWritten(tool.id, description, before);
   });
@@ -147,7 +177,13 @@ describe('photo uploads', () => {
        BEGIN IF NEW.body = '${marker}' THEN SIGNAL SQLSTATE '45000' SET MESSAGE_TEXT = 'forced failure'; END IF; END`,
     );
     try {
-      const r = await client.post('/api/tickets', multipartReport(reportBody(tool.id, { description: marker }), [{ bytes: await jpegBytes(), name: 'a.jpg' }, { bytes: await jpegBytes(), name: 'b.jpg' }]));
+      const r = await client.post(
+        '/api/tickets',
+        multipartReport(reportBody(tool.id, { description: marker }), [
+          { bytes: await jpegBytes(), name: 'a.jpg' },
+          { bytes: await jpegBytes(), name: 'b.jpg' },
+        ]),
+      );
       expect(r.status).toBe(500);
       await nothingWritten(tool.id, marker, before);
     } finally {

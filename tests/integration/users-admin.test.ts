@@ -53,7 +53,11 @@ describe('sockets', () => {
 
   it('when the Origin is foreign, then the socket handshake is refused even with a session', async () => {
     const { client } = await signedInClient(server.url, 'member');
-    const socket = connect(server.url, { extraHeaders: { cookie: client.cookie!, origin: 'https://evil.example' }, transports: ['websocket'], reconnection: false });
+    const socket = connect(server.url, {
+      extraHeaders: { cookie: client.cookie!, origin: 'https://evil.example' },
+      transports: ['websocket'],
+      reconnection: false,
+    });
     const err = await new Promise<Error>((resolve) => socket.on('connect_error', resolve));
     expect(err).toBeTruthy();
     expect(socket.connected).toBe(false);

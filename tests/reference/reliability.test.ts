@@ -17,9 +17,7 @@ import {
 /** |actual − expected| <= tolerance, with a message that shows both. */
 function expectWithin(actual: number | null, expected: number, tolerance: number): void {
   expect(actual).not.toBeNull();
-  expect(Math.abs((actual as number) - expected), `${actual} vs ${expected} ± ${tolerance}`).toBeLessThanOrEqual(
-    tolerance,
-  );
+  expect(Math.abs((actual as number) - expected), `${actual} vs ${expected} ± ${tolerance}`).toBeLessThanOrEqual(tolerance);
 }
 
 const HOURS = 0.01;

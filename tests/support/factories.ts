@@ -11,7 +11,15 @@ export const TEST_PASSWORD = 'correct-horse-battery-7';
 /** A user with a unique e-mail and the shared test password. */
 export async function createUser(role: Role = 'member', extra: Partial<{ name: string; onCall: boolean; active: boolean }> = {}) {
   const email = `${unique(role)}@test.faultline.test`;
-  return User.create({ email, name: extra.name ?? `Test ${role}`, role, passwordHash: await hashPassword(TEST_PASSWORD), lastSignInAt: null, onCall: extra.onCall ?? false, active: extra.active ?? true });
+  return User.create({
+    email,
+    name: extra.name ?? `Test ${role}`,
+    role,
+    passwordHash: await hashPassword(TEST_PASSWORD),
+    lastSignInAt: null,
+    onCall: extra.onCall ?? false,
+    active: extra.active ?? true,
+  });
 }
 
 /** A signed-in client for a new user of the given role. */

@@ -1,6 +1,14 @@
 import { describe, expect, it } from 'vitest';
 import { mtbfBounds, reverseArrangements, reverseArrangementsTrend } from '@shared/reliability';
-import { addHours, countReversals, emptyTally, figuresOf, mtbfBoundsFast, trendOf, trendOfGaps } from '../../server/modules/analytics/figures';
+import {
+  addHours,
+  countReversals,
+  emptyTally,
+  figuresOf,
+  mtbfBoundsFast,
+  trendOf,
+  trendOfGaps,
+} from '../../server/modules/analytics/figures';
 import { planPeriod } from '../../server/modules/analytics/period-plan';
 import { createRandom } from '../../server/db/seed/random';
 
@@ -43,7 +51,11 @@ describe('analytics figures: cached paths agree with shared/reliability.ts', () 
     const h = 3_600_000;
     // SEMI E10-0304E Appendix 2 growth example: 550 h, failures at 18 … 511 h → β̂ = 0.5731.
     const times = [18, 20, 35, 41, 67, 180, 252, 287, 390, 410, 511];
-    const result = trendOf(times.map((t) => from + t * h), from, from + 550 * h);
+    const result = trendOf(
+      times.map((t) => from + t * h),
+      from,
+      from + 550 * h,
+    );
     expect(result.crowBeta).toBeCloseTo(0.5731, 4);
     // 40 reversals in the published example.
     expect(result.reversals).toBe(40);
@@ -69,7 +81,13 @@ describe('analytics figures: E10 inputs from state hours', () => {
     tally.failures = 4;
     tally.downtimeEvents = 6;
     const f = figuresOf(tally);
-    expect(f.downtime).toEqual({ maintenanceDelayUser: 4, maintenanceDelaySupplier: 1, facilitiesRelated: 2, outOfSpecInput: 1, repair: 6 });
+    expect(f.downtime).toEqual({
+      maintenanceDelayUser: 4,
+      maintenanceDelaySupplier: 1,
+      facilitiesRelated: 2,
+      outOfSpecInput: 1,
+      repair: 6,
+    });
     expect(f.availabilityPct).toBeCloseTo(84.722, 3); // 122 / 144, as in the E10 scenario
     expect(f.mttrHours).toBeCloseTo(1.5, 10);
     expect(f.mtolHours).toBeCloseTo(22 / 6, 10);

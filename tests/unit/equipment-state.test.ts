@@ -1,5 +1,15 @@
 import { describe, expect, it } from 'vitest';
-import { BOARD_LOOK, BOARD_STATUSES, E10_STATES, REASONS_BY_STATE, boardStatusOf, isDownState, isReasonAllowed, rollUp, type E10State } from '@shared/equipment-state';
+import {
+  BOARD_LOOK,
+  BOARD_STATUSES,
+  E10_STATES,
+  REASONS_BY_STATE,
+  boardStatusOf,
+  isDownState,
+  isReasonAllowed,
+  rollUp,
+  type E10State,
+} from '@shared/equipment-state';
 import { summarizeStatus, type OpenModuleState, type OpenState } from '../../server/modules/facility/status-summary';
 
 // The six states are SEMI E10's (SEMI E10-0304E, section 4: productive, standby, engineering,
@@ -79,16 +89,37 @@ describe('reasons by state', () => {
 
 describe('what the board says about a tool (status, since, why, back when)', () => {
   const t = (iso: string) => new Date(`2025-03-10T${iso}:00.000Z`);
-  const tool = (over: Partial<OpenState> = {}): OpenState => ({ state: 'standby', note: null, restriction: null, startedAt: t('06:00'), expectedReturnAt: null, ...over });
-  const mod = (code: string, over: Partial<OpenModuleState> = {}): OpenModuleState => ({ code, name: `Chamber ${code}`, state: 'productive', note: null, startedAt: t('06:00'), expectedReturnAt: null, ...over });
+  const tool = (over: Partial<OpenState> = {}): OpenState => ({
+    state: 'standby',
+    note: null,
+    restriction: null,
+    startedAt: t('06:00'),
+    expectedReturnAt: null,
+    ...over,
+  });
+  const mod = (code: string, over: Partial<OpenModuleState> = {}): OpenModuleState => ({
+    code,
+    name: `Chamber ${code}`,
+    state: 'productive',
+    note: null,
+    startedAt: t('06:00'),
+    expectedReturnAt: null,
+    ...over,
+  });
 
   it('when the tool itself is down, then its own start, note and return time are shown', () => {
-    const s = summarizeStatus(tool({ state: 'unscheduled_downtime', note: 'Turbo pump tripped', startedAt: t('08:00'), expectedReturnAt: t('18:00') }), [mod('A')]);
+    const s = summarizeStatus(
+      tool({ state: 'unscheduled_downtime', note: 'Turbo pump tripped', startedAt: t('08:00'), expectedReturnAt: t('18:00') }),
+      [mod('A')],
+    );
     expect(s).toEqual({ status: 'down', since: t('08:00'), note: 'Turbo pump tripped', expectedReturnAt: t('18:00') });
   });
 
   it('when one of two modules is down, then Limited since that module went down, with its name and note', () => {
-    const s = summarizeStatus(tool(), [mod('A'), mod('B', { state: 'unscheduled_downtime', note: 'RF match fault', startedAt: t('09:30'), expectedReturnAt: t('15:00') })]);
+    const s = summarizeStatus(tool(), [
+      mod('A'),
+      mod('B', { state: 'unscheduled_downtime', note: 'RF match fault', startedAt: t('09:30'), expectedReturnAt: t('15:00') }),
+    ]);
     expect(s.status).toBe('limited');
     expect(s.since).toEqual(t('09:30'));
     expect(s.note).toBe('Chamber B down: RF match fault');
@@ -107,7 +138,11 @@ describe('what the board says about a tool (status, since, why, back when)', () 
   });
 
   it('when any down module has no return time, then no return time is promised', () => {
-    const s = summarizeStatus(tool(), [mod('A', { state: 'unscheduled_downtime', expectedReturnAt: t('12:00') }), mod('B', { state: 'unscheduled_downtime' }), mod('C')]);
+    const s = summarizeStatus(tool(), [
+      mod('A', { state: 'unscheduled_downtime', expectedReturnAt: t('12:00') }),
+      mod('B', { state: 'unscheduled_downtime' }),
+      mod('C'),
+    ]);
     expect(s.expectedReturnAt).toBeNull();
   });
 

@@ -157,13 +157,11 @@ describe('e10Metrics edges', () => {
   });
 
   it('when the downtime sub-states add up to more than the downtime, then it throws rather than report over 100 %', () => {
-    expect(() =>
-      e10Metrics({ ...emptyPeriod, productive: 10, unscheduledDowntime: 5, repair: 4, maintenanceDelayUser: 2 }),
-    ).toThrow(/sub-states/);
+    expect(() => e10Metrics({ ...emptyPeriod, productive: 10, unscheduledDowntime: 5, repair: 4, maintenanceDelayUser: 2 })).toThrow(
+      /sub-states/,
+    );
     // Rounding noise from summing many intervals is tolerated.
-    expect(() =>
-      e10Metrics({ ...emptyPeriod, unscheduledDowntime: 0.3, repair: 0.1 + 0.2, failures: 1, downtimeEvents: 1 }),
-    ).not.toThrow();
+    expect(() => e10Metrics({ ...emptyPeriod, unscheduledDowntime: 0.3, repair: 0.1 + 0.2, failures: 1, downtimeEvents: 1 })).not.toThrow();
   });
 });
 

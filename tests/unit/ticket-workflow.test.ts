@@ -53,11 +53,7 @@ const STAFF_ALLOWED = new Set<string>([
 ]);
 
 // A member who reported the ticket, one day after it was resolved: only reopening.
-const MEMBER_REPORTER_ALLOWED = new Set<string>([
-  'fixed>acknowledged',
-  'closed>acknowledged',
-  'no_fault_found>acknowledged',
-]);
+const MEMBER_REPORTER_ALLOWED = new Set<string>(['fixed>acknowledged', 'closed>acknowledged', 'no_fault_found>acknowledged']);
 
 const EXPECTED_BY_ROLE: Record<Role, Set<string>> = {
   member: MEMBER_REPORTER_ALLOWED,

@@ -21,14 +21,66 @@ const DAY = 24 * HOUR;
 
 // Plain-words failure modes per kind of tool, invented for the demo.
 const FAILURE_MODES: { match: RegExp; modes: string[] }[] = [
-  { match: /etch|rie|icp|asher|plasma/i, modes: ['RF generator fault', 'Matching network drift', 'Chamber pressure control', 'Helium backside cooling leak', 'Chiller flow alarm', 'Endpoint detector failure', 'Wafer clamp error'] },
-  { match: /coat|develop|track|spin/i, modes: ['Spin motor fault', 'Dispense pump blocked', 'Chuck vacuum loss', 'Hot plate temperature drift', 'Robot arm misplacement', 'Exhaust flow low'] },
-  { match: /furnace|tube|lpcvd|oxid|anneal|diffusion/i, modes: ['Heater zone failure', 'Thermocouple drift', 'Gas flow controller fault', 'Boat elevator jam', 'Door seal leak', 'Vacuum pump failure'] },
-  { match: /evapor|sputter|pvd/i, modes: ['Source or target failure', 'Crystal monitor failure', 'Shutter stuck', 'Cryopump needs regeneration', 'Power supply arcing'] },
-  { match: /pecvd|ald|deposit|cvd/i, modes: ['Precursor line clogged', 'Showerhead heater fault', 'RF generator fault', 'Gas flow controller fault', 'Chamber pressure control'] },
-  { match: /align|litho|stepper|writer|expos|laser/i, modes: ['Lamp failure', 'Stage calibration lost', 'Mask holder vacuum', 'Alignment camera fault', 'Control software crash'] },
-  { match: /wet|bench|bath|rinse|dryer|clean/i, modes: ['Bath heater fault', 'Level sensor failure', 'Exhaust interlock', 'Drain valve stuck', 'Rinse water resistivity low'] },
-  { match: /ellips|profil|sem|microscop|metrolog|measure|reflect|probe/i, modes: ['Light source failure', 'Stage motor fault', 'Calibration out of range', 'Control software crash'] },
+  {
+    match: /etch|rie|icp|asher|plasma/i,
+    modes: [
+      'RF generator fault',
+      'Matching network drift',
+      'Chamber pressure control',
+      'Helium backside cooling leak',
+      'Chiller flow alarm',
+      'Endpoint detector failure',
+      'Wafer clamp error',
+    ],
+  },
+  {
+    match: /coat|develop|track|spin/i,
+    modes: [
+      'Spin motor fault',
+      'Dispense pump blocked',
+      'Chuck vacuum loss',
+      'Hot plate temperature drift',
+      'Robot arm misplacement',
+      'Exhaust flow low',
+    ],
+  },
+  {
+    match: /furnace|tube|lpcvd|oxid|anneal|diffusion/i,
+    modes: [
+      'Heater zone failure',
+      'Thermocouple drift',
+      'Gas flow controller fault',
+      'Boat elevator jam',
+      'Door seal leak',
+      'Vacuum pump failure',
+    ],
+  },
+  {
+    match: /evapor|sputter|pvd/i,
+    modes: ['Source or target failure', 'Crystal monitor failure', 'Shutter stuck', 'Cryopump needs regeneration', 'Power supply arcing'],
+  },
+  {
+    match: /pecvd|ald|deposit|cvd/i,
+    modes: [
+      'Precursor line clogged',
+      'Showerhead heater fault',
+      'RF generator fault',
+      'Gas flow controller fault',
+      'Chamber pressure control',
+    ],
+  },
+  {
+    match: /align|litho|stepper|writer|expos|laser/i,
+    modes: ['Lamp failure', 'Stage calibration lost', 'Mask holder vacuum', 'Alignment camera fault', 'Control software crash'],
+  },
+  {
+    match: /wet|bench|bath|rinse|dryer|clean/i,
+    modes: ['Bath heater fault', 'Level sensor failure', 'Exhaust interlock', 'Drain valve stuck', 'Rinse water resistivity low'],
+  },
+  {
+    match: /ellips|profil|sem|microscop|metrolog|measure|reflect|probe/i,
+    modes: ['Light source failure', 'Stage motor fault', 'Calibration out of range', 'Control software crash'],
+  },
 ];
 const GENERIC_MODES = ['Controller fault', 'Vacuum leak', 'Interlock trip', 'Power supply failure', 'Mechanical jam'];
 
@@ -90,7 +142,15 @@ function downtimeStretches(intervals: StateInterval[]): Stretch[] {
 }
 
 type TicketRow = Omit<InferCreationAttributes<Ticket>, 'status'> & { id: number; status: TicketStatus; createdAt: Date; updatedAt: Date };
-type EventRow = { ticketId: number; actorId: number | null; kind: string; internal: boolean; body: string | null; data: Record<string, unknown> | null; createdAt: Date };
+type EventRow = {
+  ticketId: number;
+  actorId: number | null;
+  kind: string;
+  internal: boolean;
+  body: string | null;
+  data: Record<string, unknown> | null;
+  createdAt: Date;
+};
 
 export interface SeedPeople {
   staff: User[];
@@ -99,28 +159,67 @@ export interface SeedPeople {
 
 const clampTo = (d: Date, max: Date) => (d > max ? max : d);
 
-export async function seedTickets(transaction: Transaction, people: SeedPeople, now: Date, opts: { toolIds?: number[]; seed?: number } = {}) {
+export async function seedTickets(
+  transaction: Transaction,
+  people: SeedPeople,
+  now: Date,
+  opts: { toolIds?: number[]; seed?: number } = {},
+) {
   const rng: Random = createRandom(opts.seed ?? 0x71c4e7);
   const toolWhere = { retiredAt: null, ...(opts.toolIds ? { id: opts.toolIds } : {}) };
   const tools = await Tool.findAll({ where: toolWhere, order: [['id', 'ASC']], transaction });
   if (tools.length === 0 || people.members.length === 0 || people.staff.length === 0) return { tickets: 0, events: 0 };
   const modules = await ToolModule.findAll({ where: { toolId: tools.map((t) => t.id) }, transaction });
-  const intervals = await StateInterval.findAll({ where: { toolId: tools.map((t) => t.id), ticketId: null }, order: [['toolId', 'ASC'], ['startedAt', 'ASC'], ['id', 'ASC']], transaction });
+  const intervals = await StateInterval.findAll({
+    where: { toolId: tools.map((t) => t.id), ticketId: null },
+    order: [
+      ['toolId', 'ASC'],
+      ['startedAt', 'ASC'],
+      ['id', 'ASC'],
+    ],
+    transaction,
+  });
   const staffById = new Map(people.staff.map((u) => [u.id, u]));
 
-  const [{ maxId }] = await Ticket.sequelize!.query<{ maxId: number | null }>('SELECT MAX(id) AS maxId FROM tickets', { type: QueryTypes.SELECT, transaction });
+  const [{ maxId }] = await Ticket.sequelize!.query<{ maxId: number | null }>('SELECT MAX(id) AS maxId FROM tickets', {
+    type: QueryTypes.SELECT,
+    transaction,
+  });
   let nextId = Number(maxId ?? 0) + 1;
   const tickets: TicketRow[] = [];
   const events: EventRow[] = [];
   const links = new Map<number, number>(); // interval id -> ticket id
 
-  const ev = (ticketId: number, actorId: number | null, kind: string, at: Date, data: Record<string, unknown> | null = null, body: string | null = null) =>
-    events.push({ ticketId, actorId, kind, internal: false, body, data, createdAt: at });
+  const ev = (
+    ticketId: number,
+    actorId: number | null,
+    kind: string,
+    at: Date,
+    data: Record<string, unknown> | null = null,
+    body: string | null = null,
+  ) => events.push({ ticketId, actorId, kind, internal: false, body, data, createdAt: at });
 
-  const base = (tool: Tool, at: Date, fields: { category: TicketCategory; title: string; description: string; impact: Impact; wafers: number; moduleId?: number | null; alarm?: string | null }) => {
+  const base = (
+    tool: Tool,
+    at: Date,
+    fields: {
+      category: TicketCategory;
+      title: string;
+      description: string;
+      impact: Impact;
+      wafers: number;
+      moduleId?: number | null;
+      alarm?: string | null;
+    },
+  ) => {
     const reporter = rng.pick(people.members);
     const engineer = (tool.primaryEngineerId && staffById.get(tool.primaryEngineerId)) || rng.pick(people.staff);
-    const priority: Priority = computePriority({ impact: fields.impact, hazards: [], wafersAtRisk: fields.wafers, criticality: tool.criticality }).priority;
+    const priority: Priority = computePriority({
+      impact: fields.impact,
+      hazards: [],
+      wafersAtRisk: fields.wafers,
+      criticality: tool.criticality,
+    }).priority;
     const id = nextId++;
     const row: TicketRow = {
       id,
@@ -146,12 +245,34 @@ export async function seedTickets(transaction: Transaction, people: SeedPeople, 
       updatedAt: at,
     };
     tickets.push(row);
-    ev(id, reporter.id, 'reported', at, { impact: fields.impact, hazards: [], alarmText: fields.alarm ?? null, wafersCount: fields.wafers, category: fields.category, priority, photos: 0 }, fields.description);
+    ev(
+      id,
+      reporter.id,
+      'reported',
+      at,
+      {
+        impact: fields.impact,
+        hazards: [],
+        alarmText: fields.alarm ?? null,
+        wafersCount: fields.wafers,
+        category: fields.category,
+        priority,
+        photos: 0,
+      },
+      fields.description,
+    );
     ev(id, null, 'assignment', at, { from: null, to: { id: engineer.id, name: engineer.name }, automatic: true });
     return { row, reporter, engineer };
   };
 
-  const setStatus = (row: TicketRow, actorId: number, to: TicketStatus, at: Date, data: Record<string, unknown> = {}, body: string | null = null) => {
+  const setStatus = (
+    row: TicketRow,
+    actorId: number,
+    to: TicketStatus,
+    at: Date,
+    data: Record<string, unknown> = {},
+    body: string | null = null,
+  ) => {
     ev(row.id, actorId, 'status', at, { action: data.action ?? to, from: row.status, to, ...data }, body);
     row.status = to;
     row.updatedAt = at;
@@ -175,7 +296,13 @@ export async function seedTickets(transaction: Transaction, people: SeedPeople, 
         alarm,
       });
       for (const iv of stretch.intervals) links.set(iv.id, row.id);
-      ev(row.id, stretch.intervals[0].setById, 'tool_state', stretch.start, { moduleId: null, from: { state: 'standby', reason: 'none' }, to: { state: 'unscheduled_downtime', reason: stretch.intervals[0].reason }, source: stretch.intervals[0].source, confirmed: true });
+      ev(row.id, stretch.intervals[0].setById, 'tool_state', stretch.start, {
+        moduleId: null,
+        from: { state: 'standby', reason: 'none' },
+        to: { state: 'unscheduled_downtime', reason: stretch.intervals[0].reason },
+        source: stretch.intervals[0].source,
+        confirmed: true,
+      });
 
       const horizon = stretch.end ?? now;
       const ack = clampTo(new Date(stretch.start.getTime() + rng.int(3, 55) * MINUTE), horizon);
@@ -200,7 +327,10 @@ export async function seedTickets(transaction: Transaction, people: SeedPeople, 
       }
       if (openNow) {
         if (WAIT_OF(lastReason) && row.status !== 'waiting') {
-          setStatus(row, engineer.id, 'waiting', stretch.intervals[stretch.intervals.length - 1].startedAt, { action: 'wait', waitReason: WAIT_OF(lastReason) });
+          setStatus(row, engineer.id, 'waiting', stretch.intervals[stretch.intervals.length - 1].startedAt, {
+            action: 'wait',
+            waitReason: WAIT_OF(lastReason),
+          });
           row.waitReason = WAIT_OF(lastReason)!;
         }
         continue;
@@ -211,7 +341,13 @@ export async function seedTickets(transaction: Transaction, people: SeedPeople, 
       Object.assign(row, {
         fixKind: 'failure',
         failureMode: mode,
-        cause: rng.pick(['Worn part', 'Part at end of life', 'Loose connection', 'Contamination build-up', 'Unknown; replaced on suspicion']),
+        cause: rng.pick([
+          'Worn part',
+          'Part at end of life',
+          'Loose connection',
+          'Contamination build-up',
+          'Unknown; replaced on suspicion',
+        ]),
         workDone: `Repaired: ${mode.toLowerCase()}. Checked with a test run. (Demo data.)`,
         partsUsed: rng.chance(0.5) ? rng.pick(['O-ring set', 'Fuse', 'Sensor', 'Pump service kit', 'Cable', 'Valve']) : null,
         handsOnMinutes: Math.max(10, Math.round(Math.min(duration, rng.int(20, 240)))),
@@ -222,8 +358,21 @@ export async function seedTickets(transaction: Transaction, people: SeedPeople, 
         waitReason: null,
       });
       if (row.status === 'waiting') setStatus(row, engineer.id, 'in_repair', end, { action: 'resume' });
-      setStatus(row, engineer.id, 'fixed', end, { action: 'fix', fixKind: 'failure', failureMode: mode, returnToService: true }, row.workDone as string);
-      ev(row.id, engineer.id, 'tool_state', end, { moduleId: null, from: { state: 'unscheduled_downtime', reason: lastReason }, to: { state: 'standby', reason: 'none' }, source: 'staff', confirmed: true });
+      setStatus(
+        row,
+        engineer.id,
+        'fixed',
+        end,
+        { action: 'fix', fixKind: 'failure', failureMode: mode, returnToService: true },
+        row.workDone as string,
+      );
+      ev(row.id, engineer.id, 'tool_state', end, {
+        moduleId: null,
+        from: { state: 'unscheduled_downtime', reason: lastReason },
+        to: { state: 'standby', reason: 'none' },
+        source: 'staff',
+        confirmed: true,
+      });
       const closedAt = new Date(end.getTime() + rng.int(1, 30) * HOUR);
       if (closedAt < now) {
         setStatus(row, engineer.id, 'closed', closedAt, { action: 'close' });
@@ -232,19 +381,35 @@ export async function seedTickets(transaction: Transaction, people: SeedPeople, 
     }
 
     // ---- Assists: short interruptions cleared without repair, no downtime ---------------
-    const running = own.filter((iv) => (iv.state === 'productive' || iv.state === 'standby') && (iv.endedAt ?? now).getTime() - iv.startedAt.getTime() > 2 * HOUR);
+    const running = own.filter(
+      (iv) => (iv.state === 'productive' || iv.state === 'standby') && (iv.endedAt ?? now).getTime() - iv.startedAt.getTime() > 2 * HOUR,
+    );
     for (const iv of running) {
       const endMs = (iv.endedAt ?? now).getTime() - HOUR;
       let t = iv.startedAt.getTime() + rng.exp(40 * DAY);
       while (t < endMs) {
         const story = rng.pick(ASSIST_STORIES);
         const at = new Date(t);
-        const { row, engineer } = base(tool, at, { category: story.category, title: story.text, description: `${story.text}. (Demo data, invented.)`, impact: 'tool_limited', wafers: story.category === 'wafer_handling' ? 1 : 0 });
+        const { row, engineer } = base(tool, at, {
+          category: story.category,
+          title: story.text,
+          description: `${story.text}. (Demo data, invented.)`,
+          impact: 'tool_limited',
+          wafers: story.category === 'wafer_handling' ? 1 : 0,
+        });
         const ack = new Date(t + rng.int(2, 20) * MINUTE);
         const fixed = new Date(ack.getTime() + rng.int(5, 30) * MINUTE);
         if (fixed < now) {
           setStatus(row, engineer.id, 'acknowledged', ack, { action: 'acknowledge' });
-          Object.assign(row, { acknowledgedAt: ack, fixKind: 'assist', failureMode: null, workDone: story.work, handsOnMinutes: Math.round((fixed.getTime() - ack.getTime()) / MINUTE), fixedAt: fixed, resolvedAt: fixed });
+          Object.assign(row, {
+            acknowledgedAt: ack,
+            fixKind: 'assist',
+            failureMode: null,
+            workDone: story.work,
+            handsOnMinutes: Math.round((fixed.getTime() - ack.getTime()) / MINUTE),
+            fixedAt: fixed,
+            resolvedAt: fixed,
+          });
           if (row.wafersCount) Object.assign(row, { wafersRecovered: 1, wafersReturned: 1 });
           setStatus(row, engineer.id, 'fixed', fixed, { action: 'fix', fixKind: 'assist' }, story.work);
           const closed = new Date(fixed.getTime() + rng.int(1, 6) * HOUR);
@@ -258,10 +423,19 @@ export async function seedTickets(transaction: Transaction, people: SeedPeople, 
     }
 
     // ---- What is Limited right now: a module down, or a restriction in force -------------
-    for (const iv of intervals.filter((x) => x.toolId === tool.id && x.moduleId !== null && x.endedAt === null && x.state === 'unscheduled_downtime')) {
+    for (const iv of intervals.filter(
+      (x) => x.toolId === tool.id && x.moduleId !== null && x.endedAt === null && x.state === 'unscheduled_downtime',
+    )) {
       const mod = modules.find((m) => m.id === iv.moduleId);
       const mode = rng.pick(modes);
-      const { row, engineer } = base(tool, iv.startedAt, { category: categoryFor(mode), title: `${mod?.name ?? 'A module'} down: ${mode.toLowerCase()}`, description: `${mod?.name ?? 'One module'} stopped; the rest of the tool still runs. (Demo data, invented.)`, impact: 'tool_limited', wafers: 0, moduleId: iv.moduleId });
+      const { row, engineer } = base(tool, iv.startedAt, {
+        category: categoryFor(mode),
+        title: `${mod?.name ?? 'A module'} down: ${mode.toLowerCase()}`,
+        description: `${mod?.name ?? 'One module'} stopped; the rest of the tool still runs. (Demo data, invented.)`,
+        impact: 'tool_limited',
+        wafers: 0,
+        moduleId: iv.moduleId,
+      });
       links.set(iv.id, row.id);
       const ack = clampTo(new Date(iv.startedAt.getTime() + rng.int(5, 45) * MINUTE), now);
       setStatus(row, engineer.id, 'acknowledged', ack, { action: 'acknowledge' });
@@ -270,12 +444,22 @@ export async function seedTickets(transaction: Transaction, people: SeedPeople, 
     const restricted = own.find((iv) => iv.endedAt === null && (iv as StateInterval & { restriction?: string | null }).restriction);
     if (restricted) {
       const note = (restricted as StateInterval & { restriction?: string | null }).restriction!;
-      base(tool, restricted.startedAt, { category: 'process_out_of_spec', title: `Runs with a restriction: ${note}`.slice(0, 120), description: `${note}. (Demo data, invented.)`, impact: 'tool_limited', wafers: 0 });
+      base(tool, restricted.startedAt, {
+        category: 'process_out_of_spec',
+        title: `Runs with a restriction: ${note}`.slice(0, 120),
+        description: `${note}. (Demo data, invented.)`,
+        impact: 'tool_limited',
+        wafers: 0,
+      });
     }
   }
 
   // ---- A few fresh reports nobody has picked up yet, for the queue -----------------------
-  const runningNow = tools.filter((tool) => intervals.some((iv) => iv.toolId === tool.id && iv.moduleId === null && iv.endedAt === null && (iv.state === 'standby' || iv.state === 'productive')));
+  const runningNow = tools.filter((tool) =>
+    intervals.some(
+      (iv) => iv.toolId === tool.id && iv.moduleId === null && iv.endedAt === null && (iv.state === 'standby' || iv.state === 'productive'),
+    ),
+  );
   const fresh = [
     { text: 'Chamber light flickers during the run', category: 'other' as const },
     { text: 'Process log shows a pressure spike at step 3', category: 'process_out_of_spec' as const },
@@ -284,7 +468,13 @@ export async function seedTickets(transaction: Transaction, people: SeedPeople, 
   for (const [i, story] of fresh.entries()) {
     if (runningNow.length === 0) break;
     const tool = runningNow[(i * 7) % runningNow.length];
-    base(tool, new Date(now.getTime() - rng.int(20, 300) * MINUTE), { category: story.category, title: story.text, description: `${story.text}. (Demo data, invented.)`, impact: 'still_usable', wafers: 0 });
+    base(tool, new Date(now.getTime() - rng.int(20, 300) * MINUTE), {
+      category: story.category,
+      title: story.text,
+      description: `${story.text}. (Demo data, invented.)`,
+      impact: 'still_usable',
+      wafers: 0,
+    });
   }
 
   // Number the tickets in the order they were reported, as a live system would have.
@@ -304,10 +494,13 @@ export async function seedTickets(transaction: Transaction, people: SeedPeople, 
   const pairs = [...links.entries()];
   for (let i = 0; i < pairs.length; i += 500) {
     const chunk = pairs.slice(i, i + 500);
-    await StateInterval.sequelize!.query(`UPDATE state_intervals SET ticket_id = CASE id ${chunk.map(() => 'WHEN ? THEN ?').join(' ')} END WHERE id IN (${chunk.map(() => '?').join(',')})`, {
-      replacements: [...chunk.flat(), ...chunk.map(([iv]) => iv)],
-      transaction,
-    });
+    await StateInterval.sequelize!.query(
+      `UPDATE state_intervals SET ticket_id = CASE id ${chunk.map(() => 'WHEN ? THEN ?').join(' ')} END WHERE id IN (${chunk.map(() => '?').join(',')})`,
+      {
+        replacements: [...chunk.flat(), ...chunk.map(([iv]) => iv)],
+        transaction,
+      },
+    );
   }
   return { tickets: tickets.length, events: events.length };
 }

@@ -35,7 +35,18 @@ import type {
 import { TOOL_RELIABILITY_WINDOWS } from '../../../shared/schemas/analytics';
 import { notFound } from '../../lib/errors';
 import type { AppDeps } from '../../lib/http';
-import { addHours, addTally, emptyStateHours, emptyTally, figuresOf, MICROS_PER_HOUR, STATE_KEY, trendOf, uptimeOf, type Tally } from './figures';
+import {
+  addHours,
+  addTally,
+  emptyStateHours,
+  emptyTally,
+  figuresOf,
+  MICROS_PER_HOUR,
+  STATE_KEY,
+  trendOf,
+  uptimeOf,
+  type Tally,
+} from './figures';
 import { monthSerial, planPeriod, type PeriodPlan, type Segment } from './period-plan';
 import { responseFigures } from './response-times';
 
@@ -44,8 +55,7 @@ export type Scope = { kind: 'facility' } | { kind: 'area'; areaId: number } | { 
 type Replacements = Record<string, unknown>;
 
 export const NOTES: AnalyticsReport['notes'] = {
-  mtbf:
-    'MTBF over uptime: productive, standby and engineering hours per failure. Faultline has no feed of real run time, so idle running is logged as standby and productive time alone cannot be measured.',
+  mtbf: 'MTBF over uptime: productive, standby and engineering hours per failure. Faultline has no feed of real run time, so idle running is logged as standby and productive time alone cannot be measured.',
   mttr: 'MTTR as SEMI E10 defines it: repair, test and verification hours per failure, without waiting for parts, the vendor or the user. Mean down time per failure includes the waiting.',
   months: 'Months are calendar months in UTC; the first and last may be partial.',
   pareto:
@@ -236,7 +246,12 @@ interface ParetoSqlRow {
  * intervals' hours (clipped in Node) come in as `edgeHours` per ticket (0: none), so that
  * every ticket is counted once.
  */
-async function downtimeByTicket(sequelize: Sequelize, plan: PeriodPlan, scope: Scope, edgeHours: Map<number, number>): Promise<ParetoSqlRow[]> {
+async function downtimeByTicket(
+  sequelize: Sequelize,
+  plan: PeriodPlan,
+  scope: Scope,
+  edgeHours: Map<number, number>,
+): Promise<ParetoSqlRow[]> {
   const replacements = planReplacements(plan, scope);
   const sources: string[] = [];
   [...edgeHours.entries()].forEach(([ticketId, us], i) => {
@@ -249,7 +264,9 @@ async function downtimeByTicket(sequelize: Sequelize, plan: PeriodPlan, scope: S
       WHERE d.month >= :rollupFrom AND d.month < :rollupTo${scopeSql(scope, 'd')}`);
   }
   plan.raw.forEach((_, i) =>
-    sources.push(rawSegmentSource(scope, i, (us) => `COALESCE(si.ticket_id, 0) AS ticket_id, ${us} AS us`, ` AND si.state = 'unscheduled_downtime'`)),
+    sources.push(
+      rawSegmentSource(scope, i, (us) => `COALESCE(si.ticket_id, 0) AS ticket_id, ${us} AS us`, ` AND si.state = 'unscheduled_downtime'`),
+    ),
   );
   if (sources.length === 0) return [];
   // Grouped by the plain column (the collation already ignores case and trailing spaces);
@@ -286,7 +303,10 @@ async function toolsInScope(sequelize: Sequelize, scope: Scope): Promise<ToolInf
 async function describeScope(sequelize: Sequelize, scope: Scope): Promise<AnalyticsScope> {
   if (scope.kind === 'facility') return { kind: 'facility', id: null, name: 'Whole facility' };
   if (scope.kind === 'area') {
-    const [row] = await sequelize.query<{ name: string }>('SELECT name FROM areas WHERE id = :id', { type: QueryTypes.SELECT, replacements: { id: scope.areaId } });
+    const [row] = await sequelize.query<{ name: string }>('SELECT name FROM areas WHERE id = :id', {
+      type: QueryTypes.SELECT,
+      replacements: { id: scope.areaId },
+    });
     if (!row) throw notFound('That area');
     return { kind: 'area', id: scope.areaId, name: row.name };
   }
@@ -409,7 +429,8 @@ export async function buildReport(deps: AppDeps, query: AnalyticsQuery, now = ne
   const edges = edgesOf(sequelize, plan, scope);
   const pareto = edges.then((pieces) => {
     const byTicket = new Map<number, number>();
-    for (const p of pieces) if (p.state === 'unscheduled_downtime') byTicket.set(p.ticketId ?? 0, (byTicket.get(p.ticketId ?? 0) ?? 0) + p.us);
+    for (const p of pieces)
+      if (p.state === 'unscheduled_downtime') byTicket.set(p.ticketId ?? 0, (byTicket.get(p.ticketId ?? 0) ?? 0) + p.us);
     return downtimeByTicket(sequelize, plan, scope, byTicket);
   });
 
@@ -464,7 +485,8 @@ export async function buildReport(deps: AppDeps, query: AnalyticsQuery, now = ne
       month: m.start.toISOString(),
       from: m.from.toISOString(),
       to: m.to.toISOString(),
-      partial: m.from.getTime() !== m.start.getTime() || m.to.getTime() !== Date.UTC(m.start.getUTCFullYear(), m.start.getUTCMonth() + 1, 1),
+      partial:
+        m.from.getTime() !== m.start.getTime() || m.to.getTime() !== Date.UTC(m.start.getUTCFullYear(), m.start.getUTCMonth() + 1, 1),
       hours,
       availabilityPct: operations > 0 ? (uptimeOf(hours) / operations) * 100 : null,
       failures: failuresByMonth.get(m.serial) ?? 0,
@@ -514,7 +536,10 @@ export async function buildReport(deps: AppDeps, query: AnalyticsQuery, now = ne
 
 /** The reduced figures of one tool for the tool page: 30 and 365 days to now. */
 export async function toolReliability(deps: AppDeps, toolId: number, now = new Date()): Promise<ToolReliability> {
-  const [exists] = await deps.sequelize.query<{ id: number }>('SELECT id FROM tools WHERE id = :id', { type: QueryTypes.SELECT, replacements: { id: toolId } });
+  const [exists] = await deps.sequelize.query<{ id: number }>('SELECT id FROM tools WHERE id = :id', {
+    type: QueryTypes.SELECT,
+    replacements: { id: toolId },
+  });
   if (!exists) throw notFound('That tool');
   const scope: Scope = { kind: 'tool', toolId };
   const windows = await Promise.all(

@@ -73,7 +73,15 @@ export function toolsCsv(report: AnalyticsReport): string {
 }
 
 export function monthsCsv(report: AnalyticsReport): string {
-  const header = ['Month (UTC)', 'From', 'To', 'Partial month', ...E10_STATE_HOURS_KEYS.map((k) => STATE_COLUMN[k]), 'Availability %', 'Failures'];
+  const header = [
+    'Month (UTC)',
+    'From',
+    'To',
+    'Partial month',
+    ...E10_STATE_HOURS_KEYS.map((k) => STATE_COLUMN[k]),
+    'Availability %',
+    'Failures',
+  ];
   const rows = report.months.map((m) => [
     m.month.slice(0, 7),
     m.from,

@@ -12,7 +12,13 @@ import {
   type ReliabilityTrend,
   type ReverseArrangementCriticalValues,
 } from '../../../shared/reliability';
-import { MTBF_CONFIDENCE, TREND_CONFIDENCE, type DowntimeDetail, type ReliabilityFigures, type StateHours } from '../../../shared/schemas/analytics';
+import {
+  MTBF_CONFIDENCE,
+  TREND_CONFIDENCE,
+  type DowntimeDetail,
+  type ReliabilityFigures,
+  type StateHours,
+} from '../../../shared/schemas/analytics';
 
 export const HOUR_MS = 3_600_000;
 export const MICROS_PER_HOUR = 3_600_000_000;
@@ -189,7 +195,13 @@ export function trendOf(failureStarts: readonly number[], fromMs: number, toMs: 
   const times = failureStarts.map((t) => (t - fromMs) / HOUR_MS);
   const gaps = times.map((t, i) => t - (i === 0 ? 0 : times[i - 1]));
   const periodHours = (toMs - fromMs) / HOUR_MS;
-  const crow = periodHours > 0 ? crowAmsaa(times.filter((t) => t > 0 && t <= periodHours), periodHours) : null;
+  const crow =
+    periodHours > 0
+      ? crowAmsaa(
+          times.filter((t) => t > 0 && t <= periodHours),
+          periodHours,
+        )
+      : null;
   const { trend, count } = trendOfGaps(gaps);
   return { trend, reversals: gaps.length > 0 ? count : null, crowBeta: crow ? crow.beta : null };
 }

@@ -55,7 +55,12 @@ const num = (v: unknown) => Number(v ?? 0);
 const minutes = (seconds: unknown) => (seconds === null || seconds === undefined ? null : Number(seconds) / 60);
 const share = (met: number, decided: number) => (decided > 0 ? met / decided : null);
 
-export async function responseFigures(sequelize: Sequelize, plan: PeriodPlan, scope: Scope, now: Date): Promise<{ byPriority: ResponseRow[]; overall: ResponseRow }> {
+export async function responseFigures(
+  sequelize: Sequelize,
+  plan: PeriodPlan,
+  scope: Scope,
+  now: Date,
+): Promise<{ byPriority: ResponseRow[]; overall: ResponseRow }> {
   const targets = await effectiveTargets(sequelize);
   const replacements: Record<string, unknown> = { from: plan.from, to: plan.to, now };
   if (scope.kind === 'tool') replacements.scopeToolId = scope.toolId;
@@ -102,7 +107,17 @@ export async function responseFigures(sequelize: Sequelize, plan: PeriodPlan, sc
 
   const bySum = new Map(sums.map((r) => [r.priority, r]));
   const byPct = new Map(percentiles.map((r) => [r.priority, r]));
-  const totals = { tickets: 0, acknowledged: 0, ackSeconds: 0, ackMet: 0, ackDecided: 0, restored: 0, restoreSeconds: 0, restoreMet: 0, restoreDecided: 0 };
+  const totals = {
+    tickets: 0,
+    acknowledged: 0,
+    ackSeconds: 0,
+    ackMet: 0,
+    ackDecided: 0,
+    restored: 0,
+    restoreSeconds: 0,
+    restoreMet: 0,
+    restoreDecided: 0,
+  };
 
   const byPriority: ResponseRow[] = PRIORITIES.map((priority) => {
     const s = bySum.get(priority);

@@ -66,4 +66,3 @@ export function authRoutes(log: Logger): RouteSpec[] {
     }),
   ];
 }
-

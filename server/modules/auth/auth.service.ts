@@ -18,7 +18,11 @@ const addressKey = (ip: string | undefined) => `signin:address:${ip ?? 'unknown'
  * Signs a user in: throttled per account and per address, the same answer for a wrong e-mail
  * and a wrong password, and a brand-new session id on success (the old one is dead).
  */
-export async function signIn(deps: AppDeps, req: Request, input: { email: string; password: string }): Promise<{ user: AuthUser; csrfToken: string }> {
+export async function signIn(
+  deps: AppDeps,
+  req: Request,
+  input: { email: string; password: string },
+): Promise<{ user: AuthUser; csrfToken: string }> {
   const { config, log } = deps;
   const windowMs = config.SIGNIN_WINDOW_SECONDS * 1000;
   const keys = [
@@ -79,7 +83,10 @@ export async function requestPasswordReset(deps: AppDeps, email: string) {
   if (!user) return;
   const token = crypto.randomBytes(32).toString('base64url');
   await deps.sequelize.transaction(async (transaction) => {
-    await PasswordReset.create({ userId: user.id, tokenHash: sha256(token), expiresAt: new Date(Date.now() + RESET_TTL_MS), usedAt: null }, { transaction });
+    await PasswordReset.create(
+      { userId: user.id, tokenHash: sha256(token), expiresAt: new Date(Date.now() + RESET_TTL_MS), usedAt: null },
+      { transaction },
+    );
     await queueMail(
       {
         to: user.email,
@@ -92,7 +99,10 @@ export async function requestPasswordReset(deps: AppDeps, email: string) {
 }
 
 export async function resetPassword(deps: AppDeps, token: string, password: string) {
-  if (isCommonPassword(password)) throw badRequest('Choose a less common password.', { password: ['This password is on a list of commonly used passwords. Choose another.'] });
+  if (isCommonPassword(password))
+    throw badRequest('Choose a less common password.', {
+      password: ['This password is on a list of commonly used passwords. Choose another.'],
+    });
   const reset = await PasswordReset.findOne({ where: { tokenHash: sha256(token), usedAt: null, expiresAt: { [Op.gt]: new Date() } } });
   if (!reset) throw new AppError(400, 'reset_link_invalid', 'This reset link has expired or was already used. Ask for a new one.');
   const passwordHash = await hashPassword(password);

@@ -20,7 +20,11 @@ export const NOT_AVAILABLE: readonly E10State[] = ['scheduled_downtime', 'unsche
 const emptyByState = () => Object.fromEntries(E10_STATES.map((s) => [s, 0])) as Record<E10State, number>;
 
 /** Milliseconds per tool and state within [from, to). Tools with no time in the period are absent. */
-export async function stateTimeInPeriod(sequelize: Sequelize, period: PeriodQuery, transaction?: Transaction): Promise<Map<number, Record<E10State, number>>> {
+export async function stateTimeInPeriod(
+  sequelize: Sequelize,
+  period: PeriodQuery,
+  transaction?: Transaction,
+): Promise<Map<number, Record<E10State, number>>> {
   const to = new Date(Math.min(period.to.getTime(), Date.now()));
   const result = new Map<number, Record<E10State, number>>();
   if (to <= period.from || (period.toolIds && period.toolIds.length === 0)) return result;
@@ -62,7 +66,11 @@ export function availabilityFrom(byState: Record<E10State, number>, from: Date, 
  * that was not scheduled downtime, unscheduled downtime or non-scheduled time. Time before a
  * tool was added is not counted against it.
  */
-export async function availabilityForPeriod(sequelize: Sequelize, period: PeriodQuery, transaction?: Transaction): Promise<Map<number, AvailabilityFigure>> {
+export async function availabilityForPeriod(
+  sequelize: Sequelize,
+  period: PeriodQuery,
+  transaction?: Transaction,
+): Promise<Map<number, AvailabilityFigure>> {
   const to = new Date(Math.min(period.to.getTime(), Date.now()));
   const times = await stateTimeInPeriod(sequelize, { ...period, to }, transaction);
   const out = new Map<number, AvailabilityFigure>();

@@ -1,5 +1,12 @@
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
-import { BOARD_LOOK, BOARD_STATUSES, boardStatusOf, type BoardStatus, type E10State, type StateReason } from '../../../shared/equipment-state';
+import {
+  BOARD_LOOK,
+  BOARD_STATUSES,
+  boardStatusOf,
+  type BoardStatus,
+  type E10State,
+  type StateReason,
+} from '../../../shared/equipment-state';
 import { OPEN_STATUSES } from '../../../shared/ticket-workflow';
 import type { BoardData, BoardModule, BoardQuery, BoardTool, ToolCriticality } from '../../../shared/schemas/facility';
 import { matchesSearch } from '../../../shared/search';
@@ -148,7 +155,6 @@ async function loadRows(sequelize: Sequelize, filter: BoardRowFilter, transactio
   });
   return { tools };
 }
-
 
 /**
  * Everything the board shows, in one call. The whole facility is a bounded set (hundreds of

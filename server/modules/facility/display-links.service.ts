@@ -39,11 +39,24 @@ export async function createDisplayLink(deps: AppDeps, name: string, actorId: nu
 
 export async function listDisplayLinks(query: { includeRevoked?: boolean; limit: number; offset: number }) {
   const where = query.includeRevoked ? {} : { revokedAt: null };
-  const { rows, count } = await DisplayLink.findAndCountAll({ where, order: [['createdAt', 'DESC'], ['id', 'DESC']], limit: query.limit, offset: query.offset });
+  const { rows, count } = await DisplayLink.findAndCountAll({
+    where,
+    order: [
+      ['createdAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
+    limit: query.limit,
+    offset: query.offset,
+  });
   const creatorIds = [...new Set(rows.map((r) => r.createdById).filter((v): v is number => v !== null))];
   const creators = creatorIds.length ? await User.findAll({ where: { id: creatorIds }, attributes: ['id', 'name'] }) : [];
   const names = new Map(creators.map((c) => [c.id, c.name]));
-  return { items: rows.map((r) => present(r, r.createdById ? (names.get(r.createdById) ?? null) : null)), total: count, limit: query.limit, offset: query.offset };
+  return {
+    items: rows.map((r) => present(r, r.createdById ? (names.get(r.createdById) ?? null) : null)),
+    total: count,
+    limit: query.limit,
+    offset: query.offset,
+  };
 }
 
 /** Revoking is final: the key stops working for the API at once and open screens are cut off. */
@@ -62,7 +75,10 @@ export async function describeDisplay(id: number) {
   if (!link || link.revokedAt) return null;
   const now = new Date();
   if (!link.lastSeenAt || now.getTime() - link.lastSeenAt.getTime() > 60_000) {
-    await DisplayLink.update({ lastSeenAt: now }, { where: { id, [Op.or]: [{ lastSeenAt: null }, { lastSeenAt: { [Op.lt]: new Date(now.getTime() - 60_000) } }] } });
+    await DisplayLink.update(
+      { lastSeenAt: now },
+      { where: { id, [Op.or]: [{ lastSeenAt: null }, { lastSeenAt: { [Op.lt]: new Date(now.getTime() - 60_000) } }] } },
+    );
   }
   return { id: link.id, name: link.name };
 }

@@ -48,7 +48,8 @@ export async function unfollowTool(userId: number, toolId: number) {
 /** The link in the e-mail: whoever holds the token may stop that one follow, signed in or not. */
 export async function unfollowByToken(token: string) {
   const follow = await ToolFollow.findOne({ where: { unfollowToken: token } });
-  if (!follow) throw new AppError(404, 'unfollow_link_unknown', 'This link is not valid any more. You may have stopped following the tool already.');
+  if (!follow)
+    throw new AppError(404, 'unfollow_link_unknown', 'This link is not valid any more. You may have stopped following the tool already.');
   const tool = await Tool.findByPk(follow.toolId, { attributes: ['id', 'code', 'name'] });
   await ToolFollow.destroy({ where: { userId: follow.userId, toolId: follow.toolId } });
   return { tool: tool ? { id: tool.id, code: tool.code, name: tool.name } : null };
@@ -99,7 +100,11 @@ async function notifyFollowers(change: StateChangeResult, transaction: Transacti
        FROM tool_follows f JOIN users u ON u.id = f.user_id
       WHERE f.tool_id = :toolId AND u.active = 1 ${current.setById ? 'AND f.user_id <> :actorId' : ''}
         ${current.ticketId ? TICKET_PEOPLE_EXCLUDED : ''}`,
-    { type: QueryTypes.SELECT, replacements: { toolId: current.toolId, actorId: current.setById, ticketId: current.ticketId }, transaction },
+    {
+      type: QueryTypes.SELECT,
+      replacements: { toolId: current.toolId, actorId: current.setById, ticketId: current.ticketId },
+      transaction,
+    },
   );
   if (followers.length === 0) return;
 
@@ -135,7 +140,12 @@ async function notifyFollowers(change: StateChangeResult, transaction: Transacti
     ].join('\n'),
   }));
   await queueMail(mails, transaction);
-  await createNotices(deps, followers.map((f) => f.userId), { kind: 'tool_state', title, body: lines.slice(0, 4).join(' '), link }, transaction);
+  await createNotices(
+    deps,
+    followers.map((f) => f.userId),
+    { kind: 'tool_state', title, body: lines.slice(0, 4).join(' '), link },
+    transaction,
+  );
 }
 
 onStateChanged(notifyFollowers);

@@ -20,7 +20,11 @@ export async function getLabels(deps: AppDeps, query: { areaId?: number }): Prom
   const tools = await Tool.findAll({
     where,
     include: [{ model: Area, as: 'area', attributes: ['name', 'sortOrder'] }],
-    order: [[{ model: Area, as: 'area' }, 'sortOrder', 'ASC'], [{ model: Area, as: 'area' }, 'name', 'ASC'], ['name', 'ASC']],
+    order: [
+      [{ model: Area, as: 'area' }, 'sortOrder', 'ASC'],
+      [{ model: Area, as: 'area' }, 'name', 'ASC'],
+      ['name', 'ASC'],
+    ],
     limit: MAX_LABELS,
   });
   const items = await Promise.all(

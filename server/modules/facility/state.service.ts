@@ -104,16 +104,39 @@ export async function changeState(deps: AppDeps, change: StateChange, outer?: Tr
     );
     const result = { previous: open, current };
     for (const hook of afterChangeHooks) await hook(result, transaction, deps);
-    deps.events.publish({ type: 'tool.state_changed', audience: 'all', payload: { toolId: tool.id, moduleId, state: change.state } }, transaction);
+    deps.events.publish(
+      { type: 'tool.state_changed', audience: 'all', payload: { toolId: tool.id, moduleId, state: change.state } },
+      transaction,
+    );
     return result;
   };
   return outer ? run(outer) : deps.sequelize.transaction(run);
 }
 
 /** The first interval of a new tool or module (standby, i.e. Running and idle). */
-export async function openInitialState(toolId: number, moduleId: number | null, at: Date, actorId: number | null, transaction: Transaction, state: E10State = 'standby') {
+export async function openInitialState(
+  toolId: number,
+  moduleId: number | null,
+  at: Date,
+  actorId: number | null,
+  transaction: Transaction,
+  state: E10State = 'standby',
+) {
   return StateInterval.create(
-    { toolId, moduleId, state, reason: REASONS_BY_STATE[state][0], note: null, startedAt: at, endedAt: null, expectedReturnAt: null, ticketId: null, setById: actorId, source: 'system', confirmed: true },
+    {
+      toolId,
+      moduleId,
+      state,
+      reason: REASONS_BY_STATE[state][0],
+      note: null,
+      startedAt: at,
+      endedAt: null,
+      expectedReturnAt: null,
+      ticketId: null,
+      setById: actorId,
+      source: 'system',
+      confirmed: true,
+    },
     { transaction },
   );
 }

@@ -53,13 +53,20 @@ export function summarizeStatus(tool: OpenState, modules: readonly OpenModuleSta
     return { status, since: tool.startedAt, note: tool.note, expectedReturnAt: tool.expectedReturnAt };
   }
   const down = modules.filter((m) => isDownState(m.state));
-  const parts = [tool.restriction ? `Restricted: ${tool.restriction}` : null, ...down.map(moduleLine)].filter((p): p is string => Boolean(p));
+  const parts = [tool.restriction ? `Restricted: ${tool.restriction}` : null, ...down.map(moduleLine)].filter((p): p is string =>
+    Boolean(p),
+  );
   if (status === 'running') {
     const since = latest([tool.startedAt, ...modules.map((m) => m.startedAt)]);
     return { status, since, note: tool.note, expectedReturnAt: null };
   }
   if (status === 'down') {
-    return { status, since: latest([tool.startedAt, ...down.map((m) => m.startedAt)]), note: parts.join('; ') || tool.note, expectedReturnAt: lastReturn(down) };
+    return {
+      status,
+      since: latest([tool.startedAt, ...down.map((m) => m.startedAt)]),
+      note: parts.join('; ') || tool.note,
+      expectedReturnAt: lastReturn(down),
+    };
   }
   const since = down.length > 0 ? latest([tool.startedAt, earliest(down.map((m) => m.startedAt))]) : tool.startedAt;
   return { status, since, note: parts.join('; ') || tool.note, expectedReturnAt: lastReturn(down) };

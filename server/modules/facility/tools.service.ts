@@ -46,13 +46,24 @@ export function presentArea(a: Area) {
 
 export async function listAreas(query: { includeRetired?: boolean; limit: number; offset: number }) {
   const where = query.includeRetired ? {} : { retiredAt: null };
-  const { rows, count } = await Area.findAndCountAll({ where, order: [['sortOrder', 'ASC'], ['name', 'ASC']], limit: query.limit, offset: query.offset });
+  const { rows, count } = await Area.findAndCountAll({
+    where,
+    order: [
+      ['sortOrder', 'ASC'],
+      ['name', 'ASC'],
+    ],
+    limit: query.limit,
+    offset: query.offset,
+  });
   return { items: rows.map(presentArea), total: count, limit: query.limit, offset: query.offset };
 }
 
 export async function createArea(deps: AppDeps, input: AreaCreateInput) {
   return deps.sequelize.transaction(async (transaction) => {
-    const area = await Area.create({ name: input.name, code: input.code, description: input.description ?? null, sortOrder: input.sortOrder ?? 0, retiredAt: null }, { transaction });
+    const area = await Area.create(
+      { name: input.name, code: input.code, description: input.description ?? null, sortOrder: input.sortOrder ?? 0, retiredAt: null },
+      { transaction },
+    );
     announce(deps, null, transaction);
     return presentArea(area);
   });
@@ -65,7 +76,8 @@ export async function updateArea(deps: AppDeps, id: number, input: AreaUpdateInp
     const { retired, ...fields } = input;
     if (retired === true && !area.retiredAt) {
       const active = await Tool.count({ where: { areaId: id, retiredAt: null }, transaction });
-      if (active > 0) throw conflict(`This area still has ${active} active tool${active === 1 ? '' : 's'}. Move or retire them first.`, 'area_in_use');
+      if (active > 0)
+        throw conflict(`This area still has ${active} active tool${active === 1 ? '' : 's'}. Move or retire them first.`, 'area_in_use');
       area.retiredAt = new Date();
     } else if (retired === false) {
       area.retiredAt = null;
@@ -81,15 +93,31 @@ export async function updateArea(deps: AppDeps, id: number, input: AreaUpdateInp
 
 export async function listEngineers(query: EngineerListQuery) {
   const where: WhereOptions<User> = { role: STAFF_ROLES as unknown as string[], active: true };
-  if (query.q) Object.assign(where, { [Op.or]: [{ name: { [Op.like]: likePattern(query.q) } }, { email: { [Op.like]: likePattern(query.q) } }] });
-  const { rows, count } = await User.findAndCountAll({ where, order: [['name', 'ASC']], limit: query.limit, offset: query.offset, attributes: ['id', 'name', 'email', 'role'] });
-  return { items: rows.map((u) => ({ id: u.id, name: u.name, email: u.email, role: u.role })), total: count, limit: query.limit, offset: query.offset };
+  if (query.q)
+    Object.assign(where, { [Op.or]: [{ name: { [Op.like]: likePattern(query.q) } }, { email: { [Op.like]: likePattern(query.q) } }] });
+  const { rows, count } = await User.findAndCountAll({
+    where,
+    order: [['name', 'ASC']],
+    limit: query.limit,
+    offset: query.offset,
+    attributes: ['id', 'name', 'email', 'role'],
+  });
+  return {
+    items: rows.map((u) => ({ id: u.id, name: u.name, email: u.email, role: u.role })),
+    total: count,
+    limit: query.limit,
+    offset: query.offset,
+  };
 }
 
 async function checkEngineers(input: { primaryEngineerId?: number | null; backupEngineerId?: number | null }, transaction: Transaction) {
   const ids = [input.primaryEngineerId, input.backupEngineerId].filter((v): v is number => typeof v === 'number');
   if (ids.length === 0) return;
-  const found = await User.findAll({ where: { id: ids, role: STAFF_ROLES as unknown as string[], active: true }, attributes: ['id'], transaction });
+  const found = await User.findAll({
+    where: { id: ids, role: STAFF_ROLES as unknown as string[], active: true },
+    attributes: ['id'],
+    transaction,
+  });
   const ok = new Set(found.map((u) => u.id));
   const fields: Record<string, string[]> = {};
   if (input.primaryEngineerId && !ok.has(input.primaryEngineerId)) fields.primaryEngineerId = ['Choose an active member of staff.'];
@@ -107,7 +135,8 @@ export async function listToolsAdmin(query: AdminListQuery) {
   const where: WhereOptions<Tool> = {};
   if (!query.includeRetired) Object.assign(where, { retiredAt: null });
   if (query.areaId) Object.assign(where, { areaId: query.areaId });
-  if (query.q) Object.assign(where, { [Op.or]: [{ name: { [Op.like]: likePattern(query.q) } }, { code: { [Op.like]: likePattern(query.q) } }] });
+  if (query.q)
+    Object.assign(where, { [Op.or]: [{ name: { [Op.like]: likePattern(query.q) } }, { code: { [Op.like]: likePattern(query.q) } }] });
   const { rows, count } = await Tool.findAndCountAll({
     where,
     include: [{ model: Area, as: 'area', attributes: ['id', 'name', 'code'] }],
@@ -119,7 +148,10 @@ export async function listToolsAdmin(query: AdminListQuery) {
   const people = engineerIds.length ? await User.findAll({ where: { id: engineerIds }, attributes: ['id', 'name', 'email'] }) : [];
   const byId = new Map(people.map((p) => [p.id, { id: p.id, name: p.name, email: p.email }]));
   const moduleCounts = rows.length
-    ? ((await ToolModule.count({ where: { toolId: rows.map((t) => t.id), retiredAt: null }, group: ['toolId'] })) as unknown as { toolId: number; count: number }[])
+    ? ((await ToolModule.count({ where: { toolId: rows.map((t) => t.id), retiredAt: null }, group: ['toolId'] })) as unknown as {
+        toolId: number;
+        count: number;
+      }[])
     : [];
   const modulesOf = new Map(moduleCounts.map((c) => [c.toolId, Number(c.count)]));
   return {
@@ -157,7 +189,13 @@ function presentTool(t: Tool) {
 export async function getToolForEdit(id: number) {
   const tool = await Tool.findByPk(id);
   if (!tool) throw notFound('Tool');
-  const modules = await ToolModule.findAll({ where: { toolId: id }, order: [['sortOrder', 'ASC'], ['name', 'ASC']] });
+  const modules = await ToolModule.findAll({
+    where: { toolId: id },
+    order: [
+      ['sortOrder', 'ASC'],
+      ['name', 'ASC'],
+    ],
+  });
   return { ...presentTool(tool), modules: modules.map(presentModule) };
 }
 
@@ -187,7 +225,10 @@ export async function createTool(deps: AppDeps, input: ToolCreateInput, actorId:
     );
     await openInitialState(tool.id, null, now, actorId, transaction);
     for (const [i, m] of (input.modules ?? []).entries()) {
-      const mod = await ToolModule.create({ toolId: tool.id, name: m.name, code: m.code, sortOrder: m.sortOrder ?? i, retiredAt: null }, { transaction });
+      const mod = await ToolModule.create(
+        { toolId: tool.id, name: m.name, code: m.code, sortOrder: m.sortOrder ?? i, retiredAt: null },
+        { transaction },
+      );
       await openInitialState(tool.id, mod.id, now, actorId, transaction);
     }
     announce(deps, tool.id, transaction);
@@ -205,18 +246,25 @@ export async function updateTool(deps: AppDeps, id: number, input: ToolUpdateInp
   return deps.sequelize.transaction(async (transaction) => {
     const tool = await Tool.findByPk(id, { transaction, lock: transaction.LOCK.UPDATE });
     if (!tool) throw notFound('Tool');
-    if (tool.version !== input.version) throw new AppError(409, 'stale_version', 'Someone else changed this tool in the meantime. Reload to see their change.');
+    if (tool.version !== input.version)
+      throw new AppError(409, 'stale_version', 'Someone else changed this tool in the meantime. Reload to see their change.');
     const { version: _version, retired, ...fields } = input;
     if (fields.areaId !== undefined && fields.areaId !== tool.areaId) await activeArea(fields.areaId, transaction);
     const primaryEngineerId = fields.primaryEngineerId === undefined ? tool.primaryEngineerId : fields.primaryEngineerId;
     const backupEngineerId = fields.backupEngineerId === undefined ? tool.backupEngineerId : fields.backupEngineerId;
     if (primaryEngineerId && primaryEngineerId === backupEngineerId) {
-      throw badRequest('The backup engineer must be someone other than the primary.', { backupEngineerId: ['Choose someone other than the primary engineer.'] });
+      throw badRequest('The backup engineer must be someone other than the primary.', {
+        backupEngineerId: ['Choose someone other than the primary engineer.'],
+      });
     }
     await checkEngineers(fields, transaction);
 
     if (retired === true && !tool.retiredAt) {
-      await changeState(deps, { toolId: tool.id, state: 'non_scheduled', reason: 'not_staffed', note: 'Retired from service', actorId, source: 'staff' }, transaction);
+      await changeState(
+        deps,
+        { toolId: tool.id, state: 'non_scheduled', reason: 'not_staffed', note: 'Retired from service', actorId, source: 'staff' },
+        transaction,
+      );
       tool.retiredAt = new Date();
     } else if (retired === false && tool.retiredAt) {
       tool.retiredAt = null;
@@ -230,7 +278,14 @@ export async function updateTool(deps: AppDeps, id: number, input: ToolUpdateInp
 
 async function getToolForEditIn(id: number, transaction: Transaction) {
   const tool = await Tool.findByPk(id, { transaction });
-  const modules = await ToolModule.findAll({ where: { toolId: id }, order: [['sortOrder', 'ASC'], ['name', 'ASC']], transaction });
+  const modules = await ToolModule.findAll({
+    where: { toolId: id },
+    order: [
+      ['sortOrder', 'ASC'],
+      ['name', 'ASC'],
+    ],
+    transaction,
+  });
   return { ...presentTool(tool!), modules: modules.map(presentModule) };
 }
 
@@ -240,7 +295,10 @@ export async function createModule(deps: AppDeps, toolId: number, input: ModuleC
     if (!tool) throw notFound('Tool');
     if (tool.retiredAt) throw new AppError(409, 'tool_retired', 'This tool is retired; it takes no new modules.');
     const count = await ToolModule.count({ where: { toolId }, transaction });
-    const mod = await ToolModule.create({ toolId, name: input.name, code: input.code, sortOrder: input.sortOrder ?? count, retiredAt: null }, { transaction });
+    const mod = await ToolModule.create(
+      { toolId, name: input.name, code: input.code, sortOrder: input.sortOrder ?? count, retiredAt: null },
+      { transaction },
+    );
     await openInitialState(toolId, mod.id, new Date(), actorId, transaction);
     announce(deps, toolId, transaction);
     return presentModule(mod);
@@ -283,7 +341,10 @@ export async function getToolDetail(deps: AppDeps, code: string, viewerId: numbe
   const from = new Date(now.getTime() - 30 * DAY_MS);
   const [entries, people, follow, availability, setBy] = await Promise.all([
     loadBoardTools(deps.sequelize, { toolIds: [tool.id], includeRetired: true }),
-    User.findAll({ where: { id: [tool.primaryEngineerId, tool.backupEngineerId].filter((v): v is number => v !== null) }, attributes: ['id', 'name', 'email'] }),
+    User.findAll({
+      where: { id: [tool.primaryEngineerId, tool.backupEngineerId].filter((v): v is number => v !== null) },
+      attributes: ['id', 'name', 'email'],
+    }),
     ToolFollow.findOne({ where: { userId: viewerId, toolId: tool.id }, attributes: ['userId'] }),
     availabilityForPeriod(deps.sequelize, { from, to: now, toolIds: [tool.id] }),
     deps.sequelize.query<{ id: number; name: string }>(
@@ -349,7 +410,10 @@ export async function getToolHistory(deps: AppDeps, toolId: number, query: Histo
        LIMIT :limit OFFSET :offset`,
       { type: QueryTypes.SELECT, replacements },
     ),
-    deps.sequelize.query<{ n: number }>(`SELECT COUNT(*) AS n FROM state_intervals si WHERE si.tool_id = :toolId ${scope}`, { type: QueryTypes.SELECT, replacements }),
+    deps.sequelize.query<{ n: number }>(`SELECT COUNT(*) AS n FROM state_intervals si WHERE si.tool_id = :toolId ${scope}`, {
+      type: QueryTypes.SELECT,
+      replacements,
+    }),
   ]);
   return {
     items: rows.map((r) => ({
@@ -378,8 +442,12 @@ export async function getToolHistory(deps: AppDeps, toolId: number, query: Histo
 /** A technician's state change from the API: the request's words become the change. */
 export async function setToolState(deps: AppDeps, toolId: number, input: StateChangeInput, actorId: number) {
   if (input.ticketId) {
-    const [ticket] = await deps.sequelize.query<{ toolId: number }>('SELECT tool_id AS toolId FROM tickets WHERE id = :id', { type: QueryTypes.SELECT, replacements: { id: input.ticketId } });
-    if (!ticket || ticket.toolId !== toolId) throw badRequest('That ticket is not about this tool.', { ticketId: ['Choose a ticket about this tool.'] });
+    const [ticket] = await deps.sequelize.query<{ toolId: number }>('SELECT tool_id AS toolId FROM tickets WHERE id = :id', {
+      type: QueryTypes.SELECT,
+      replacements: { id: input.ticketId },
+    });
+    if (!ticket || ticket.toolId !== toolId)
+      throw badRequest('That ticket is not about this tool.', { ticketId: ['Choose a ticket about this tool.'] });
   }
   const result = await changeState(deps, {
     toolId,

@@ -20,20 +20,43 @@ export async function createNotices(deps: AppDeps, userIds: number[], notice: Ne
   const ids = [...new Set(userIds)];
   if (ids.length === 0) return;
   await Notice.bulkCreate(
-    ids.map((userId) => ({ userId, kind: notice.kind, title: notice.title.slice(0, 200), body: notice.body ?? null, link: notice.link ?? null, readAt: null })),
+    ids.map((userId) => ({
+      userId,
+      kind: notice.kind,
+      title: notice.title.slice(0, 200),
+      body: notice.body ?? null,
+      link: notice.link ?? null,
+      readAt: null,
+    })),
     { transaction: transaction ?? undefined },
   );
   deps.events.publish({ type: 'notice.created', audience: { users: ids }, payload: { kind: notice.kind } }, transaction);
 }
 
 function present(n: Notice): NoticeItem {
-  return { id: Number(n.id), kind: n.kind, title: n.title, body: n.body, link: n.link, readAt: n.readAt?.toISOString() ?? null, createdAt: n.createdAt.toISOString() };
+  return {
+    id: Number(n.id),
+    kind: n.kind,
+    title: n.title,
+    body: n.body,
+    link: n.link,
+    readAt: n.readAt?.toISOString() ?? null,
+    createdAt: n.createdAt.toISOString(),
+  };
 }
 
 export async function listNotices(userId: number, query: { unread?: boolean; limit: number; offset: number }): Promise<NoticePage> {
   const where = query.unread ? { userId, readAt: null } : { userId };
   const [{ rows, count }, unread] = await Promise.all([
-    Notice.findAndCountAll({ where, order: [['createdAt', 'DESC'], ['id', 'DESC']], limit: query.limit, offset: query.offset }),
+    Notice.findAndCountAll({
+      where,
+      order: [
+        ['createdAt', 'DESC'],
+        ['id', 'DESC'],
+      ],
+      limit: query.limit,
+      offset: query.offset,
+    }),
     Notice.count({ where: { userId, readAt: null } }),
   ]);
   return { items: rows.map(present), total: count, unread, limit: query.limit, offset: query.offset };

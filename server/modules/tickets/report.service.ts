@@ -18,7 +18,12 @@ const TITLE_MAX = 120;
 
 /** A one-line title from "what happened": its first line, cut at a word near 120 characters. */
 export function titleFrom(description: string): string {
-  const line = description.split(/\r?\n/).find((l) => l.trim())?.replace(/\s+/g, ' ').trim() ?? description.trim();
+  const line =
+    description
+      .split(/\r?\n/)
+      .find((l) => l.trim())
+      ?.replace(/\s+/g, ' ')
+      .trim() ?? description.trim();
   if (line.length <= TITLE_MAX) return line;
   const cut = line.slice(0, TITLE_MAX - 1);
   const space = cut.lastIndexOf(' ');
@@ -49,7 +54,11 @@ class AlreadySent extends Error {
   }
 }
 
-async function withStoredPhotos<T>(deps: AppDeps, files: readonly IncomingFile[], work: (stored: StoredPhoto[]) => Promise<T>): Promise<T | { id: number; duplicate: true }> {
+async function withStoredPhotos<T>(
+  deps: AppDeps,
+  files: readonly IncomingFile[],
+  work: (stored: StoredPhoto[]) => Promise<T>,
+): Promise<T | { id: number; duplicate: true }> {
   const stored = await storePhotos(deps.config, files);
   try {
     return await work(stored);
@@ -63,13 +72,43 @@ async function withStoredPhotos<T>(deps: AppDeps, files: readonly IncomingFile[]
 async function savePhotos(ticketId: number, eventId: number, uploaderId: number, stored: StoredPhoto[], transaction: Transaction) {
   if (stored.length === 0) return;
   await Photo.bulkCreate(
-    stored.map((p) => ({ ticketId, eventId, uploaderId, storedName: p.storedName, thumbName: p.thumbName, mime: p.mime, width: p.width, height: p.height, bytes: p.bytes })),
+    stored.map((p) => ({
+      ticketId,
+      eventId,
+      uploaderId,
+      storedName: p.storedName,
+      thumbName: p.thumbName,
+      mime: p.mime,
+      width: p.width,
+      height: p.height,
+      bytes: p.bytes,
+    })),
     { transaction },
   );
 }
 
-function reportFacts(input: { alarmText: string | null; impact: Impact | null; hazards: string[]; wafersCount: number; wafersOwner: string | null; wafersRecoverable: string | null; clientKey: string | null }, photos: number) {
-  return { alarmText: input.alarmText, impact: input.impact, hazards: input.hazards, wafersCount: input.wafersCount, wafersOwner: input.wafersOwner, wafersRecoverable: input.wafersRecoverable, photos, ...(input.clientKey ? { clientKey: input.clientKey } : {}) };
+function reportFacts(
+  input: {
+    alarmText: string | null;
+    impact: Impact | null;
+    hazards: string[];
+    wafersCount: number;
+    wafersOwner: string | null;
+    wafersRecoverable: string | null;
+    clientKey: string | null;
+  },
+  photos: number,
+) {
+  return {
+    alarmText: input.alarmText,
+    impact: input.impact,
+    hazards: input.hazards,
+    wafersCount: input.wafersCount,
+    wafersOwner: input.wafersOwner,
+    wafersRecoverable: input.wafersRecoverable,
+    photos,
+    ...(input.clientKey ? { clientKey: input.clientKey } : {}),
+  };
 }
 
 const RESEND_WINDOW_MS = 3 * 24 * 60 * 60_000;
@@ -79,7 +118,14 @@ const RESEND_WINDOW_MS = 3 * 24 * 60 * 60_000;
  * key with other words is not a resend but a second browser tab that held the same draft:
  * refused, so that tab keeps its words instead of being thanked for the other tab's ticket.
  */
-async function alreadySent(deps: AppDeps, userId: number, clientKey: string | null, description: string, kind: 'reported' | 'added_report', transaction: Transaction): Promise<number | null> {
+async function alreadySent(
+  deps: AppDeps,
+  userId: number,
+  clientKey: string | null,
+  description: string,
+  kind: 'reported' | 'added_report',
+  transaction: Transaction,
+): Promise<number | null> {
   if (!clientKey) return null;
   const rows = await deps.sequelize.query<{ ticketId: number; body: string | null }>(
     `SELECT e.ticket_id AS ticketId, e.body FROM ticket_events e
@@ -90,7 +136,11 @@ async function alreadySent(deps: AppDeps, userId: number, clientKey: string | nu
   if (!rows.length) return null;
   const ticketId = Number(rows[0].ticketId);
   if ((rows[0].body ?? '') !== description) {
-    throw new AppError(409, 'draft_sent_elsewhere', `This draft was already sent from another tab or window as ticket #${ticketId}, with other words. Yours are kept here: send them as a new report if they describe something else.`);
+    throw new AppError(
+      409,
+      'draft_sent_elsewhere',
+      `This draft was already sent from another tab or window as ticket #${ticketId}, with other words. Yours are kept here: send them as a new report if they describe something else.`,
+    );
   }
   return ticketId;
 }
@@ -105,9 +155,21 @@ export async function createReport(deps: AppDeps, user: AuthUser, input: ReportD
       if (!locked || locked.retiredAt) throw badRequest('That tool cannot take reports.', { toolId: ['Unknown or retired tool.'] });
       const earlier = await alreadySent(deps, user.id, input.clientKey, input.description, 'reported', transaction);
       if (earlier) throw new AlreadySent(earlier);
-      const priority = computePriority({ impact: input.impact, hazards: input.hazards, wafersAtRisk: input.wafersCount, wafersKnownSafe: input.wafersRecoverable === 'yes', criticality: locked.criticality });
-      const engineers = await User.findAll({ where: { id: [locked.primaryEngineerId, locked.backupEngineerId].filter((x): x is number => x !== null), active: true }, transaction });
-      const assignee = engineers.find((u) => u.id === locked.primaryEngineerId && isStaff(u.role)) ?? engineers.find((u) => u.id === locked.backupEngineerId && isStaff(u.role)) ?? null;
+      const priority = computePriority({
+        impact: input.impact,
+        hazards: input.hazards,
+        wafersAtRisk: input.wafersCount,
+        wafersKnownSafe: input.wafersRecoverable === 'yes',
+        criticality: locked.criticality,
+      });
+      const engineers = await User.findAll({
+        where: { id: [locked.primaryEngineerId, locked.backupEngineerId].filter((x): x is number => x !== null), active: true },
+        transaction,
+      });
+      const assignee =
+        engineers.find((u) => u.id === locked.primaryEngineerId && isStaff(u.role)) ??
+        engineers.find((u) => u.id === locked.backupEngineerId && isStaff(u.role)) ??
+        null;
 
       const ticket = await Ticket.create(
         {
@@ -133,18 +195,45 @@ export async function createReport(deps: AppDeps, user: AuthUser, input: ReportD
         ticket.id,
         user.id,
         'reported',
-        { body: input.description, data: { ...reportFacts(input, stored.length), category: input.category, moduleId: input.moduleId, priority: priority.priority, priorityReasons: priority.reasons } },
+        {
+          body: input.description,
+          data: {
+            ...reportFacts(input, stored.length),
+            category: input.category,
+            moduleId: input.moduleId,
+            priority: priority.priority,
+            priorityReasons: priority.reasons,
+          },
+        },
         transaction,
       );
       await savePhotos(ticket.id, Number(event.id), user.id, stored, transaction);
-      if (assignee) await appendEvent(ticket.id, null, 'assignment', { data: { from: null, to: { id: assignee.id, name: assignee.name }, automatic: true } }, transaction);
+      if (assignee)
+        await appendEvent(
+          ticket.id,
+          null,
+          'assignment',
+          { data: { from: null, to: { id: assignee.id, name: assignee.name }, automatic: true } },
+          transaction,
+        );
       if (input.impact === 'tool_stopped') await applyStoppedReport(deps, ticket, locked, input.moduleId, user.id, transaction);
       else if (input.impact === 'tool_limited') await applyLimitedReport(deps, ticket, locked, input.moduleId, user.id, transaction);
 
       const where = `${locked.name} (${locked.code})`;
       let alreadyTold: number[] = [];
       if (input.hazards.length > 0) {
-        alreadyTold = await notifyOnCall(deps, { ticketId: ticket.id, toolName: locked.name, toolCode: locked.code, hazards: input.hazards, description: input.description, exceptUserId: user.id }, transaction);
+        alreadyTold = await notifyOnCall(
+          deps,
+          {
+            ticketId: ticket.id,
+            toolName: locked.name,
+            toolCode: locked.code,
+            hazards: input.hazards,
+            description: input.description,
+            exceptUserId: user.id,
+          },
+          transaction,
+        );
       }
       await notifyUsers(
         deps,
@@ -177,7 +266,8 @@ export async function createReport(deps: AppDeps, user: AuthUser, input: ReportD
 export async function addReport(deps: AppDeps, user: AuthUser, ticketId: number, input: AddReportData, files: readonly IncomingFile[]) {
   const existing = await findTicket(ticketId);
   if (!isOpenStatus(existing.status)) {
-    if (existing.status === 'merged') throw new AppError(409, 'ticket_merged', `This ticket was merged into #${existing.mergedIntoId}; add your report there.`);
+    if (existing.status === 'merged')
+      throw new AppError(409, 'ticket_merged', `This ticket was merged into #${existing.mergedIntoId}; add your report there.`);
     throw new AppError(409, 'ticket_not_open', 'This ticket is no longer open. Report the problem as a new one, or reopen this ticket.');
   }
   return withStoredPhotos(deps, files, (stored) =>
@@ -186,9 +276,16 @@ export async function addReport(deps: AppDeps, user: AuthUser, ticketId: number,
       const ticket = await Ticket.findByPk(ticketId, { transaction, lock: transaction.LOCK.UPDATE });
       const earlier = await alreadySent(deps, user.id, input.clientKey, input.description, 'added_report', transaction);
       if (earlier) throw new AlreadySent(earlier);
-      if (!tool || !ticket || !isOpenStatus(ticket.status)) throw new AppError(409, 'ticket_not_open', 'This ticket closed in the meantime. Report the problem as a new one.');
+      if (!tool || !ticket || !isOpenStatus(ticket.status))
+        throw new AppError(409, 'ticket_not_open', 'This ticket closed in the meantime. Report the problem as a new one.');
 
-      const event = await appendEvent(ticket.id, user.id, 'added_report', { body: input.description, data: reportFacts(input, stored.length) }, transaction);
+      const event = await appendEvent(
+        ticket.id,
+        user.id,
+        'added_report',
+        { body: input.description, data: reportFacts(input, stored.length) },
+        transaction,
+      );
       await savePhotos(ticket.id, Number(event.id), user.id, stored, transaction);
 
       // The ticket takes the worst of what everyone saw.
@@ -201,14 +298,43 @@ export async function addReport(deps: AppDeps, user: AuthUser, ticketId: number,
         ticket.impact = impact;
         ticket.wafersCount = wafers;
         if (!ticket.priorityOverridden) {
-          ticket.priority = computePriority({ impact, hazards: ticket.hazards, wafersAtRisk: wafers, wafersKnownSafe: ticket.wafersRecoverable === 'yes', criticality: tool.criticality }).priority;
+          ticket.priority = computePriority({
+            impact,
+            hazards: ticket.hazards,
+            wafersAtRisk: wafers,
+            wafersKnownSafe: ticket.wafersRecoverable === 'yes',
+            criticality: tool.criticality,
+          }).priority;
         }
         await ticket.save({ transaction });
-        await appendEvent(ticket.id, null, 'facts_changed', { data: { from: before, to: { priority: ticket.priority, impact, hazards: ticket.hazards, wafersCount: wafers }, cause: 'added_report' } }, transaction);
+        await appendEvent(
+          ticket.id,
+          null,
+          'facts_changed',
+          {
+            data: {
+              from: before,
+              to: { priority: ticket.priority, impact, hazards: ticket.hazards, wafersCount: wafers },
+              cause: 'added_report',
+            },
+          },
+          transaction,
+        );
       }
       if (input.impact === 'tool_stopped') await applyStoppedReport(deps, ticket, tool, ticket.moduleId, user.id, transaction);
       if (newHazards.length) {
-        await notifyOnCall(deps, { ticketId: ticket.id, toolName: tool.name, toolCode: tool.code, hazards: newHazards, description: input.description, exceptUserId: user.id }, transaction);
+        await notifyOnCall(
+          deps,
+          {
+            ticketId: ticket.id,
+            toolName: tool.name,
+            toolCode: tool.code,
+            hazards: newHazards,
+            description: input.description,
+            exceptUserId: user.id,
+          },
+          transaction,
+        );
       }
       const staffToTell = ticket.assigneeId ? [ticket.assigneeId] : [tool.primaryEngineerId, tool.backupEngineerId];
       await notifyUsers(
@@ -234,8 +360,15 @@ export async function addComment(deps: AppDeps, user: AuthUser, ticketId: number
   return deps.sequelize.transaction(async (transaction) => {
     const ticket = await Ticket.findByPk(ticketId, { transaction });
     if (!ticket) throw new AppError(404, 'not_found', 'That ticket was not found.');
-    if (ticket.status === 'merged') throw new AppError(409, 'ticket_merged', `This ticket was merged into #${ticket.mergedIntoId}; write there.`);
-    const event = await appendEvent(ticket.id, user.id, input.internal ? 'note' : 'reply', { body: input.body, internal: input.internal }, transaction);
+    if (ticket.status === 'merged')
+      throw new AppError(409, 'ticket_merged', `This ticket was merged into #${ticket.mergedIntoId}; write there.`);
+    const event = await appendEvent(
+      ticket.id,
+      user.id,
+      input.internal ? 'note' : 'reply',
+      { body: input.body, internal: input.internal },
+      transaction,
+    );
     if (input.internal) {
       // Staff-only: the announcement itself must not reach members' sockets.
       deps.events.publish({ type: 'ticket.updated', audience: 'staff', payload: { id: ticket.id, toolId: ticket.toolId } }, transaction);
@@ -244,7 +377,14 @@ export async function addComment(deps: AppDeps, user: AuthUser, ticketId: number
       const recipients = isStaff(user.role) ? followers : [...followers, ticket.assigneeId];
       await notifyUsers(
         deps,
-        { userIds: recipients, exceptUserId: user.id, kind: 'ticket.reply', title: `[#${ticket.id}] New reply: ${ticket.title}`, text: `${user.name} wrote:\n\n${input.body}`, ticketId: ticket.id },
+        {
+          userIds: recipients,
+          exceptUserId: user.id,
+          kind: 'ticket.reply',
+          title: `[#${ticket.id}] New reply: ${ticket.title}`,
+          text: `${user.name} wrote:\n\n${input.body}`,
+          ticketId: ticket.id,
+        },
         transaction,
       );
       deps.events.publish({ type: 'ticket.updated', audience: 'all', payload: { id: ticket.id, toolId: ticket.toolId } }, transaction);

@@ -4,7 +4,12 @@ import type { Priority } from '../../../shared/priority';
 import { listServiceTargets } from './ticket-query.service';
 
 /** Replaces the targets of one priority; open tickets' timers follow at their next read. */
-export async function updateServiceTarget(deps: AppDeps, user: AuthUser, priority: Priority, input: { acknowledgeMinutes: number; restoreMinutes: number }) {
+export async function updateServiceTarget(
+  deps: AppDeps,
+  user: AuthUser,
+  priority: Priority,
+  input: { acknowledgeMinutes: number; restoreMinutes: number },
+) {
   await deps.sequelize.transaction(async (transaction) => {
     const row = await ServiceTarget.findByPk(priority, { transaction, lock: transaction.LOCK.UPDATE });
     if (row) await row.update(input, { transaction });

@@ -14,7 +14,15 @@ export function appendEvent(
   transaction: Transaction,
 ) {
   return TicketEvent.create(
-    { ticketId, actorId, kind, internal: opts.internal ?? false, body: opts.body ?? null, data: opts.data ?? null, ...(opts.at ? { createdAt: opts.at } : {}) },
+    {
+      ticketId,
+      actorId,
+      kind,
+      internal: opts.internal ?? false,
+      body: opts.body ?? null,
+      data: opts.data ?? null,
+      ...(opts.at ? { createdAt: opts.at } : {}),
+    },
     { transaction },
   );
 }
@@ -40,7 +48,13 @@ export interface StateStep {
  * Changes a tool or module state on behalf of a ticket (through the facility's changeState,
  * which logs the interval and tells the board) and records the step in the ticket's timeline.
  */
-export async function changeStateForTicket(deps: AppDeps, ticket: Ticket, actorId: number | null, step: StateStep, transaction: Transaction) {
+export async function changeStateForTicket(
+  deps: AppDeps,
+  ticket: Ticket,
+  actorId: number | null,
+  step: StateStep,
+  transaction: Transaction,
+) {
   const { previous, current } = await changeState(
     deps,
     {
@@ -82,16 +96,46 @@ export async function changeStateForTicket(deps: AppDeps, ticket: Ticket, actorI
  * "Tool stopped" takes the tool (or the module) down at once, marked as a user's report and
  * unconfirmed. If it is already down, nothing changes and the timeline says why.
  */
-export async function applyStoppedReport(deps: AppDeps, ticket: Ticket, tool: Tool, moduleId: number | null, actorId: number, transaction: Transaction) {
+export async function applyStoppedReport(
+  deps: AppDeps,
+  ticket: Ticket,
+  tool: Tool,
+  moduleId: number | null,
+  actorId: number,
+  transaction: Transaction,
+) {
   const toolOpen = await openInterval(tool.id, null, transaction);
   const targetOpen = moduleId === null ? toolOpen : await openInterval(tool.id, moduleId, transaction);
   const alreadyDown = toolOpen?.state === 'unscheduled_downtime' || targetOpen?.state === 'unscheduled_downtime';
   if (alreadyDown) {
     const state = (toolOpen?.state === 'unscheduled_downtime' ? toolOpen : targetOpen)!;
-    await appendEvent(ticket.id, null, 'tool_state_unchanged', { data: { moduleId: state.moduleId, state: state.state, since: state.startedAt.toISOString(), byTicketId: state.ticketId }, body: `Already ${E10_LABELS[state.state].toLowerCase()}; the state was left as it is.` }, transaction);
+    await appendEvent(
+      ticket.id,
+      null,
+      'tool_state_unchanged',
+      {
+        data: { moduleId: state.moduleId, state: state.state, since: state.startedAt.toISOString(), byTicketId: state.ticketId },
+        body: `Already ${E10_LABELS[state.state].toLowerCase()}; the state was left as it is.`,
+      },
+      transaction,
+    );
     return false;
   }
-  await changeStateForTicket(deps, ticket, actorId, { toolId: tool.id, moduleId, state: 'unscheduled_downtime', reason: 'repair', note: `Reported by a user: ${ticket.title}`.slice(0, 500), source: 'user_report', confirmed: false }, transaction);
+  await changeStateForTicket(
+    deps,
+    ticket,
+    actorId,
+    {
+      toolId: tool.id,
+      moduleId,
+      state: 'unscheduled_downtime',
+      reason: 'repair',
+      note: `Reported by a user: ${ticket.title}`.slice(0, 500),
+      source: 'user_report',
+      confirmed: false,
+    },
+    transaction,
+  );
   return true;
 }
 
@@ -101,20 +145,61 @@ export async function applyStoppedReport(deps: AppDeps, ticket: Ticket, tool: To
  * on its running state. A tool that is already not running, or already limited, is left
  * as it is and the timeline says why.
  */
-export async function applyLimitedReport(deps: AppDeps, ticket: Ticket, tool: Tool, moduleId: number | null, actorId: number, transaction: Transaction) {
+export async function applyLimitedReport(
+  deps: AppDeps,
+  ticket: Ticket,
+  tool: Tool,
+  moduleId: number | null,
+  actorId: number,
+  transaction: Transaction,
+) {
   if (moduleId !== null) return applyStoppedReport(deps, ticket, tool, moduleId, actorId, transaction);
   const open = await openInterval(tool.id, null, transaction);
   if (!open || boardStatusOf(open.state) !== 'running' || open.restriction) {
-    const body = open?.restriction ? 'Already limited; the state was left as it is.' : `Already ${E10_LABELS[open?.state ?? 'standby'].toLowerCase()}; the state was left as it is.`;
-    await appendEvent(ticket.id, null, 'tool_state_unchanged', { data: { moduleId: null, state: open?.state ?? null, since: open?.startedAt.toISOString() ?? null, byTicketId: open?.ticketId ?? null }, body }, transaction);
+    const body = open?.restriction
+      ? 'Already limited; the state was left as it is.'
+      : `Already ${E10_LABELS[open?.state ?? 'standby'].toLowerCase()}; the state was left as it is.`;
+    await appendEvent(
+      ticket.id,
+      null,
+      'tool_state_unchanged',
+      {
+        data: {
+          moduleId: null,
+          state: open?.state ?? null,
+          since: open?.startedAt.toISOString() ?? null,
+          byTicketId: open?.ticketId ?? null,
+        },
+        body,
+      },
+      transaction,
+    );
     return false;
   }
   const restriction = `Reported by a user: ${ticket.title}`.slice(0, 200);
-  await changeStateForTicket(deps, ticket, actorId, { toolId: tool.id, moduleId: null, state: open.state, reason: open.reason, note: restriction, restriction, source: 'user_report', confirmed: false }, transaction);
+  await changeStateForTicket(
+    deps,
+    ticket,
+    actorId,
+    {
+      toolId: tool.id,
+      moduleId: null,
+      state: open.state,
+      reason: open.reason,
+      note: restriction,
+      restriction,
+      source: 'user_report',
+      confirmed: false,
+    },
+    transaction,
+  );
   return true;
 }
 
 /** Open intervals this ticket holds down or limited (tool and modules). */
 export async function intervalsHeldBy(ticketId: number, transaction: Transaction) {
-  return StateInterval.findAll({ where: { ticketId, endedAt: null, [Op.or]: [{ state: 'unscheduled_downtime' }, { restriction: { [Op.ne]: null } }] }, transaction });
+  return StateInterval.findAll({
+    where: { ticketId, endedAt: null, [Op.or]: [{ state: 'unscheduled_downtime' }, { restriction: { [Op.ne]: null } }] },
+    transaction,
+  });
 }

@@ -35,22 +35,42 @@ export async function notifyUsers(deps: AppDeps, n: Notification, transaction: T
       subject: n.title,
       text: `Hello ${u.name},\n\n${n.text}\n\nOpen the ticket: ${link}\n\n— Faultline`,
       // A burst of updates on one ticket reaches each person as one mail; safety mail never waits.
-      fold: n.kind === 'ticket.hazard' || n.kind === 'ticket.created' ? undefined : { key: `ticket:${n.ticketId}:user:${u.id}`, ms: deps.config.MAIL_FOLD_MS },
+      fold:
+        n.kind === 'ticket.hazard' || n.kind === 'ticket.created'
+          ? undefined
+          : { key: `ticket:${n.ticketId}:user:${u.id}`, ms: deps.config.MAIL_FOLD_MS },
     })),
     transaction,
   );
   await Notice.bulkCreate(
-    users.map((u) => ({ userId: u.id, kind: n.kind, title: n.title.slice(0, 200), body: n.text, link: `/tickets/${n.ticketId}`, readAt: null })),
+    users.map((u) => ({
+      userId: u.id,
+      kind: n.kind,
+      title: n.title.slice(0, 200),
+      body: n.text,
+      link: `/tickets/${n.ticketId}`,
+      readAt: null,
+    })),
     { transaction },
   );
-  deps.events.publish({ type: 'notice.created', audience: { users: users.map((u) => u.id) }, payload: { kind: n.kind, ticketId: n.ticketId } }, transaction);
+  deps.events.publish(
+    { type: 'notice.created', audience: { users: users.map((u) => u.id) }, payload: { kind: n.kind, ticketId: n.ticketId } },
+    transaction,
+  );
   return users.map((u) => u.id);
 }
 
 /** A hazard goes to everyone on call at once, with the cautions for what was named in the message. */
 export async function notifyOnCall(
   deps: AppDeps,
-  input: { ticketId: number; toolName: string; toolCode: string; hazards: readonly Hazard[]; description: string; exceptUserId?: number | null },
+  input: {
+    ticketId: number;
+    toolName: string;
+    toolCode: string;
+    hazards: readonly Hazard[];
+    description: string;
+    exceptUserId?: number | null;
+  },
   transaction: Transaction,
 ) {
   const onCall = await User.findAll({ where: { onCall: true, active: true }, attributes: ['id'], transaction });

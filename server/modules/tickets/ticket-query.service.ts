@@ -6,9 +6,27 @@ import { notFound } from '../../lib/errors';
 import type { AppDeps, AuthUser } from '../../lib/http';
 import { isStaff } from '../../../shared/roles';
 import { OPEN_STATUSES, RESOLVED_STATUSES, allowedActions, isOpenStatus } from '../../../shared/ticket-workflow';
-import { PRIORITIES, SERVICE_TARGET_DEFAULTS, computePriority, targetStatus, type Priority, type ServiceTarget as Target } from '../../../shared/priority';
+import {
+  PRIORITIES,
+  SERVICE_TARGET_DEFAULTS,
+  computePriority,
+  targetStatus,
+  type Priority,
+  type ServiceTarget as Target,
+} from '../../../shared/priority';
 import type { TicketCategory } from '../../../shared/report-options';
-import type { TicketDetail, TicketEventView, TicketList, TicketSummary, TicketTargets, TargetClock, PhotoView, ServiceTargetView, ToolStateView, ticketListQuerySchema } from '../../../shared/schemas/tickets';
+import type {
+  TicketDetail,
+  TicketEventView,
+  TicketList,
+  TicketSummary,
+  TicketTargets,
+  TargetClock,
+  PhotoView,
+  ServiceTargetView,
+  ToolStateView,
+  ticketListQuerySchema,
+} from '../../../shared/schemas/tickets';
 import type { z } from 'zod';
 import { searchKey, sqlSearchKey } from '../../../shared/search';
 
@@ -16,7 +34,12 @@ const person = (u: User | null | undefined) => (u ? { id: u.id, name: u.name } :
 const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
 
 export const summaryIncludes = (): Includeable[] => [
-  { model: Tool, as: 'tool', attributes: ['id', 'code', 'name', 'areaId', 'criticality', 'primaryEngineerId', 'backupEngineerId'], include: [{ model: Area, as: 'area', attributes: ['id', 'name'] }] },
+  {
+    model: Tool,
+    as: 'tool',
+    attributes: ['id', 'code', 'name', 'areaId', 'criticality', 'primaryEngineerId', 'backupEngineerId'],
+    include: [{ model: Area, as: 'area', attributes: ['id', 'name'] }],
+  },
   { model: ToolModule, as: 'module', attributes: ['id', 'code', 'name'] },
   { model: User, as: 'reporter', attributes: ['id', 'name'] },
   { model: User, as: 'assignee', attributes: ['id', 'name'] },
@@ -39,14 +62,24 @@ export async function listServiceTargets(): Promise<ServiceTargetView[]> {
   return PRIORITIES.map((p) => {
     const row = byPriority.get(p);
     const values = row ?? SERVICE_TARGET_DEFAULTS[p];
-    return { priority: p, acknowledgeMinutes: values.acknowledgeMinutes, restoreMinutes: values.restoreMinutes, updatedAt: iso(row?.updatedAt) ?? new Date(0).toISOString() };
+    return {
+      priority: p,
+      acknowledgeMinutes: values.acknowledgeMinutes,
+      restoreMinutes: values.restoreMinutes,
+      updatedAt: iso(row?.updatedAt) ?? new Date(0).toISOString(),
+    };
   });
 }
 
 function clock(createdAt: Date, minutes: number, doneAt: Date | null, now: Date): TargetClock {
   const end = doneAt ?? now;
   const elapsed = (end.getTime() - createdAt.getTime()) / 60_000;
-  return { targetMinutes: minutes, dueAt: new Date(createdAt.getTime() + minutes * 60_000).toISOString(), doneAt: iso(doneAt), status: targetStatus(Math.max(0, elapsed), minutes) };
+  return {
+    targetMinutes: minutes,
+    dueAt: new Date(createdAt.getTime() + minutes * 60_000).toISOString(),
+    doneAt: iso(doneAt),
+    status: targetStatus(Math.max(0, elapsed), minutes),
+  };
 }
 
 /**
@@ -72,7 +105,13 @@ export function toSummary(t: WithIncludes, table: TargetTable, now = new Date())
     impact: t.impact,
     hazards: t.hazards ?? [],
     waitReason: t.waitReason,
-    tool: { id: t.toolId, code: t.tool?.code ?? '', name: t.tool?.name ?? '', areaId: t.tool?.areaId ?? 0, areaName: t.tool?.area?.name ?? null },
+    tool: {
+      id: t.toolId,
+      code: t.tool?.code ?? '',
+      name: t.tool?.name ?? '',
+      areaId: t.tool?.areaId ?? 0,
+      areaName: t.tool?.area?.name ?? null,
+    },
     module: t.module ? { id: t.module.id, code: t.module.code, name: t.module.name } : null,
     reporter: person(t.reporter),
     assignee: person(t.assignee),
@@ -121,7 +160,13 @@ export async function listTickets(deps: AppDeps, user: AuthUser, q: ListQuery): 
           ['createdAt', 'DESC'],
           ['id', 'DESC'],
         ];
-  const { rows, count } = await Ticket.findAndCountAll({ where: { [Op.and]: and }, include: summaryIncludes(), order, limit: q.limit, offset: q.offset });
+  const { rows, count } = await Ticket.findAndCountAll({
+    where: { [Op.and]: and },
+    include: summaryIncludes(),
+    order,
+    limit: q.limit,
+    offset: q.offset,
+  });
   const table = await loadServiceTargets();
   const now = new Date();
   return { items: rows.map((r) => toSummary(r as WithIncludes, table, now)), total: count, limit: q.limit, offset: q.offset };
@@ -134,7 +179,14 @@ export async function findTicket(id: number, transaction?: Transaction): Promise
 }
 
 function photoView(p: Photo & { uploader?: User | null }): PhotoView {
-  return { id: p.id, url: `/api/photos/${p.id}`, thumbUrl: `/api/photos/${p.id}/thumb`, width: p.width, height: p.height, uploader: person(p.uploader) };
+  return {
+    id: p.id,
+    url: `/api/photos/${p.id}`,
+    thumbUrl: `/api/photos/${p.id}/thumb`,
+    width: p.width,
+    height: p.height,
+    uploader: person(p.uploader),
+  };
 }
 
 export async function openToolStates(toolId: number, transaction?: Transaction): Promise<ToolStateView[]> {
@@ -191,7 +243,14 @@ export async function getTicketDetail(deps: AppDeps, user: AuthUser, id: number)
     };
   });
 
-  const modules = await ToolModule.findAll({ where: { toolId: t.toolId, retiredAt: null }, order: [['sortOrder', 'ASC'], ['id', 'ASC']], attributes: ['id', 'code', 'name'] });
+  const modules = await ToolModule.findAll({
+    where: { toolId: t.toolId, retiredAt: null },
+    order: [
+      ['sortOrder', 'ASC'],
+      ['id', 'ASC'],
+    ],
+    attributes: ['id', 'code', 'name'],
+  });
   const toolStates = await openToolStates(t.toolId);
   const table = await loadServiceTargets();
   const isReporter = t.reporterId === user.id;
@@ -203,9 +262,16 @@ export async function getTicketDetail(deps: AppDeps, user: AuthUser, id: number)
     actions.push('note');
     if (isOpenStatus(t.status)) actions.push('assign', 'set_priority');
     if (t.status !== 'merged') actions.push('set_state');
-    if (toolStates.some((s) => s.ticketId === t.id && s.source === 'user_report' && !s.confirmed)) actions.push('confirm_down', 'revert_down');
+    if (toolStates.some((s) => s.ticketId === t.id && s.source === 'user_report' && !s.confirmed))
+      actions.push('confirm_down', 'revert_down');
   }
-  const priority = computePriority({ impact: t.impact, hazards: t.hazards ?? [], wafersAtRisk: t.wafersCount, wafersKnownSafe: t.wafersRecoverable === 'yes', criticality: t.tool?.criticality ?? 'normal' });
+  const priority = computePriority({
+    impact: t.impact,
+    hazards: t.hazards ?? [],
+    wafersAtRisk: t.wafersCount,
+    wafersKnownSafe: t.wafersRecoverable === 'yes',
+    criticality: t.tool?.criticality ?? 'normal',
+  });
 
   return {
     ...toSummary(t, table),
@@ -248,7 +314,11 @@ export async function findVisiblePhoto(user: AuthUser, id: number) {
 /** Staff who can be assigned, for the assignee picker. */
 export async function listStaff(q: { search?: string; limit: number }) {
   const users = await User.findAll({
-    where: { active: true, role: { [Op.ne]: 'member' }, ...(q.search ? { name: { [Op.like]: `%${q.search.replace(/[%_\\]/g, (c) => `\\${c}`)}%` } } : {}) },
+    where: {
+      active: true,
+      role: { [Op.ne]: 'member' },
+      ...(q.search ? { name: { [Op.like]: `%${q.search.replace(/[%_\\]/g, (c) => `\\${c}`)}%` } } : {}),
+    },
     attributes: ['id', 'name', 'role'],
     order: [['name', 'ASC']],
     limit: q.limit,
@@ -273,9 +343,22 @@ export async function listToolChoices(query: { q?: string; code?: string; id?: n
         }
       : {}),
   };
-  const tools = await Tool.findAll({ where, include: [{ model: Area, as: 'area', attributes: ['id', 'name'] }], attributes: ['id', 'code', 'name', 'areaId'], order: [['name', 'ASC']], limit: query.limit });
+  const tools = await Tool.findAll({
+    where,
+    include: [{ model: Area, as: 'area', attributes: ['id', 'name'] }],
+    attributes: ['id', 'code', 'name', 'areaId'],
+    order: [['name', 'ASC']],
+    limit: query.limit,
+  });
   const modules = tools.length
-    ? await ToolModule.findAll({ where: { toolId: tools.map((t) => t.id), retiredAt: null }, order: [['sortOrder', 'ASC'], ['id', 'ASC']], attributes: ['id', 'toolId', 'code', 'name'] })
+    ? await ToolModule.findAll({
+        where: { toolId: tools.map((t) => t.id), retiredAt: null },
+        order: [
+          ['sortOrder', 'ASC'],
+          ['id', 'ASC'],
+        ],
+        attributes: ['id', 'toolId', 'code', 'name'],
+      })
     : [];
   return {
     items: tools.map((t) => ({

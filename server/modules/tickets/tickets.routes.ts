@@ -51,7 +51,8 @@ export function ticketRoutes(log: Logger): RouteSpec[] {
       access: 'member',
       summary: 'Tickets, filtered and paginated in SQL (the queue, my reports, a tool’s tickets)',
       query: ticketListQuerySchema,
-      handle: async ({ deps, user, query }) => listTickets(deps, user!, (await limitedToOwnReports(deps, user!)) ? { ...query, reportedByMe: true } : query),
+      handle: async ({ deps, user, query }) =>
+        listTickets(deps, user!, (await limitedToOwnReports(deps, user!)) ? { ...query, reportedByMe: true } : query),
     }),
     route({
       method: 'post',

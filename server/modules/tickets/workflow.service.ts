@@ -17,7 +17,11 @@ import { STAFF_ONLY_ACTIONS, type TicketActionData } from '../../../shared/schem
 /** The client saved on top of a version someone else already changed. */
 export class StaleTicketError extends AppError {
   constructor(readonly ticketId: number) {
-    super(409, 'stale_version', 'Someone else changed this ticket while you had it open. Look at what changed, then apply your change again if it still makes sense.');
+    super(
+      409,
+      'stale_version',
+      'Someone else changed this ticket while you had it open. Look at what changed, then apply your change again if it still makes sense.',
+    );
   }
 }
 
@@ -36,7 +40,8 @@ function checkPermission(user: AuthUser, ticket: Ticket, action: TicketActionDat
   if ((STAFF_ONLY_ACTIONS as readonly string[]).includes(action)) {
     if (!isStaff(user.role)) throw forbidden('Only technicians, managers and admins can do this.');
     if (ticket.status === 'merged') throw new AppError(409, 'ticket_merged', `This ticket was merged into #${ticket.mergedIntoId}.`);
-    if ((action === 'assign' || action === 'set_priority') && !isOpenStatus(ticket.status)) throw new AppError(409, 'ticket_not_open', 'This ticket is no longer open.');
+    if ((action === 'assign' || action === 'set_priority') && !isOpenStatus(ticket.status))
+      throw new AppError(409, 'ticket_not_open', 'This ticket is no longer open.');
     return;
   }
   if (!isWorkflowAction(action)) throw badRequest('Unknown action.');
@@ -44,7 +49,12 @@ function checkPermission(user: AuthUser, ticket: Ticket, action: TicketActionDat
   if (!hasRole(user.role, rule.minimumRole)) {
     throw forbidden(`Only technicians, managers and admins can ${rule.label.toLowerCase()} a ticket.`);
   }
-  const result = canPerform(action, ticket.status, { role: user.role, isReporter: ticket.reporterId === user.id, now: new Date(), resolvedAt: ticket.resolvedAt });
+  const result = canPerform(action, ticket.status, {
+    role: user.role,
+    isReporter: ticket.reporterId === user.id,
+    now: new Date(),
+    resolvedAt: ticket.resolvedAt,
+  });
   if (result.ok) return;
   if (!rule.from.includes(ticket.status)) throw new AppError(409, 'invalid_transition', result.reason);
   throw forbidden(result.reason);
@@ -56,18 +66,47 @@ function checkPermission(user: AuthUser, ticket: Ticket, action: TicketActionDat
  * shows. A note belongs to the reason it was written for, so a new reason brings its own note
  * (the wait's note, or none) instead of keeping words like "waiting for a gauge" after a resume.
  */
-async function syncDowntimeReason(deps: AppDeps, ticket: Ticket, actorId: number, reason: StateReason, transaction: Transaction, note: string | null = null, expectedReturnAt?: Date | null) {
+async function syncDowntimeReason(
+  deps: AppDeps,
+  ticket: Ticket,
+  actorId: number,
+  reason: StateReason,
+  transaction: Transaction,
+  note: string | null = null,
+  expectedReturnAt?: Date | null,
+) {
   for (const held of await intervalsHeldBy(ticket.id, transaction)) {
     // A limited (restricted, still running) interval keeps its running reason.
     if (held.state !== 'unscheduled_downtime' || held.reason === reason) continue;
-    await changeStateForTicket(deps, ticket, actorId, { toolId: held.toolId, moduleId: held.moduleId, state: 'unscheduled_downtime', reason, note, expectedReturnAt: expectedReturnAt ?? held.expectedReturnAt, source: held.source === 'user_report' ? 'user_report' : 'staff', confirmed: held.confirmed }, transaction);
+    await changeStateForTicket(
+      deps,
+      ticket,
+      actorId,
+      {
+        toolId: held.toolId,
+        moduleId: held.moduleId,
+        state: 'unscheduled_downtime',
+        reason,
+        note,
+        expectedReturnAt: expectedReturnAt ?? held.expectedReturnAt,
+        source: held.source === 'user_report' ? 'user_report' : 'staff',
+        confirmed: held.confirmed,
+      },
+      transaction,
+    );
   }
 }
 
 async function assignIfNobody(ticket: Ticket, user: AuthUser, transaction: Transaction) {
   if (ticket.assigneeId !== null) return;
   ticket.assigneeId = user.id;
-  await appendEvent(ticket.id, user.id, 'assignment', { data: { from: null, to: { id: user.id, name: user.name }, automatic: true } }, transaction);
+  await appendEvent(
+    ticket.id,
+    user.id,
+    'assignment',
+    { data: { from: null, to: { id: user.id, name: user.name }, automatic: true } },
+    transaction,
+  );
 }
 
 const STATUS_MAIL: Partial<Record<string, string>> = {
@@ -112,7 +151,15 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
         ticket.waitReason = input.waitReason;
         statusNote = input.note;
         statusData = { waitReason: input.waitReason, expectedReturnAt: input.expectedReturnAt?.toISOString() ?? null };
-        await syncDowntimeReason(deps, ticket, user.id, WAIT_STATE_REASON[input.waitReason], transaction, input.note, input.expectedReturnAt);
+        await syncDowntimeReason(
+          deps,
+          ticket,
+          user.id,
+          WAIT_STATE_REASON[input.waitReason],
+          transaction,
+          input.note,
+          input.expectedReturnAt,
+        );
         break;
       case 'resume':
         ticket.waitReason = null;
@@ -156,7 +203,13 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
         statusNote = input.workDone;
         if (input.returnToService) {
           for (const held of await intervalsHeldBy(ticket.id, transaction)) {
-            await changeStateForTicket(deps, ticket, user.id, { toolId: held.toolId, moduleId: held.moduleId, state: 'standby', note: 'Returned to service after the fix' }, transaction);
+            await changeStateForTicket(
+              deps,
+              ticket,
+              user.id,
+              { toolId: held.toolId, moduleId: held.moduleId, state: 'standby', note: 'Returned to service after the fix' },
+              transaction,
+            );
           }
         }
         break;
@@ -178,10 +231,12 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
         statusNote = input.note;
         break;
       case 'merge': {
-        if (input.targetId === ticket.id) throw badRequest('A ticket cannot be merged into itself.', { targetId: ['Choose another ticket.'] });
+        if (input.targetId === ticket.id)
+          throw badRequest('A ticket cannot be merged into itself.', { targetId: ['Choose another ticket.'] });
         const target = await Ticket.findByPk(input.targetId, { transaction, lock: transaction.LOCK.UPDATE });
         if (!target) throw badRequest('There is no such ticket.', { targetId: ['Unknown ticket.'] });
-        if (target.toolId !== ticket.toolId) throw badRequest('Only reports about the same tool can be merged.', { targetId: ['That ticket is about another tool.'] });
+        if (target.toolId !== ticket.toolId)
+          throw badRequest('Only reports about the same tool can be merged.', { targetId: ['That ticket is about another tool.'] });
         if (!isOpenStatus(target.status)) throw badRequest('Merge into an open ticket.', { targetId: ['That ticket is not open.'] });
         ticket.mergedIntoId = target.id;
         statusData = { targetId: target.id };
@@ -191,11 +246,29 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
         target.impact = worseImpact(target.impact, ticket.impact);
         target.wafersCount = Math.max(target.wafersCount, ticket.wafersCount);
         if (!target.priorityOverridden) {
-          target.priority = computePriority({ impact: target.impact, hazards: target.hazards, wafersAtRisk: target.wafersCount, wafersKnownSafe: target.wafersRecoverable === 'yes', criticality: tool.criticality }).priority;
+          target.priority = computePriority({
+            impact: target.impact,
+            hazards: target.hazards,
+            wafersAtRisk: target.wafersCount,
+            wafersKnownSafe: target.wafersRecoverable === 'yes',
+            criticality: tool.criticality,
+          }).priority;
         }
         target.changed('updatedAt', true);
         await target.save({ transaction });
-        await appendEvent(target.id, user.id, 'merged_from', { data: { sourceId: ticket.id, from: before, to: { priority: target.priority, impact: target.impact, hazards: target.hazards, wafersCount: target.wafersCount } } }, transaction);
+        await appendEvent(
+          target.id,
+          user.id,
+          'merged_from',
+          {
+            data: {
+              sourceId: ticket.id,
+              from: before,
+              to: { priority: target.priority, impact: target.impact, hazards: target.hazards, wafersCount: target.wafersCount },
+            },
+          },
+          transaction,
+        );
         // A Down the merged report caused is now the target's to resolve.
         await StateInterval.update({ ticketId: target.id }, { where: { ticketId: ticket.id, endedAt: null }, transaction });
         touched.add(target.id);
@@ -205,24 +278,60 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
         let to: User | null = null;
         if (input.assigneeId !== null) {
           to = await User.findOne({ where: { id: input.assigneeId, active: true, role: { [Op.ne]: 'member' } }, transaction });
-          if (!to) throw badRequest('Assign to an active technician, manager or admin.', { assigneeId: ['Not someone who can be assigned.'] });
+          if (!to)
+            throw badRequest('Assign to an active technician, manager or admin.', { assigneeId: ['Not someone who can be assigned.'] });
         }
         const before = ticket.assigneeId ? await User.findByPk(ticket.assigneeId, { attributes: ['id', 'name'], transaction }) : null;
         ticket.assigneeId = to?.id ?? null;
-        await appendEvent(ticket.id, user.id, 'assignment', { data: { from: before ? { id: before.id, name: before.name } : null, to: to ? { id: to.id, name: to.name } : null } }, transaction);
+        await appendEvent(
+          ticket.id,
+          user.id,
+          'assignment',
+          { data: { from: before ? { id: before.id, name: before.name } : null, to: to ? { id: to.id, name: to.name } : null } },
+          transaction,
+        );
         if (to && to.id !== user.id) {
-          await notifyUsers(deps, { userIds: [to.id], kind: 'ticket.assigned', title: `[#${ticket.id}] Assigned to you: ${ticket.title}`, text: `${user.name} assigned ticket #${ticket.id} on ${tool.name} (${tool.code}) to you. Priority ${ticket.priority}.`, ticketId: ticket.id }, transaction);
+          await notifyUsers(
+            deps,
+            {
+              userIds: [to.id],
+              kind: 'ticket.assigned',
+              title: `[#${ticket.id}] Assigned to you: ${ticket.title}`,
+              text: `${user.name} assigned ticket #${ticket.id} on ${tool.name} (${tool.code}) to you. Priority ${ticket.priority}.`,
+              ticketId: ticket.id,
+            },
+            transaction,
+          );
         }
         break;
       }
       case 'set_priority':
-        await appendEvent(ticket.id, user.id, 'priority', { body: input.reason, data: { from: ticket.priority, to: input.priority } }, transaction);
+        await appendEvent(
+          ticket.id,
+          user.id,
+          'priority',
+          { body: input.reason, data: { from: ticket.priority, to: input.priority } },
+          transaction,
+        );
         ticket.priority = input.priority;
         ticket.priorityOverridden = true;
         break;
       case 'set_state': {
         const reason = input.reason ?? REASONS_BY_STATE[input.state][0];
-        await changeStateForTicket(deps, ticket, user.id, { toolId: tool.id, moduleId: input.moduleId, state: input.state, reason, note: input.note, expectedReturnAt: input.expectedReturnAt }, transaction);
+        await changeStateForTicket(
+          deps,
+          ticket,
+          user.id,
+          {
+            toolId: tool.id,
+            moduleId: input.moduleId,
+            state: input.state,
+            reason,
+            note: input.note,
+            expectedReturnAt: input.expectedReturnAt,
+          },
+          transaction,
+        );
         break;
       }
       case 'confirm_down': {
@@ -230,18 +339,44 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
         if (pending.length === 0) throw new AppError(409, 'nothing_to_confirm', 'There is no reported Down waiting for confirmation.');
         // Confirming is not a new state, only a mark on the open interval; the log keeps one stretch.
         await StateInterval.update({ confirmed: true }, { where: { id: pending.map((s) => s.id) }, transaction });
-        await appendEvent(ticket.id, user.id, 'down_confirmed', { data: { intervals: pending.map((s) => ({ moduleId: s.moduleId, state: s.state, since: s.startedAt.toISOString() })) } }, transaction);
-        for (const s of pending) deps.events.publish({ type: 'tool.state_changed', audience: 'all', payload: { toolId: s.toolId, moduleId: s.moduleId, state: s.state } }, transaction);
+        await appendEvent(
+          ticket.id,
+          user.id,
+          'down_confirmed',
+          { data: { intervals: pending.map((s) => ({ moduleId: s.moduleId, state: s.state, since: s.startedAt.toISOString() })) } },
+          transaction,
+        );
+        for (const s of pending)
+          deps.events.publish(
+            { type: 'tool.state_changed', audience: 'all', payload: { toolId: s.toolId, moduleId: s.moduleId, state: s.state } },
+            transaction,
+          );
         break;
       }
       case 'revert_down': {
         const pending = (await intervalsHeldBy(ticket.id, transaction)).filter((s) => s.source === 'user_report' && !s.confirmed);
         if (pending.length === 0) throw new AppError(409, 'nothing_to_revert', 'There is no reported Down waiting for confirmation.');
         for (const s of pending) {
-          const before = await StateInterval.findOne({ where: { toolId: s.toolId, moduleId: s.moduleId, endedAt: s.startedAt }, order: [['startedAt', 'DESC']], transaction });
+          const before = await StateInterval.findOne({
+            where: { toolId: s.toolId, moduleId: s.moduleId, endedAt: s.startedAt },
+            order: [['startedAt', 'DESC']],
+            transaction,
+          });
           const state = before && before.state !== 'unscheduled_downtime' ? before.state : 'standby';
           const reason = before && before.state === state ? before.reason : REASONS_BY_STATE[state][0];
-          await changeStateForTicket(deps, ticket, user.id, { toolId: s.toolId, moduleId: s.moduleId, state, reason, note: input.note ?? `The reported Down was not confirmed; back to ${E10_LABELS[state].toLowerCase()}.` }, transaction);
+          await changeStateForTicket(
+            deps,
+            ticket,
+            user.id,
+            {
+              toolId: s.toolId,
+              moduleId: s.moduleId,
+              state,
+              reason,
+              note: input.note ?? `The reported Down was not confirmed; back to ${E10_LABELS[state].toLowerCase()}.`,
+            },
+            transaction,
+          );
         }
         break;
       }
@@ -249,7 +384,13 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
 
     if (isWorkflowAction(input.action)) {
       ticket.status = ACTIONS[input.action].to;
-      await appendEvent(ticket.id, user.id, 'status', { body: statusNote, data: { action: input.action, from, to: ticket.status, ...statusData } }, transaction);
+      await appendEvent(
+        ticket.id,
+        user.id,
+        'status',
+        { body: statusNote, data: { action: input.action, from, to: ticket.status, ...statusData } },
+        transaction,
+      );
     }
     // Every accepted change moves the version on, so a second stale save is always caught.
     ticket.changed('updatedAt', true);
@@ -258,7 +399,12 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
     const mailText = input.action === 'reopen' ? `${user.name} reopened the ticket.` : STATUS_MAIL[ticket.status];
     if (isWorkflowAction(input.action) && mailText) {
       const followers = await ticketFollowers(deps, ticket.id, transaction);
-      const extra = input.action === 'wait' ? ` ${WAIT_REASON_LABELS[input.waitReason]}.` : input.action === 'fix' ? ` Recorded as: ${FIX_KIND_LABELS[input.fixKind].toLowerCase()}.` : '';
+      const extra =
+        input.action === 'wait'
+          ? ` ${WAIT_REASON_LABELS[input.waitReason]}.`
+          : input.action === 'fix'
+            ? ` Recorded as: ${FIX_KIND_LABELS[input.fixKind].toLowerCase()}.`
+            : '';
       const toolBack = input.action === 'fix' && input.returnToService ? ` ${tool.name} is back in service.` : '';
       // A reporter who reopens wants the technician to know; staff reopening tell the reporters.
       const recipients = input.action === 'reopen' && !isStaff(user.role) ? [...followers, ticket.assigneeId] : followers;
@@ -276,7 +422,8 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
       );
     }
 
-    for (const id of touched) deps.events.publish({ type: 'ticket.updated', audience: 'all', payload: { id, toolId: tool.id } }, transaction);
+    for (const id of touched)
+      deps.events.publish({ type: 'ticket.updated', audience: 'all', payload: { id, toolId: tool.id } }, transaction);
     return { id: ticket.id, status: ticket.status, version: ticket.version };
   });
   return result;

@@ -10,7 +10,17 @@ import type { InviteUserInput, UpdateUserInput } from '../../../shared/schemas/u
 import type { Role } from '../../../shared/roles';
 
 export function presentUser(u: User) {
-  return { id: u.id, email: u.email, name: u.name, role: u.role, active: u.active, onCall: u.onCall, invited: !u.passwordHash, lastSignInAt: u.lastSignInAt?.toISOString() ?? null, createdAt: u.createdAt.toISOString() };
+  return {
+    id: u.id,
+    email: u.email,
+    name: u.name,
+    role: u.role,
+    active: u.active,
+    onCall: u.onCall,
+    invited: !u.passwordHash,
+    lastSignInAt: u.lastSignInAt?.toISOString() ?? null,
+    createdAt: u.createdAt.toISOString(),
+  };
 }
 
 export async function listUsers(query: { q?: string; role?: Role; limit: number; offset: number }) {
@@ -28,8 +38,21 @@ export async function inviteUser(deps: AppDeps, input: InviteUserInput, invitedB
   const token = crypto.randomBytes(32).toString('base64url');
   const tokenHash = crypto.createHash('sha256').update(token).digest('hex');
   return deps.sequelize.transaction(async (transaction) => {
-    const user = await User.create({ email: input.email.toLowerCase(), name: input.name, role: input.role, onCall: input.onCall ?? false, passwordHash: null, lastSignInAt: null }, { transaction });
-    await PasswordReset.create({ userId: user.id, tokenHash, expiresAt: new Date(Date.now() + INVITE_TTL_MS), usedAt: null }, { transaction });
+    const user = await User.create(
+      {
+        email: input.email.toLowerCase(),
+        name: input.name,
+        role: input.role,
+        onCall: input.onCall ?? false,
+        passwordHash: null,
+        lastSignInAt: null,
+      },
+      { transaction },
+    );
+    await PasswordReset.create(
+      { userId: user.id, tokenHash, expiresAt: new Date(Date.now() + INVITE_TTL_MS), usedAt: null },
+      { transaction },
+    );
     await queueMail(
       {
         to: user.email,

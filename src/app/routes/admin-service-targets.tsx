@@ -6,7 +6,10 @@ export function ServiceTargetsPage() {
   return (
     <>
       <title>Service targets · Faultline</title>
-      <PageHeader title="Service targets" description="How soon a ticket of each priority should be acknowledged, and how soon the tool should be running again." />
+      <PageHeader
+        title="Service targets"
+        description="How soon a ticket of each priority should be acknowledged, and how soon the tool should be running again."
+      />
       <div className="max-w-3xl">
         <ServiceTargetsEditor />
       </div>

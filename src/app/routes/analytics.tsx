@@ -9,7 +9,15 @@ import { useScopes } from '@/features/analytics/api/get-scopes';
 import { AvailabilityTrendChart } from '@/features/analytics/components/availability-trend-chart';
 import { ChartPatterns } from '@/features/analytics/components/chart-patterns';
 import { AreaTable, E10Details } from '@/features/analytics/components/e10-details';
-import { formatCount, formatDay, formatHours, formatPercent, formatPeriod, formatMonth, STATE_SERIES } from '@/features/analytics/components/format';
+import {
+  formatCount,
+  formatDay,
+  formatHours,
+  formatPercent,
+  formatPeriod,
+  formatMonth,
+  STATE_SERIES,
+} from '@/features/analytics/components/format';
 import { HeadlineFigures } from '@/features/analytics/components/headline-figures';
 import { ParetoChart } from '@/features/analytics/components/pareto-chart';
 import { ReportControls } from '@/features/analytics/components/report-controls';
@@ -41,20 +49,28 @@ const PRINT_CSS = `
 function MonthTable({ months }: { months: AnalyticsMonthRow[] }) {
   return (
     <details className="mt-3 print:hidden">
-      <summary className="inline-flex min-h-11 cursor-pointer items-center text-sm font-semibold text-accent">The numbers per month</summary>
+      <summary className="inline-flex min-h-11 cursor-pointer items-center text-sm font-semibold text-accent">
+        The numbers per month
+      </summary>
       <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Hours per month (scrolls sideways)">
         <table className="w-full border-collapse text-left text-sm" data-testid="month-table">
           <caption className="sr-only">Hours in each E10 state, availability and failures per month</caption>
           <thead className="border-y border-line text-xs font-semibold text-muted">
             <tr>
-              <th scope="col" className="px-2 py-2">Month (UTC)</th>
+              <th scope="col" className="px-2 py-2">
+                Month (UTC)
+              </th>
               {STATE_SERIES.map((s) => (
                 <th key={s.key} scope="col" className="px-2 py-2 text-right">
                   {s.label}
                 </th>
               ))}
-              <th scope="col" className="px-2 py-2 text-right">Availability</th>
-              <th scope="col" className="px-2 py-2 text-right">Failures</th>
+              <th scope="col" className="px-2 py-2 text-right">
+                Availability
+              </th>
+              <th scope="col" className="px-2 py-2 text-right">
+                Failures
+              </th>
             </tr>
           </thead>
           <tbody>
@@ -80,9 +96,30 @@ function MonthTable({ months }: { months: AnalyticsMonthRow[] }) {
   );
 }
 
-function Section({ title, description, children, flush, testId, className }: { title: string; description?: ReactNode; children: ReactNode; flush?: boolean; testId?: string; className?: string }) {
+function Section({
+  title,
+  description,
+  children,
+  flush,
+  testId,
+  className,
+}: {
+  title: string;
+  description?: ReactNode;
+  children: ReactNode;
+  flush?: boolean;
+  testId?: string;
+  className?: string;
+}) {
   return (
-    <Card as="section" title={title} description={description} flush={flush} className={cx('min-w-0 break-inside-avoid print:shadow-none', className)} data-testid={testId}>
+    <Card
+      as="section"
+      title={title}
+      description={description}
+      flush={flush}
+      className={cx('min-w-0 break-inside-avoid print:shadow-none', className)}
+      data-testid={testId}
+    >
       {children}
     </Card>
   );
@@ -99,12 +136,30 @@ function Report({ report }: { report: AnalyticsReport }) {
       </div>
 
       <div className="grid grid-cols-1 gap-6 xl:grid-cols-2 print:contents">
-        <Section title="Hours in each state per month" description={`Time of every tool in ${scopeWord}, by SEMI E10 state.`} testId="section-state-hours" className="print:order-2">
-          {report.months.length > 0 ? <StateHoursChart months={report.months} /> : <p className="text-sm text-muted">The period has no time in it yet.</p>}
+        <Section
+          title="Hours in each state per month"
+          description={`Time of every tool in ${scopeWord}, by SEMI E10 state.`}
+          testId="section-state-hours"
+          className="print:order-2"
+        >
+          {report.months.length > 0 ? (
+            <StateHoursChart months={report.months} />
+          ) : (
+            <p className="text-sm text-muted">The period has no time in it yet.</p>
+          )}
           <MonthTable months={report.months} />
         </Section>
-        <Section title="Availability per month" description="Uptime ÷ operations time, month by month." testId="section-availability" className="print:order-3">
-          {report.months.length > 0 ? <AvailabilityTrendChart months={report.months} /> : <p className="text-sm text-muted">The period has no time in it yet.</p>}
+        <Section
+          title="Availability per month"
+          description="Uptime ÷ operations time, month by month."
+          testId="section-availability"
+          className="print:order-3"
+        >
+          {report.months.length > 0 ? (
+            <AvailabilityTrendChart months={report.months} />
+          ) : (
+            <p className="text-sm text-muted">The period has no time in it yet.</p>
+          )}
         </Section>
       </div>
 
@@ -112,16 +167,33 @@ function Report({ report }: { report: AnalyticsReport }) {
         <Section title="Downtime by failure mode" description={report.notes.pareto} testId="section-pareto-mode" className="print:order-4">
           <ParetoChart rows={report.pareto.byFailureMode} kind="mode" testId="chart-pareto-mode" />
         </Section>
-        <Section title="Downtime by category" description="The same hours by the category of the report." testId="section-pareto-category" className="print:hidden">
+        <Section
+          title="Downtime by category"
+          description="The same hours by the category of the report."
+          testId="section-pareto-category"
+          className="print:hidden"
+        >
           <ParetoChart rows={report.pareto.byCategory} kind="category" testId="chart-pareto-category" />
         </Section>
       </div>
 
-      <Section title="Tools" description="Ranked by availability, downtime or a rising failure rate. Open a tool for its history and tickets." flush testId="section-tools" className="print:order-6 print:col-span-2">
+      <Section
+        title="Tools"
+        description="Ranked by availability, downtime or a rising failure rate. Open a tool for its history and tickets."
+        flush
+        testId="section-tools"
+        className="print:order-6 print:col-span-2"
+      >
         <ToolRanking tools={report.tools} />
       </Section>
 
-      <Section title="Response to tickets" description="Against the service targets of each priority." flush testId="section-response" className="print:order-5">
+      <Section
+        title="Response to tickets"
+        description="Against the service targets of each priority."
+        flush
+        testId="section-response"
+        className="print:order-5"
+      >
         <ResponseTable rows={report.response.byPriority} overall={report.response.overall} />
       </Section>
 
@@ -139,14 +211,17 @@ function Report({ report }: { report: AnalyticsReport }) {
         <ul className="flex list-disc flex-col gap-1.5 pl-5 text-sm text-muted">
           <li>{report.notes.mtbf}</li>
           <li>{report.notes.mttr}</li>
-          <li>Failures: each stretch of unscheduled downtime counts once, in the period in which it starts. Only the tool’s own state counts; a module’s state only makes the tool Limited on the board.</li>
+          <li>
+            Failures: each stretch of unscheduled downtime counts once, in the period in which it starts. Only the tool’s own state counts;
+            a module’s state only makes the tool Limited on the board.
+          </li>
           <li>{report.notes.trend}</li>
           <li>{report.notes.months}</li>
         </ul>
       </Section>
       <p className="hidden text-xs text-muted print:order-7 print:col-span-2 print:block">
-        {report.notes.mtbf} {report.notes.mttr} {report.notes.months} The full tool table, the monthly hours and more SEMI E10 figures are on the
-        screen and in the CSV exports.
+        {report.notes.mtbf} {report.notes.mttr} {report.notes.months} The full tool table, the monthly hours and more SEMI E10 figures are
+        on the screen and in the CSV exports.
       </p>
     </div>
   );
@@ -211,7 +286,16 @@ export function AnalyticsPage() {
       {problem && <Alert tone="info">{problem}</Alert>}
       {params && report.isPending && <PageSpinner label="Adding up the state log…" />}
       {params && report.isError && (
-        <Alert tone="danger" live title="The report could not be made" actions={<Button variant="secondary" onClick={() => void report.refetch()}>Try again</Button>}>
+        <Alert
+          tone="danger"
+          live
+          title="The report could not be made"
+          actions={
+            <Button variant="secondary" onClick={() => void report.refetch()}>
+              Try again
+            </Button>
+          }
+        >
           {report.error.message}
         </Alert>
       )}

@@ -34,7 +34,16 @@ export function BoardPage() {
       />
       {board.isPending && <PageSpinner label="Loading the board…" />}
       {board.isError && (
-        <Alert tone="danger" live title="The board could not be loaded" actions={<Button variant="secondary" onClick={() => void board.refetch()}>Try again</Button>}>
+        <Alert
+          tone="danger"
+          live
+          title="The board could not be loaded"
+          actions={
+            <Button variant="secondary" onClick={() => void board.refetch()}>
+              Try again
+            </Button>
+          }
+        >
           {board.error.message}
         </Alert>
       )}

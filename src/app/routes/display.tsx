@@ -23,7 +23,10 @@ export function DisplayPage() {
   const { key = '' } = useParams();
   // ?areas=LITHO,ETCH puts one bay's tools on the screen that hangs in that bay.
   const [params] = useSearchParams();
-  const areaCodes = (params.get('areas') ?? '').split(',').map((c) => c.trim()).filter(Boolean);
+  const areaCodes = (params.get('areas') ?? '')
+    .split(',')
+    .map((c) => c.trim())
+    .filter(Boolean);
   const link = useDisplayLink(key);
   const refused = isApiError(link.error) && (link.error.status === 401 || link.error.status === 400);
   const allowed = Boolean(link.data) && !refused;
@@ -32,10 +35,16 @@ export function DisplayPage() {
   const settings = useFacilitySettings(allowed ? key : undefined);
 
   if (refused || (isApiError(board.error) && board.error.status === 401)) {
-    return <Message title="This display link is not valid any more" text="It was revoked or mistyped. Ask a Faultline administrator for a new display link." />;
+    return (
+      <Message
+        title="This display link is not valid any more"
+        text="It was revoked or mistyped. Ask a Faultline administrator for a new display link."
+      />
+    );
   }
   if (!link.data || !board.data) {
-    if (link.isError || board.isError) return <Message title="The board cannot be reached" text="Faultline is not answering. This screen keeps trying." />;
+    if (link.isError || board.isError)
+      return <Message title="The board cannot be reached" text="Faultline is not answering. This screen keeps trying." />;
     return (
       <div className="flex min-h-dvh items-center justify-center bg-page">
         <Spinner size="lg" label="Loading the board…" showLabel />

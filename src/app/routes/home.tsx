@@ -29,21 +29,25 @@ export function HomePage() {
         title={`${greeting(new Date().getHours())}, ${firstName}`}
         description={
           <>
-            You are signed in as <strong className="font-semibold text-ink">{ROLE_LABELS[user.role].toLowerCase()}</strong>.
-            Here is what you can do in Faultline.
+            You are signed in as <strong className="font-semibold text-ink">{ROLE_LABELS[user.role].toLowerCase()}</strong>. Here is what
+            you can do in Faultline.
           </>
         }
       />
 
       <Alert tone="warning" title="In an emergency, the facility alarm comes first">
-        Faultline records problems and tells the right people. It is not an alarm system. For fire, gas, a major spill or
-        an injury, leave the area, raise the facility alarm and follow the emergency procedures first; report here
-        afterwards. Use a tool&rsquo;s emergency stop only in an emergency, and do not handle unknown chemicals.
+        Faultline records problems and tells the right people. It is not an alarm system. For fire, gas, a major spill or an injury, leave
+        the area, raise the facility alarm and follow the emergency procedures first; report here afterwards. Use a tool&rsquo;s emergency
+        stop only in an emergency, and do not handle unknown chemicals.
       </Alert>
 
       <RoleOverview role={user.role} />
 
-      <Card as="section" title="Reading a tool’s state" description="Every state is shown three ways — colour, shape and word — so it reads under the yellow light of the lithography bays too.">
+      <Card
+        as="section"
+        title="Reading a tool’s state"
+        description="Every state is shown three ways — colour, shape and word — so it reads under the yellow light of the lithography bays too."
+      >
         <StateLegend />
       </Card>
     </div>

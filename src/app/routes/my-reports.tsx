@@ -30,11 +30,20 @@ export function MyReportsPage() {
       />
       {list.isPending && <PageSpinner label="Loading your reports…" />}
       {list.isError && (
-        <Alert tone="danger" live title="Your reports could not be loaded" actions={<Button onClick={() => void list.refetch()}>Try again</Button>}>
+        <Alert
+          tone="danger"
+          live
+          title="Your reports could not be loaded"
+          actions={<Button onClick={() => void list.refetch()}>Try again</Button>}
+        >
           {list.error.message}
         </Alert>
       )}
-      {list.data && list.data.items.length === 0 && <Alert tone="info" title="No reports yet">When you report a fault, it appears here with its status.</Alert>}
+      {list.data && list.data.items.length === 0 && (
+        <Alert tone="info" title="No reports yet">
+          When you report a fault, it appears here with its status.
+        </Alert>
+      )}
       {list.data && list.data.items.length > 0 && (
         <Card flush>
           <TicketTable items={list.data.items} caption="My reports, newest first" />

@@ -18,12 +18,20 @@ export function QueuePage() {
   return (
     <>
       <title>Queue · Faultline</title>
-      <PageHeader title="Queue" description="Open tickets by priority, then by age. Timers turn to a warning before a service target is missed." />
+      <PageHeader
+        title="Queue"
+        description="Open tickets by priority, then by age. Timers turn to a warning before a service target is missed."
+      />
       <div className="flex flex-col gap-4">
         <QueueFilters filters={filters} update={update} clear={clear} />
         {list.isPending && <PageSpinner label="Loading the queue…" />}
         {list.isError && (
-          <Alert tone="danger" live title="The queue could not be loaded" actions={<Button onClick={() => void list.refetch()}>Try again</Button>}>
+          <Alert
+            tone="danger"
+            live
+            title="The queue could not be loaded"
+            actions={<Button onClick={() => void list.refetch()}>Try again</Button>}
+          >
             {list.error.message}
           </Alert>
         )}
@@ -39,10 +47,18 @@ export function QueuePage() {
                   {offset + 1}–{Math.min(offset + QUEUE_PAGE_SIZE, total)} of {total}
                 </span>
                 <span className="flex gap-2">
-                  <Button variant="secondary" disabled={offset === 0} onClick={() => update({ offset: String(Math.max(0, offset - QUEUE_PAGE_SIZE)) })}>
+                  <Button
+                    variant="secondary"
+                    disabled={offset === 0}
+                    onClick={() => update({ offset: String(Math.max(0, offset - QUEUE_PAGE_SIZE)) })}
+                  >
                     Previous
                   </Button>
-                  <Button variant="secondary" disabled={offset + QUEUE_PAGE_SIZE >= total} onClick={() => update({ offset: String(offset + QUEUE_PAGE_SIZE) })}>
+                  <Button
+                    variant="secondary"
+                    disabled={offset + QUEUE_PAGE_SIZE >= total}
+                    onClick={() => update({ offset: String(offset + QUEUE_PAGE_SIZE) })}
+                  >
                     Next
                   </Button>
                 </span>

@@ -13,7 +13,10 @@ export function ReportPage() {
   return (
     <>
       <title>Report a fault · Faultline</title>
-      <PageHeader title="Report a fault" description="Tell the technicians what is wrong with a tool. Your answers are kept on this device until the report is sent." />
+      <PageHeader
+        title="Report a fault"
+        description="Tell the technicians what is wrong with a tool. Your answers are kept on this device until the report is sent."
+      />
       <ReportForm key={user.id} userId={user.id} toolCode={params.get('tool')} addTo={to > 0 ? to : null} />
     </>
   );

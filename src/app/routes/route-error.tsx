@@ -10,7 +10,9 @@ interface Explained {
 
 // After a new release the old page may ask for a code file that is gone: a reload fixes it.
 function isStaleChunk(error: unknown): boolean {
-  return error instanceof Error && /dynamically imported module|Importing a module script failed|error loading dynamically/i.test(error.message);
+  return (
+    error instanceof Error && /dynamically imported module|Importing a module script failed|error loading dynamically/i.test(error.message)
+  );
 }
 
 function explain(error: unknown): Explained {
@@ -37,9 +39,7 @@ export function RouteErrorPage() {
       <title>{`${title} · Faultline`}</title>
       <h1 className="text-2xl font-bold text-ink">{title}</h1>
       <Alert tone="danger">{text}</Alert>
-      <p className="text-sm text-muted">
-        If it keeps happening, tell the facility staff what you were doing when it appeared.
-      </p>
+      <p className="text-sm text-muted">If it keeps happening, tell the facility staff what you were doing when it appeared.</p>
       <div className="flex flex-wrap gap-3">
         <Button onClick={() => window.location.reload()}>Reload the page</Button>
         <Link to="/" className="inline-flex min-h-11 items-center px-2 font-semibold" reloadDocument>

@@ -18,7 +18,12 @@ export function TicketPage() {
   if (ticket.isError) {
     const missing = isApiError(ticket.error) && ticket.error.status === 404;
     return (
-      <Alert tone={missing ? 'warning' : 'danger'} live title={missing ? `Ticket #${id} does not exist` : 'The ticket could not be loaded'} actions={!missing && <Button onClick={() => void ticket.refetch()}>Try again</Button>}>
+      <Alert
+        tone={missing ? 'warning' : 'danger'}
+        live
+        title={missing ? `Ticket #${id} does not exist` : 'The ticket could not be loaded'}
+        actions={!missing && <Button onClick={() => void ticket.refetch()}>Try again</Button>}
+      >
         {missing ? <Link to="/">Back to the start page</Link> : ticket.error.message}
       </Alert>
     );
@@ -27,7 +32,12 @@ export function TicketPage() {
     <>
       <title>{`#${ticket.data.id} ${ticket.data.title} · Faultline`}</title>
       {just && (
-        <Alert tone="success" live title={just === 'new' ? 'Thank you — your report is in' : 'Thank you — your report was added'} className="mb-6">
+        <Alert
+          tone="success"
+          live
+          title={just === 'new' ? 'Thank you — your report is in' : 'Thank you — your report was added'}
+          className="mb-6"
+        >
           The technicians have been told. You will get an e-mail when something changes.
         </Alert>
       )}

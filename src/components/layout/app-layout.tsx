@@ -105,7 +105,9 @@ export function AppLayout({ user, onSignOut, signingOut = false, signOutError, r
                       className={({ isActive }) =>
                         cx(
                           'flex min-h-12 items-center rounded-lg px-3 text-base no-underline',
-                          isActive ? 'bg-accent-tint font-semibold text-accent-ink amber:underline amber:decoration-4' : 'text-ink hover:bg-sunken',
+                          isActive
+                            ? 'bg-accent-tint font-semibold text-accent-ink amber:underline amber:decoration-4'
+                            : 'text-ink hover:bg-sunken',
                         )
                       }
                     >
@@ -140,8 +142,7 @@ export function AppLayout({ user, onSignOut, signingOut = false, signOutError, r
 
       <footer className="border-t border-line">
         <p className="mx-auto max-w-7xl px-4 py-4 text-xs text-muted sm:px-6">
-          Faultline records and notifies. It does not replace the facility&rsquo;s alarms, emergency procedures or
-          trained staff.
+          Faultline records and notifies. It does not replace the facility&rsquo;s alarms, emergency procedures or trained staff.
         </p>
       </footer>
     </div>
@@ -156,9 +157,7 @@ function DesktopNavLink({ item }: { item: NavItem }) {
       className={({ isActive }) =>
         cx(
           'inline-flex min-h-11 items-center border-b-[3px] px-3 text-sm no-underline',
-          isActive
-            ? 'border-accent font-semibold text-ink'
-            : 'border-transparent text-muted hover:border-line hover:text-ink',
+          isActive ? 'border-accent font-semibold text-ink' : 'border-transparent text-muted hover:border-line hover:text-ink',
         )
       }
     >

@@ -54,7 +54,14 @@ function ToneIcon({ tone }: { tone: AlertTone }) {
       return (
         <svg {...common}>
           <circle cx="10" cy="10" r="9" fill="currentColor" />
-          <path d="m5.8 10.3 2.8 2.8 5.6-6" fill="none" stroke="var(--color-card)" strokeWidth="2" strokeLinecap="round" strokeLinejoin="round" />
+          <path
+            d="m5.8 10.3 2.8 2.8 5.6-6"
+            fill="none"
+            stroke="var(--color-card)"
+            strokeWidth="2"
+            strokeLinecap="round"
+            strokeLinejoin="round"
+          />
         </svg>
       );
     default:
@@ -80,9 +87,7 @@ export function Alert({ tone = 'info', title, children, live = false, actions, c
     >
       <ToneIcon tone={tone} />
       <div className="min-w-0 flex-1">
-        <p className={cx('font-semibold', !title && 'sr-only')}>
-          {title ?? TONE_WORDS[tone]}
-        </p>
+        <p className={cx('font-semibold', !title && 'sr-only')}>{title ?? TONE_WORDS[tone]}</p>
         {children && <div className={cx(Boolean(title) && 'mt-1', 'leading-relaxed [&_a]:text-current [&_a]:underline')}>{children}</div>}
         {actions && <div className="mt-3 flex flex-wrap gap-2">{actions}</div>}
       </div>

@@ -24,7 +24,11 @@ const SIZES: Record<ButtonSize, string> = {
 };
 
 /** Button looks for other elements, e.g. a router <Link> that should look like a button. */
-export function buttonClasses({ variant = 'primary', size = 'md', className }: { variant?: ButtonVariant; size?: ButtonSize; className?: string } = {}): string {
+export function buttonClasses({
+  variant = 'primary',
+  size = 'md',
+  className,
+}: { variant?: ButtonVariant; size?: ButtonSize; className?: string } = {}): string {
   return cx(BASE, VARIANTS[variant], SIZES[size], className);
 }
 
@@ -36,7 +40,17 @@ export interface ButtonProps extends ButtonHTMLAttributes<HTMLButtonElement> {
   ref?: Ref<HTMLButtonElement>;
 }
 
-export function Button({ variant = 'primary', size = 'md', busy = false, disabled, className, children, type = 'button', ref, ...rest }: ButtonProps) {
+export function Button({
+  variant = 'primary',
+  size = 'md',
+  busy = false,
+  disabled,
+  className,
+  children,
+  type = 'button',
+  ref,
+  ...rest
+}: ButtonProps) {
   return (
     <button
       ref={ref}

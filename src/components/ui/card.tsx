@@ -15,7 +15,17 @@ export interface CardProps extends Omit<HTMLAttributes<HTMLElement>, 'title'> {
   flush?: boolean;
 }
 
-export function Card({ as: As = 'div', title, headingLevel = 2, description, actions, flush = false, className, children, ...rest }: CardProps) {
+export function Card({
+  as: As = 'div',
+  title,
+  headingLevel = 2,
+  description,
+  actions,
+  flush = false,
+  className,
+  children,
+  ...rest
+}: CardProps) {
   const Heading = `h${headingLevel}` as const;
   const hasHeader = Boolean(title || description || actions);
   return (

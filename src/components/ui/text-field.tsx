@@ -27,12 +27,7 @@ export function TextField({ label, hint, errors, trailing, id, className, inputC
     <div className={cx('flex flex-col gap-1.5', className)}>
       <label htmlFor={inputId} className="text-sm font-semibold text-ink">
         {label}
-        {required && (
-          <span className="font-normal text-muted">
-            {' '}
-            (required)
-          </span>
-        )}
+        {required && <span className="font-normal text-muted"> (required)</span>}
       </label>
       {hint && (
         <p id={hintId} className="text-sm text-muted">

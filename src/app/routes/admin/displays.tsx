@@ -6,7 +6,10 @@ export function DisplaysAdminPage() {
   return (
     <div className="flex flex-col gap-6">
       <title>Lobby displays · Faultline</title>
-      <PageHeader title="Lobby displays" description="A display link shows the live board full screen, without signing in, on a screen at the cleanroom entrance." />
+      <PageHeader
+        title="Lobby displays"
+        description="A display link shows the live board full screen, without signing in, on a screen at the cleanroom entrance."
+      />
       <Card as="section">
         <DisplayLinksPanel />
       </Card>

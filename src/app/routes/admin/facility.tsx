@@ -7,7 +7,10 @@ export function FacilityAdminPage() {
   return (
     <div className="flex flex-col gap-6">
       <title>Tools and areas · Faultline</title>
-      <PageHeader title="Tools and areas" description="The bays and rooms of the facility, the tools in them, their modules and who looks after each tool." />
+      <PageHeader
+        title="Tools and areas"
+        description="The bays and rooms of the facility, the tools in them, their modules and who looks after each tool."
+      />
       <Card as="section" title="Tools">
         <ToolsPanel />
       </Card>

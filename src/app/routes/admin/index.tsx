@@ -12,12 +12,37 @@ interface AdminPage {
 
 // One line per admin page. Cards for pages not built yet stay hidden until `ready` flips.
 const ADMIN_PAGES: readonly AdminPage[] = [
-  { to: '/admin/settings', title: 'Facility settings', text: 'Name, time zone, emergency number and local procedure shown with hazard cautions, and who may read tickets.', ready: true },
+  {
+    to: '/admin/settings',
+    title: 'Facility settings',
+    text: 'Name, time zone, emergency number and local procedure shown with hazard cautions, and who may read tickets.',
+    ready: true,
+  },
   { to: '/admin/users', title: 'Users', text: 'Invite people, set roles and on-call duty, disable accounts.', ready: true },
-  { to: '/admin/facility', title: 'Tools and areas', text: 'Bays and rooms, the tools in them, their modules and who looks after each tool.', ready: true },
-  { to: '/admin/displays', title: 'Lobby displays', text: 'Links that show the live board full screen on a screen at the cleanroom entrance.', ready: true },
-  { to: '/admin/service-targets', title: 'Service targets', text: 'How fast each priority should be acknowledged and restored.', ready: true },
-  { to: '/labels', title: 'QR labels', text: 'A printable sheet of QR labels, one per tool, that open the tool’s page on a phone.', ready: true },
+  {
+    to: '/admin/facility',
+    title: 'Tools and areas',
+    text: 'Bays and rooms, the tools in them, their modules and who looks after each tool.',
+    ready: true,
+  },
+  {
+    to: '/admin/displays',
+    title: 'Lobby displays',
+    text: 'Links that show the live board full screen on a screen at the cleanroom entrance.',
+    ready: true,
+  },
+  {
+    to: '/admin/service-targets',
+    title: 'Service targets',
+    text: 'How fast each priority should be acknowledged and restored.',
+    ready: true,
+  },
+  {
+    to: '/labels',
+    title: 'QR labels',
+    text: 'A printable sheet of QR labels, one per tool, that open the tool’s page on a phone.',
+    ready: true,
+  },
   { to: '/admin/mail', title: 'Caught mail', text: 'The e-mail Faultline sent while the demo’s local mail catcher runs.', ready: true },
 ];
 

@@ -74,13 +74,22 @@ export function CaughtMailPage() {
 
       {catcherOff && (
         <Alert tone="info" title="The mail catcher is not running">
-          Caught mail is kept only while the local mail catcher runs, as it does in the demo. With a real mail server
-          configured, messages go out to their recipients instead and are not shown here.
+          Caught mail is kept only while the local mail catcher runs, as it does in the demo. With a real mail server configured, messages
+          go out to their recipients instead and are not shown here.
         </Alert>
       )}
 
       {mail.isError && !catcherOff && (
-        <Alert tone="danger" live title="The caught mail could not be loaded" actions={<Button variant="secondary" onClick={() => void mail.refetch()}>Try again</Button>}>
+        <Alert
+          tone="danger"
+          live
+          title="The caught mail could not be loaded"
+          actions={
+            <Button variant="secondary" onClick={() => void mail.refetch()}>
+              Try again
+            </Button>
+          }
+        >
           {mail.error.message}
         </Alert>
       )}
@@ -97,9 +106,15 @@ export function CaughtMailPage() {
             <caption className="sr-only">Caught e-mail, newest first. Choose a subject to read the message.</caption>
             <thead className="border-b border-line text-xs font-semibold tracking-wide text-muted uppercase">
               <tr>
-                <th scope="col" className="px-4 py-3">Subject</th>
-                <th scope="col" className="hidden px-4 py-3 md:table-cell">To</th>
-                <th scope="col" className="px-4 py-3 text-right">Received</th>
+                <th scope="col" className="px-4 py-3">
+                  Subject
+                </th>
+                <th scope="col" className="hidden px-4 py-3 md:table-cell">
+                  To
+                </th>
+                <th scope="col" className="px-4 py-3 text-right">
+                  Received
+                </th>
               </tr>
             </thead>
             <tbody>
@@ -145,7 +160,11 @@ export function CaughtMailPage() {
               Showing {list.items.length} of {list.total} messages.
             </p>
             {list.total > list.items.length && limit < MAX_LIMIT && (
-              <Button variant="secondary" onClick={() => setLimit((current) => Math.min(current + PAGE, MAX_LIMIT))} busy={mail.isPlaceholderData}>
+              <Button
+                variant="secondary"
+                onClick={() => setLimit((current) => Math.min(current + PAGE, MAX_LIMIT))}
+                busy={mail.isPlaceholderData}
+              >
                 Show older messages
               </Button>
             )}

@@ -91,13 +91,26 @@ export function AdminUsersPage() {
       />
 
       {notice && (
-        <Alert tone="success" live title="Done" actions={<Button variant="secondary" onClick={() => setNotice(null)}>Dismiss</Button>}>
+        <Alert
+          tone="success"
+          live
+          title="Done"
+          actions={
+            <Button variant="secondary" onClick={() => setNotice(null)}>
+              Dismiss
+            </Button>
+          }
+        >
           {notice}
         </Alert>
       )}
 
       {inviting && (
-        <Card as="section" title="Invite a person" description="They get an e-mail with a link to choose their password. Until then they are listed as Invited.">
+        <Card
+          as="section"
+          title="Invite a person"
+          description="They get an e-mail with a link to choose their password. Until then they are listed as Invited."
+        >
           <InviteUserForm
             onCancel={() => setInviting(false)}
             onInvited={(user) => {
@@ -115,7 +128,16 @@ export function AdminUsersPage() {
       {users.isPending && <PageSpinner label="Loading people…" />}
 
       {users.isError && (
-        <Alert tone="danger" live title="The list of people could not be loaded" actions={<Button variant="secondary" onClick={() => void users.refetch()}>Try again</Button>}>
+        <Alert
+          tone="danger"
+          live
+          title="The list of people could not be loaded"
+          actions={
+            <Button variant="secondary" onClick={() => void users.refetch()}>
+              Try again
+            </Button>
+          }
+        >
           {users.error.message}
         </Alert>
       )}
@@ -144,7 +166,14 @@ export function AdminUsersPage() {
             caption="People with a Faultline account, by name. Choose Edit to change a role, on-call duty or access."
             onSaved={setNotice}
           />
-          <Pager offset={offset} shown={list.items.length} total={list.total} pageSize={PAGE_SIZE} onOffsetChange={onOffsetChange} busy={users.isPlaceholderData} />
+          <Pager
+            offset={offset}
+            shown={list.items.length}
+            total={list.total}
+            pageSize={PAGE_SIZE}
+            onOffsetChange={onOffsetChange}
+            busy={users.isPlaceholderData}
+          />
         </Card>
       )}
     </div>

@@ -21,7 +21,11 @@ export function LabelsPage() {
     <>
       <title>QR labels · Faultline</title>
       {/* The sheet prints alone: the app's bars and footer stay on screen only. */}
-      <style>{'@media print { body header, body footer, .skip-link { display: none !important; } main { padding: 0 !important; max-width: none !important; } }'}</style>
+      <style>
+        {
+          '@media print { body header, body footer, .skip-link { display: none !important; } main { padding: 0 !important; max-width: none !important; } }'
+        }
+      </style>
       <div className="print:hidden">
         <PageHeader
           title="QR labels"
@@ -36,7 +40,12 @@ export function LabelsPage() {
           <label htmlFor={selectId} className="text-sm font-semibold text-ink">
             Area
           </label>
-          <select id={selectId} value={areaId ?? ''} onChange={(e) => setAreaId(e.target.value ? Number(e.target.value) : null)} className="min-h-11 rounded-lg border border-control bg-card px-3 text-base text-ink amber:border-2">
+          <select
+            id={selectId}
+            value={areaId ?? ''}
+            onChange={(e) => setAreaId(e.target.value ? Number(e.target.value) : null)}
+            className="min-h-11 rounded-lg border border-control bg-card px-3 text-base text-ink amber:border-2"
+          >
             <option value="">All areas</option>
             {areas.data?.items.map((a) => (
               <option key={a.id} value={a.id}>

@@ -31,7 +31,16 @@ export function ToolPage() {
       <>
         <title>Tool not found · Faultline</title>
         <PageHeader title={missing ? 'There is no tool with that code' : 'The tool could not be loaded'} />
-        <Alert tone={missing ? 'info' : 'danger'} actions={!missing && <Button variant="secondary" onClick={() => void tool.refetch()}>Try again</Button>}>
+        <Alert
+          tone={missing ? 'info' : 'danger'}
+          actions={
+            !missing && (
+              <Button variant="secondary" onClick={() => void tool.refetch()}>
+                Try again
+              </Button>
+            )
+          }
+        >
           {missing ? (
             <>
               No tool has the code <code className="font-mono">{code}</code>. Find it on the <Link to="/board">status board</Link>.
@@ -59,7 +68,11 @@ export function ToolPage() {
         }
         actions={
           !retired && (
-            <Link to={`/report?tool=${encodeURIComponent(t.code)}`} className={buttonClasses({ variant: 'danger', size: 'lg' })} data-testid="report-fault">
+            <Link
+              to={`/report?tool=${encodeURIComponent(t.code)}`}
+              className={buttonClasses({ variant: 'danger', size: 'lg' })}
+              data-testid="report-fault"
+            >
               Report a fault
             </Link>
           )

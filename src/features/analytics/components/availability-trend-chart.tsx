@@ -14,9 +14,20 @@ export function AvailabilityTrendChart({ months }: { months: AnalyticsMonthRow[]
         <XAxis dataKey="label" tick={{ fontSize: 12 }} interval="preserveStartEnd" />
         <YAxis domain={[low, 100]} tick={{ fontSize: 12 }} width={48} tickFormatter={(v: number) => `${v} %`} />
         <Tooltip formatter={(value) => formatPercent(Number(value))} />
-        <Line type="monotone" dataKey="availability" name="Availability" stroke="#4a3aa7" strokeWidth={2} dot={{ r: 4, fill: '#4a3aa7' }} connectNulls isAnimationActive={false} />
+        <Line
+          type="monotone"
+          dataKey="availability"
+          name="Availability"
+          stroke="#4a3aa7"
+          strokeWidth={2}
+          dot={{ r: 4, fill: '#4a3aa7' }}
+          connectNulls
+          isAnimationActive={false}
+        />
       </LineChart>
-      <figcaption className="text-xs text-muted">Availability per calendar month (UTC). * A month only partly inside the period.</figcaption>
+      <figcaption className="text-xs text-muted">
+        Availability per calendar month (UTC). * A month only partly inside the period.
+      </figcaption>
     </figure>
   );
 }

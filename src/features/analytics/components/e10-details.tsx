@@ -22,10 +22,26 @@ export function E10Details({ figures }: { figures: ReliabilityFigures }) {
         <caption className="pb-2 text-left text-sm font-semibold text-ink">Uptime figures</caption>
         <tbody>
           <Row label="Operational uptime (availability)" value={formatPercent(figures.availabilityPct)} note="uptime ÷ operations time" />
-          <Row label="Equipment-dependent uptime" value={formatPercent(figures.equipmentDependentUptimePct)} note="leaves out all waiting, facilities and out-of-spec input" />
-          <Row label="Supplier-dependent uptime" value={formatPercent(figures.supplierDependentUptimePct)} note="leaves out the user’s waiting, facilities and out-of-spec input" />
-          <Row label="Mean time off-line (MTOL)" value={formatHours(figures.mtolHours)} note={`downtime per downtime event (${formatCount(figures.downtimeEvents)} events)`} />
-          <Row label="Mean uptime between assists" value={formatHours(figures.mtbaHours)} note={`${formatCount(figures.assists)} assists`} />
+          <Row
+            label="Equipment-dependent uptime"
+            value={formatPercent(figures.equipmentDependentUptimePct)}
+            note="leaves out all waiting, facilities and out-of-spec input"
+          />
+          <Row
+            label="Supplier-dependent uptime"
+            value={formatPercent(figures.supplierDependentUptimePct)}
+            note="leaves out the user’s waiting, facilities and out-of-spec input"
+          />
+          <Row
+            label="Mean time off-line (MTOL)"
+            value={formatHours(figures.mtolHours)}
+            note={`downtime per downtime event (${formatCount(figures.downtimeEvents)} events)`}
+          />
+          <Row
+            label="Mean uptime between assists"
+            value={formatHours(figures.mtbaHours)}
+            note={`${formatCount(figures.assists)} assists`}
+          />
         </tbody>
       </table>
       <table className="w-full text-sm">
@@ -50,18 +66,32 @@ export function AreaTable({ areas }: { areas: AnalyticsAreaRow[] }) {
         <caption className="sr-only">Figures per area</caption>
         <thead className="border-y border-line text-xs font-semibold tracking-wide text-muted uppercase">
           <tr>
-            <th scope="col" className="px-4 py-2">Area</th>
-            <th scope="col" className="px-4 py-2 text-right">Tools</th>
-            <th scope="col" className="px-4 py-2 text-right">Availability</th>
-            <th scope="col" className="px-4 py-2 text-right">Unscheduled downtime</th>
-            <th scope="col" className="px-4 py-2 text-right">Failures</th>
-            <th scope="col" className="px-4 py-2 text-right">MTBF</th>
+            <th scope="col" className="px-4 py-2">
+              Area
+            </th>
+            <th scope="col" className="px-4 py-2 text-right">
+              Tools
+            </th>
+            <th scope="col" className="px-4 py-2 text-right">
+              Availability
+            </th>
+            <th scope="col" className="px-4 py-2 text-right">
+              Unscheduled downtime
+            </th>
+            <th scope="col" className="px-4 py-2 text-right">
+              Failures
+            </th>
+            <th scope="col" className="px-4 py-2 text-right">
+              MTBF
+            </th>
           </tr>
         </thead>
         <tbody>
           {areas.map((a) => (
             <tr key={a.id} className="border-b border-line last:border-0">
-              <th scope="row" className="px-4 py-2 font-semibold">{a.name}</th>
+              <th scope="row" className="px-4 py-2 font-semibold">
+                {a.name}
+              </th>
               <td className="px-4 py-2 text-right tabular-nums">{formatCount(a.toolCount)}</td>
               <td className="px-4 py-2 text-right tabular-nums">{formatPercent(a.figures.availabilityPct)}</td>
               <td className="px-4 py-2 text-right tabular-nums">{formatHours(a.figures.hours.unscheduledDowntime)}</td>

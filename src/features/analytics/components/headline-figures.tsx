@@ -15,7 +15,11 @@ function Figure({ id, label, value, raw, children }: FigureProps) {
   return (
     <div className="flex flex-col gap-1 rounded-xl border border-line bg-card p-4 shadow-sm break-inside-avoid amber:border-2 amber:shadow-none print:p-2 print:shadow-none">
       <dt className="text-sm font-semibold text-muted">{label}</dt>
-      <dd className="text-3xl font-bold tracking-tight text-ink tabular-nums print:text-2xl" data-testid={`figure-${id}`} data-value={raw ?? ''}>
+      <dd
+        className="text-3xl font-bold tracking-tight text-ink tabular-nums print:text-2xl"
+        data-testid={`figure-${id}`}
+        data-value={raw ?? ''}
+      >
         {value}
       </dd>
       {children && <dd className="text-sm leading-snug text-muted">{children}</dd>}
@@ -43,19 +47,24 @@ export function HeadlineFigures({ report }: { report: AnalyticsReport }) {
       <Figure id="availability" label="Availability" value={formatPercent(t.availabilityPct)} raw={t.availabilityPct}>
         Uptime ÷ operations time (SEMI E10 operational uptime; non-scheduled time is left out).
       </Figure>
-      <Figure id="unscheduled-hours" label="Unscheduled downtime" value={formatHours(t.hours.unscheduledDowntime)} raw={t.hours.unscheduledDowntime}>
+      <Figure
+        id="unscheduled-hours"
+        label="Unscheduled downtime"
+        value={formatHours(t.hours.unscheduledDowntime)}
+        raw={t.hours.unscheduledDowntime}
+      >
         Scheduled downtime {formatHours(t.hours.scheduledDowntime)} · non-scheduled {formatHours(t.hours.nonScheduled)}.
       </Figure>
       <Figure id="failures" label="Failures" value={formatCount(t.failures)} raw={t.failures}>
         Each stretch of unscheduled downtime is one failure. Assists (cleared without repair): {formatCount(t.assists)}.
       </Figure>
       <Figure id="mtbf" label="MTBF over uptime" value={t.mtbf.point === null ? '—' : formatHours(t.mtbf.point)} raw={t.mtbf.point}>
-        <span data-testid="mtbf-interval">{mtbfSentence(t.mtbf)}</span>{' '}
-        Uptime (productive, standby and engineering hours) per failure: without a feed of run time, productive and idle time cannot be told apart.
+        <span data-testid="mtbf-interval">{mtbfSentence(t.mtbf)}</span> Uptime (productive, standby and engineering hours) per failure:
+        without a feed of run time, productive and idle time cannot be told apart.
       </Figure>
       <Figure id="mttr" label="MTTR (E10: repair only)" value={formatHours(t.mttrHours)} raw={t.mttrHours}>
-        Repair, test and verification per failure, without waiting for parts, the vendor or the user. Down time per failure with the waiting:{' '}
-        {formatHours(t.meanDownHoursPerFailure)}.
+        Repair, test and verification per failure, without waiting for parts, the vendor or the user. Down time per failure with the
+        waiting: {formatHours(t.meanDownHoursPerFailure)}.
       </Figure>
       <Figure id="acknowledge" label="Time to acknowledge" value={formatMinutes(ack.ackMeanMinutes)} raw={ack.ackMeanMinutes}>
         Mean over {formatCount(ack.acknowledged)} tickets reported in the period; 90 % within {formatMinutes(ack.ackP90Minutes)}.{' '}

@@ -25,7 +25,9 @@ interface Bar {
 }
 
 function bars(rows: ParetoRow[], kind: 'mode' | 'category'): Bar[] {
-  const head = rows.slice(0, MAX_BARS).map((r) => ({ label: paretoLabel(r, kind), hours: r.hours, tickets: r.tickets, cumulative: r.cumulativeShare }));
+  const head = rows
+    .slice(0, MAX_BARS)
+    .map((r) => ({ label: paretoLabel(r, kind), hours: r.hours, tickets: r.tickets, cumulative: r.cumulativeShare }));
   const rest = rows.slice(MAX_BARS);
   if (rest.length > 0) {
     head.push({
@@ -47,7 +49,13 @@ export function ParetoChart({ rows, kind, testId }: { rows: ParetoRow[]; kind: '
   const data = bars(rows, kind).map((b) => ({ ...b, note: `${formatHours(b.hours)} · ${formatShare(b.cumulative)}` }));
   return (
     <figure className="flex flex-col gap-2" data-testid={testId}>
-      <BarChart responsive layout="vertical" style={{ width: '100%', height: 40 + data.length * 36 }} data={data} margin={{ top: 4, right: 88, bottom: 4, left: 4 }}>
+      <BarChart
+        responsive
+        layout="vertical"
+        style={{ width: '100%', height: 40 + data.length * 36 }}
+        data={data}
+        margin={{ top: 4, right: 88, bottom: 4, left: 4 }}
+      >
         <CartesianGrid strokeDasharray="3 3" horizontal={false} />
         <XAxis type="number" tick={{ fontSize: 12 }} tickFormatter={(v: number) => `${Math.round(v)} h`} />
         <YAxis type="category" dataKey="label" width={124} tick={{ fontSize: 12 }} interval={0} />
@@ -56,7 +64,9 @@ export function ParetoChart({ rows, kind, testId }: { rows: ParetoRow[]; kind: '
           <LabelList dataKey="note" position="right" fontSize={12} fill="#1b1d21" />
         </Bar>
       </BarChart>
-      <figcaption className="text-xs text-muted">Bars: hours. Labels: the hours, then the cumulative share of all unscheduled downtime in the period.</figcaption>
+      <figcaption className="text-xs text-muted">
+        Bars: hours. Labels: the hours, then the cumulative share of all unscheduled downtime in the period.
+      </figcaption>
     </figure>
   );
 }

@@ -5,7 +5,19 @@ import type { AnalyticsSelection } from '@/features/analytics/hooks/use-analytic
 
 const SCOPE_LABELS: Record<AnalyticsScopeKind, string> = { facility: 'Whole facility', area: 'One area', tool: 'One tool' };
 
-function Segmented<T extends string>({ legend, name, options, value, onChange }: { legend: string; name: string; options: readonly { value: T; label: string }[]; value: T; onChange: (v: T) => void }) {
+function Segmented<T extends string>({
+  legend,
+  name,
+  options,
+  value,
+  onChange,
+}: {
+  legend: string;
+  name: string;
+  options: readonly { value: T; label: string }[];
+  value: T;
+  onChange: (v: T) => void;
+}) {
   return (
     <fieldset className="flex min-w-0 flex-col gap-1.5">
       <legend className="mb-1.5 text-sm font-semibold text-ink">{legend}</legend>
@@ -16,10 +28,19 @@ function Segmented<T extends string>({ legend, name, options, value, onChange }:
             className={cx(
               'inline-flex min-h-11 cursor-pointer items-center rounded-lg border px-3 text-sm font-semibold amber:border-2',
               'has-[:focus-visible]:outline has-[:focus-visible]:outline-3 has-[:focus-visible]:outline-offset-2 has-[:focus-visible]:outline-focus',
-              value === o.value ? 'border-accent bg-accent-tint text-accent-ink amber:underline amber:border-4' : 'border-control bg-card text-ink hover:bg-sunken',
+              value === o.value
+                ? 'border-accent bg-accent-tint text-accent-ink amber:underline amber:border-4'
+                : 'border-control bg-card text-ink hover:bg-sunken',
             )}
           >
-            <input type="radio" name={name} value={o.value} checked={value === o.value} onChange={() => onChange(o.value)} className="sr-only" />
+            <input
+              type="radio"
+              name={name}
+              value={o.value}
+              checked={value === o.value}
+              onChange={() => onChange(o.value)}
+              className="sr-only"
+            />
             {o.label}
           </label>
         ))}
@@ -66,10 +87,26 @@ export function ReportControls({ selection, update, options }: ReportControlsPro
           {selection.period === 'custom' && (
             <div className="grid grid-cols-2 gap-3">
               <Labelled label="First day">
-                {(id) => <input id={id} type="date" className={control} value={selection.fromDay} onChange={(e) => update({ fromDay: e.target.value })} />}
+                {(id) => (
+                  <input
+                    id={id}
+                    type="date"
+                    className={control}
+                    value={selection.fromDay}
+                    onChange={(e) => update({ fromDay: e.target.value })}
+                  />
+                )}
               </Labelled>
               <Labelled label="Last day (included)">
-                {(id) => <input id={id} type="date" className={control} value={selection.toDay} onChange={(e) => update({ toDay: e.target.value })} />}
+                {(id) => (
+                  <input
+                    id={id}
+                    type="date"
+                    className={control}
+                    value={selection.toDay}
+                    onChange={(e) => update({ toDay: e.target.value })}
+                  />
+                )}
               </Labelled>
             </div>
           )}
@@ -85,7 +122,12 @@ export function ReportControls({ selection, update, options }: ReportControlsPro
           {selection.scope === 'area' && (
             <Labelled label="Area">
               {(id) => (
-                <select id={id} className={control} value={selection.areaId ?? ''} onChange={(e) => update({ areaId: e.target.value ? Number(e.target.value) : null })}>
+                <select
+                  id={id}
+                  className={control}
+                  value={selection.areaId ?? ''}
+                  onChange={(e) => update({ areaId: e.target.value ? Number(e.target.value) : null })}
+                >
                   <option value="">Choose an area…</option>
                   {areas.map((a) => (
                     <option key={a.id} value={a.id}>
@@ -99,7 +141,12 @@ export function ReportControls({ selection, update, options }: ReportControlsPro
           {selection.scope === 'tool' && (
             <Labelled label="Tool">
               {(id) => (
-                <select id={id} className={control} value={selection.toolId ?? ''} onChange={(e) => update({ toolId: e.target.value ? Number(e.target.value) : null })}>
+                <select
+                  id={id}
+                  className={control}
+                  value={selection.toolId ?? ''}
+                  onChange={(e) => update({ toolId: e.target.value ? Number(e.target.value) : null })}
+                >
                   <option value="">Choose a tool…</option>
                   {areas.map((a) => (
                     <optgroup key={a.id} label={a.name}>

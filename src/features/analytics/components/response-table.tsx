@@ -7,16 +7,31 @@ export function ResponseTable({ rows, overall }: { rows: ResponseRow[]; overall:
   const all = [...rows, overall];
   return (
     <div className="overflow-x-auto print:overflow-visible" tabIndex={0} role="region" aria-label="Response times (scrolls sideways)">
-      <table className="w-full border-collapse text-left text-sm print:text-xs print:[&_td]:px-1.5 print:[&_th]:px-1.5" data-testid="response-table">
+      <table
+        className="w-full border-collapse text-left text-sm print:text-xs print:[&_td]:px-1.5 print:[&_th]:px-1.5"
+        data-testid="response-table"
+      >
         <caption className="sr-only">Response times per priority against the service targets</caption>
         <thead className="border-y border-line text-xs font-semibold tracking-wide text-muted uppercase">
           <tr>
-            <th scope="col" className="px-4 py-2">Priority</th>
-            <th scope="col" className="px-4 py-2 text-right">Tickets</th>
-            <th scope="col" className="px-4 py-2 text-right">To acknowledge: mean / 90 %</th>
-            <th scope="col" className="px-4 py-2 text-right">Target · met</th>
-            <th scope="col" className="px-4 py-2 text-right">To restore: mean / 90 %</th>
-            <th scope="col" className="px-4 py-2 text-right">Target · met</th>
+            <th scope="col" className="px-4 py-2">
+              Priority
+            </th>
+            <th scope="col" className="px-4 py-2 text-right">
+              Tickets
+            </th>
+            <th scope="col" className="px-4 py-2 text-right">
+              To acknowledge: mean / 90 %
+            </th>
+            <th scope="col" className="px-4 py-2 text-right">
+              Target · met
+            </th>
+            <th scope="col" className="px-4 py-2 text-right">
+              To restore: mean / 90 %
+            </th>
+            <th scope="col" className="px-4 py-2 text-right">
+              Target · met
+            </th>
           </tr>
         </thead>
         <tbody>
@@ -45,8 +60,8 @@ export function ResponseTable({ rows, overall }: { rows: ResponseRow[]; overall:
         </tbody>
       </table>
       <p className="px-5 pt-3 text-xs text-muted">
-        Tickets reported in the period, merged duplicates left out. Time to restore runs to the moment the ticket was marked fixed (or found to
-        have no fault). “Met” counts a ticket still waiting past its target as missed.
+        Tickets reported in the period, merged duplicates left out. Time to restore runs to the moment the ticket was marked fixed (or found
+        to have no fault). “Met” counts a ticket still waiting past its target as missed.
       </p>
     </div>
   );

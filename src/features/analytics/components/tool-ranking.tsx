@@ -22,9 +22,13 @@ export function sortTools(tools: AnalyticsToolRow[], sort: ToolSort): AnalyticsT
   const rows = [...tools];
   const availability = (t: AnalyticsToolRow) => t.figures.availabilityPct ?? 101;
   if (sort === 'availability') rows.sort((a, b) => availability(a) - availability(b) || a.code.localeCompare(b.code));
-  if (sort === 'downtime') rows.sort((a, b) => b.figures.hours.unscheduledDowntime - a.figures.hours.unscheduledDowntime || a.code.localeCompare(b.code));
+  if (sort === 'downtime')
+    rows.sort((a, b) => b.figures.hours.unscheduledDowntime - a.figures.hours.unscheduledDowntime || a.code.localeCompare(b.code));
   if (sort === 'trend') {
-    rows.sort((a, b) => TREND_RANK[a.trend] - TREND_RANK[b.trend] || (b.crowBeta ?? 0) - (a.crowBeta ?? 0) || b.figures.failures - a.figures.failures);
+    rows.sort(
+      (a, b) =>
+        TREND_RANK[a.trend] - TREND_RANK[b.trend] || (b.crowBeta ?? 0) - (a.crowBeta ?? 0) || b.figures.failures - a.figures.failures,
+    );
   }
   return rows;
 }
@@ -76,7 +80,9 @@ export function ToolRanking({ tools }: { tools: AnalyticsToolRow[] }) {
             onClick={() => setSort(s.key)}
             className={cx(
               'min-h-11 rounded-lg border px-3 text-sm font-semibold amber:border-2',
-              sort === s.key ? 'border-accent bg-accent-tint text-accent-ink amber:underline' : 'border-control bg-card text-ink hover:bg-sunken',
+              sort === s.key
+                ? 'border-accent bg-accent-tint text-accent-ink amber:underline'
+                : 'border-control bg-card text-ink hover:bg-sunken',
             )}
           >
             {s.label}
@@ -88,20 +94,41 @@ export function ToolRanking({ tools }: { tools: AnalyticsToolRow[] }) {
           <caption className="sr-only">Tools ranked by {SORTS.find((s) => s.key === sort)!.label.toLowerCase()}</caption>
           <thead className="border-y border-line text-xs font-semibold tracking-wide text-muted uppercase">
             <tr>
-              <th scope="col" className="px-4 py-2">Tool</th>
-              <th scope="col" className="px-4 py-2 text-right">Availability</th>
-              <th scope="col" className="px-4 py-2 text-right">Unscheduled downtime</th>
-              <th scope="col" className="px-4 py-2 text-right">Failures</th>
-              <th scope="col" className="px-4 py-2 text-right">MTBF</th>
-              <th scope="col" className="px-4 py-2 text-right">MTTR (E10)</th>
-              <th scope="col" className="px-4 py-2">Failure rate</th>
+              <th scope="col" className="px-4 py-2">
+                Tool
+              </th>
+              <th scope="col" className="px-4 py-2 text-right">
+                Availability
+              </th>
+              <th scope="col" className="px-4 py-2 text-right">
+                Unscheduled downtime
+              </th>
+              <th scope="col" className="px-4 py-2 text-right">
+                Failures
+              </th>
+              <th scope="col" className="px-4 py-2 text-right">
+                MTBF
+              </th>
+              <th scope="col" className="px-4 py-2 text-right">
+                MTTR (E10)
+              </th>
+              <th scope="col" className="px-4 py-2">
+                Failure rate
+              </th>
             </tr>
           </thead>
           <tbody>
             {rows.map((t, i) => (
-              <tr key={t.id} className={cx('border-b border-line align-top print:[&>*]:py-0.5', i >= PRINTED_TOOLS && 'print:hidden')} data-tool={t.code}>
+              <tr
+                key={t.id}
+                className={cx('border-b border-line align-top print:[&>*]:py-0.5', i >= PRINTED_TOOLS && 'print:hidden')}
+                data-tool={t.code}
+              >
                 <th scope="row" className="px-4 py-2 font-normal">
-                  <Link to={`/tools/${encodeURIComponent(t.code)}`} className="inline-flex min-h-11 flex-col justify-center font-semibold print:min-h-0">
+                  <Link
+                    to={`/tools/${encodeURIComponent(t.code)}`}
+                    className="inline-flex min-h-11 flex-col justify-center font-semibold print:min-h-0"
+                  >
                     <span className="font-mono whitespace-nowrap">{t.code}</span>
                   </Link>
                   <span className="block text-xs text-muted print:ml-2 print:inline">
@@ -123,9 +150,15 @@ export function ToolRanking({ tools }: { tools: AnalyticsToolRow[] }) {
         </table>
       </div>
       <p className="px-5 pt-3 text-xs text-muted print:pt-1">
-        Failure rate: the reverse-arrangement test (95 %, one-sided) on the gaps between failure starts; “Rising” means the gaps are shrinking.
-        β is the Crow-AMSAA shape over the period: above 1, failures come faster. At least four failures are needed for a verdict.
-        {tools.length > PRINTED_TOOLS && <span className="hidden print:inline"> Printed: the first {PRINTED_TOOLS} of {tools.length} tools; the CSV export has all of them.</span>}
+        Failure rate: the reverse-arrangement test (95 %, one-sided) on the gaps between failure starts; “Rising” means the gaps are
+        shrinking. β is the Crow-AMSAA shape over the period: above 1, failures come faster. At least four failures are needed for a
+        verdict.
+        {tools.length > PRINTED_TOOLS && (
+          <span className="hidden print:inline">
+            {' '}
+            Printed: the first {PRINTED_TOOLS} of {tools.length} tools; the CSV export has all of them.
+          </span>
+        )}
       </p>
     </div>
   );

@@ -40,13 +40,19 @@ export function ToolReliability({ toolId }: { toolId: number }) {
               Availability <span className="block text-xs text-muted">E10: uptime ÷ time not non-scheduled</span>
             </th>
             {windows.map((w) => (
-              <td key={w.days} className="py-1.5 pl-2 text-right font-semibold whitespace-nowrap tabular-nums" data-testid={`reliability-availability-${w.days}`}>
+              <td
+                key={w.days}
+                className="py-1.5 pl-2 text-right font-semibold whitespace-nowrap tabular-nums"
+                data-testid={`reliability-availability-${w.days}`}
+              >
                 {formatPercent(w.availabilityPct)}
               </td>
             ))}
           </tr>
           <tr className="border-b border-line">
-            <th scope="row" className="py-1.5 text-left font-normal">Failures</th>
+            <th scope="row" className="py-1.5 text-left font-normal">
+              Failures
+            </th>
             {windows.map((w) => (
               <td key={w.days} className="py-1.5 pl-2 text-right font-semibold whitespace-nowrap tabular-nums">
                 {formatCount(w.failures)}

@@ -1,6 +1,13 @@
 import { useCallback, useMemo, useState } from 'react';
 import { useSearchParams } from 'react-router';
-import { ANALYTICS_SCOPES, MAX_PERIOD_DAYS, PERIOD_PRESETS, presetPeriod, type AnalyticsScopeKind, type PeriodPreset } from '@shared/schemas/analytics';
+import {
+  ANALYTICS_SCOPES,
+  MAX_PERIOD_DAYS,
+  PERIOD_PRESETS,
+  presetPeriod,
+  type AnalyticsScopeKind,
+  type PeriodPreset,
+} from '@shared/schemas/analytics';
 import type { AnalyticsParams } from '@/features/analytics/api/analytics-keys';
 
 // The period and scope live in the address, so a report can be bookmarked, shared and
@@ -38,8 +45,12 @@ export function toLocalDay(date: Date): string {
 }
 
 export function readSelection(search: URLSearchParams, anchor: Date): AnalyticsSelection {
-  const period = (PERIOD_PRESETS as readonly string[]).includes(search.get('period') ?? '') ? (search.get('period') as PeriodPreset) : '12m';
-  const scope = (ANALYTICS_SCOPES as readonly string[]).includes(search.get('scope') ?? '') ? (search.get('scope') as AnalyticsScopeKind) : 'facility';
+  const period = (PERIOD_PRESETS as readonly string[]).includes(search.get('period') ?? '')
+    ? (search.get('period') as PeriodPreset)
+    : '12m';
+  const scope = (ANALYTICS_SCOPES as readonly string[]).includes(search.get('scope') ?? '')
+    ? (search.get('scope') as AnalyticsScopeKind)
+    : 'facility';
   const defaults = presetPeriod('30d', anchor);
   return {
     period,
@@ -63,7 +74,8 @@ export function paramsOf(selection: AnalyticsSelection, anchor: Date): { params:
     to = new Date(lastDay.getFullYear(), lastDay.getMonth(), lastDay.getDate() + 1);
     from = start;
     if (to <= from) return { params: null, problem: 'The last day must not come before the first day.' };
-    if (to.getTime() - from.getTime() > MAX_PERIOD_DAYS * 86_400_000) return { params: null, problem: 'Choose a period of at most five years.' };
+    if (to.getTime() - from.getTime() > MAX_PERIOD_DAYS * 86_400_000)
+      return { params: null, problem: 'Choose a period of at most five years.' };
     if (from > anchor) return { params: null, problem: 'The period starts in the future; there is nothing to show yet.' };
   } else {
     ({ from, to } = presetPeriod(selection.period, anchor));

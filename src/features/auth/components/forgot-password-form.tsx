@@ -55,8 +55,8 @@ export function ForgotPasswordForm({ after }: ForgotPasswordFormProps) {
       <div className="flex flex-col gap-5">
         <Alert tone="success" live title="Check your e-mail">
           <p>
-            If <strong className="font-semibold break-all">{sentTo}</strong> belongs to an active Faultline account, a link to
-            choose a new password is on its way. The link works for one hour and only once.
+            If <strong className="font-semibold break-all">{sentTo}</strong> belongs to an active Faultline account, a link to choose a new
+            password is on its way. The link works for one hour and only once.
           </p>
         </Alert>
         <p className="text-sm leading-relaxed text-muted">

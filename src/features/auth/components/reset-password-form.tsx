@@ -28,8 +28,8 @@ function DeadLink() {
   return (
     <div className="flex flex-col gap-5">
       <Alert tone="warning" live title="This link no longer works">
-        Links to choose a password work only once and only for a while (one hour after asking for a new password, seven
-        days after an invitation). Ask for a fresh link; it works for invitations too.
+        Links to choose a password work only once and only for a while (one hour after asking for a new password, seven days after an
+        invitation). Ask for a fresh link; it works for invitations too.
       </Alert>
       <Link to="/forgot-password" className={buttonClasses({ size: 'lg', className: 'w-full' })}>
         Get a new link
@@ -58,8 +58,7 @@ export function ResetPasswordForm({ token }: { token: string }) {
     return (
       <div className="flex flex-col gap-5">
         <Alert tone="success" live title="Your password is set">
-          Sign in with your e-mail address and the new password. Any other place where this account was signed in has
-          been signed out.
+          Sign in with your e-mail address and the new password. Any other place where this account was signed in has been signed out.
         </Alert>
         <Link to="/sign-in" className={buttonClasses({ size: 'lg', className: 'w-full' })}>
           Go to sign in
@@ -95,8 +94,8 @@ export function ResetPasswordForm({ token }: { token: string }) {
   return (
     <form noValidate onSubmit={onSubmit} className="flex flex-col gap-5">
       <p className="text-sm leading-relaxed text-muted">
-        Choose the password you will sign in with. If you were invited, this finishes setting up your account; if you asked
-        for a reset, it replaces your old password.
+        Choose the password you will sign in with. If you were invited, this finishes setting up your account; if you asked for a reset, it
+        replaces your old password.
       </p>
 
       {reset.isError && (

@@ -58,14 +58,24 @@ export function BoardView({ data }: { data: BoardData }) {
         {filtered ? `Showing ${shown} of ${data.total} tools.` : `${data.total} tools.`}
       </p>
 
-      {data.total === 0 && <Alert tone="info" title="No tools yet">An administrator adds areas and tools under Admin → Tools and areas.</Alert>}
-      {data.total > 0 && shown === 0 && <Alert tone="info" title="No tool matches">Try another name or code, or clear the filters.</Alert>}
+      {data.total === 0 && (
+        <Alert tone="info" title="No tools yet">
+          An administrator adds areas and tools under Admin → Tools and areas.
+        </Alert>
+      )}
+      {data.total > 0 && shown === 0 && (
+        <Alert tone="info" title="No tool matches">
+          Try another name or code, or clear the filters.
+        </Alert>
+      )}
 
       {areas.map((area) => (
         <section key={area.id} aria-labelledby={`area-${area.id}`} className="flex flex-col gap-3">
           <h2 id={`area-${area.id}`} className="flex items-baseline gap-2 text-lg font-semibold text-ink">
             {area.name}
-            <span className="text-sm font-normal text-muted">{area.tools.length} {area.tools.length === 1 ? 'tool' : 'tools'}</span>
+            <span className="text-sm font-normal text-muted">
+              {area.tools.length} {area.tools.length === 1 ? 'tool' : 'tools'}
+            </span>
           </h2>
           <ul className="grid gap-3 sm:grid-cols-2 xl:grid-cols-3">
             {area.tools.map((tool) => (

@@ -32,11 +32,17 @@ export function ToolCard({ tool }: { tool: BoardTool }) {
     <li
       data-testid={`board-tool-${tool.code}`}
       data-status={tool.status}
-      className={cx('flex flex-col gap-2 rounded-lg border border-l-[6px] border-line bg-card p-3 shadow-sm amber:border-2 amber:border-l-[6px] amber:border-black', EDGE[tool.status])}
+      className={cx(
+        'flex flex-col gap-2 rounded-lg border border-l-[6px] border-line bg-card p-3 shadow-sm amber:border-2 amber:border-l-[6px] amber:border-black',
+        EDGE[tool.status],
+      )}
     >
       <div className="flex items-start justify-between gap-3">
         <div className="min-w-0">
-          <Link to={`/tools/${encodeURIComponent(tool.code)}`} className="block min-h-11 py-0.5 font-semibold leading-snug text-ink no-underline hover:underline">
+          <Link
+            to={`/tools/${encodeURIComponent(tool.code)}`}
+            className="block min-h-11 py-0.5 font-semibold leading-snug text-ink no-underline hover:underline"
+          >
             {tool.name}
             <span className="block font-mono text-xs font-normal text-muted">{tool.code}</span>
           </Link>

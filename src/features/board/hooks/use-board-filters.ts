@@ -74,5 +74,7 @@ function matches(tool: BoardTool, areaName: string, filters: BoardFilters): bool
 
 /** The board's areas with only the tools that pass the filters; empty areas are dropped. */
 export function filterBoard(data: BoardData, filters: BoardFilters): BoardArea[] {
-  return data.areas.map((area) => ({ ...area, tools: area.tools.filter((t) => matches(t, area.name, filters)) })).filter((area) => area.tools.length > 0);
+  return data.areas
+    .map((area) => ({ ...area, tools: area.tools.filter((t) => matches(t, area.name, filters)) }))
+    .filter((area) => area.tools.length > 0);
 }

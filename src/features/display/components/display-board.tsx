@@ -8,7 +8,6 @@ import { formatDuration } from '@/lib/time';
 import { useNow } from '@/lib/use-now';
 import type { DisplaySocketStatus } from '@/features/display/hooks/use-display-socket';
 
-
 function why(tool: BoardTool): string | null {
   return tool.note ?? (tool.reason !== 'none' ? REASON_LABELS[tool.reason] : null);
 }
@@ -17,8 +16,17 @@ function why(tool: BoardTool): string | null {
 function AttentionRow({ tool, now, dayTime }: { tool: BoardTool; now: number; dayTime: Intl.DateTimeFormat }) {
   const back = tool.expectedReturnAt ? new Date(tool.expectedReturnAt) : null;
   return (
-    <li className="flex min-w-0 items-center gap-[0.6em] border-b border-line py-[0.15em] last:border-0" data-testid={`display-tool-${tool.code}`} data-status={tool.status}>
-      <StateBadge status={tool.status} size="sm" className="shrink-0" label={tool.confirmed ? undefined : `${BOARD_LABELS[tool.status]}*`} />
+    <li
+      className="flex min-w-0 items-center gap-[0.6em] border-b border-line py-[0.15em] last:border-0"
+      data-testid={`display-tool-${tool.code}`}
+      data-status={tool.status}
+    >
+      <StateBadge
+        status={tool.status}
+        size="sm"
+        className="shrink-0"
+        label={tool.confirmed ? undefined : `${BOARD_LABELS[tool.status]}*`}
+      />
       <p className="min-w-0 flex-1 truncate">
         <span className="font-bold text-ink">{tool.name}</span> <span className="font-mono text-[0.8em] text-muted">{tool.code}</span>
         {why(tool) && <span className="text-ink"> · {why(tool)}</span>}
@@ -97,7 +105,9 @@ export function DisplayBoard({ name, data, status, areaCodes = [], timeZone }: D
   const areas = wanted.size ? data.areas.filter((a) => wanted.has(a.code.toUpperCase())) : data.areas;
   const tools = areas.flatMap((a) => a.tools);
   const counts = wanted.size ? countsOf(tools) : data.counts;
-  const attention = tools.filter((t) => t.status !== 'running').sort((a, b) => BOARD_LOOK[a.status].rank - BOARD_LOOK[b.status].rank || a.name.localeCompare(b.name));
+  const attention = tools
+    .filter((t) => t.status !== 'running')
+    .sort((a, b) => BOARD_LOOK[a.status].rank - BOARD_LOOK[b.status].rank || a.name.localeCompare(b.name));
   const worstFirst = [...BOARD_STATUSES].sort((a, b) => BOARD_LOOK[a].rank - BOARD_LOOK[b].rank);
   const anyUnconfirmed = attention.some((t) => !t.confirmed);
   const { clock, dayTime } = useMemo(
@@ -111,7 +121,11 @@ export function DisplayBoard({ name, data, status, areaCodes = [], timeZone }: D
   const { shown, page, pages } = usePagedAreas(areas, box);
 
   return (
-    <main className="flex h-dvh flex-col gap-[1.2vh] overflow-hidden bg-page p-[1.5vw] text-[max(14px,1.1vw)]" data-testid="display-board" data-pages={pages}>
+    <main
+      className="flex h-dvh flex-col gap-[1.2vh] overflow-hidden bg-page p-[1.5vw] text-[max(14px,1.1vw)]"
+      data-testid="display-board"
+      data-pages={pages}
+    >
       <header className="flex shrink-0 flex-wrap items-center gap-x-[1.5vw] gap-y-2">
         <div className="flex items-center gap-3">
           <FaultlineGlyph className="size-[2.6vw] min-h-8 min-w-8" />
@@ -134,12 +148,19 @@ export function DisplayBoard({ name, data, status, areaCodes = [], timeZone }: D
           </p>
           <p className="text-[0.85em] text-muted">{timeZone ?? ''}</p>
           <p className={cx('text-[0.85em] font-semibold', status === 'live' ? 'text-muted' : 'text-alert-danger-ink')} role="status">
-            {status === 'live' ? 'Live' : status === 'connecting' ? 'Connecting…' : 'Connection lost — reconnecting; the board may be out of date'}
+            {status === 'live'
+              ? 'Live'
+              : status === 'connecting'
+                ? 'Connecting…'
+                : 'Connection lost — reconnecting; the board may be out of date'}
           </p>
         </div>
       </header>
 
-      <section aria-labelledby="attention" className="max-h-[45%] shrink-0 overflow-hidden rounded-xl border-2 border-line bg-card px-[1vw] py-[0.6vh]">
+      <section
+        aria-labelledby="attention"
+        className="max-h-[45%] shrink-0 overflow-hidden rounded-xl border-2 border-line bg-card px-[1vw] py-[0.6vh]"
+      >
         <h2 id="attention" className="text-[1.3em] font-bold text-ink">
           {attention.length === 0 ? 'Every tool is running' : `Needs attention (${attention.length})`}
         </h2>
@@ -182,7 +203,8 @@ export function DisplayBoard({ name, data, status, areaCodes = [], timeZone }: D
       </section>
 
       <footer className="shrink-0 text-[0.85em] text-muted">
-        Scan a tool’s label to report a fault. This screen does not replace the facility’s alarms: in an emergency, follow the emergency procedures.
+        Scan a tool’s label to report a fault. This screen does not replace the facility’s alarms: in an emergency, follow the emergency
+        procedures.
       </footer>
     </main>
   );

@@ -3,7 +3,8 @@ export const adminKeys = {
   all: ['facility-admin'] as const,
   areas: (includeRetired: boolean) => [...adminKeys.all, 'areas', { includeRetired }] as const,
   toolLists: () => [...adminKeys.all, 'tools'] as const,
-  toolList: (filters: { q: string; areaId: number | null; includeRetired: boolean; offset: number }) => [...adminKeys.toolLists(), filters] as const,
+  toolList: (filters: { q: string; areaId: number | null; includeRetired: boolean; offset: number }) =>
+    [...adminKeys.toolLists(), filters] as const,
   tool: (id: number) => [...adminKeys.all, 'tool', id] as const,
   engineers: () => [...adminKeys.all, 'engineers'] as const,
   displayLinks: (includeRevoked: boolean) => [...adminKeys.all, 'display-links', { includeRevoked }] as const,

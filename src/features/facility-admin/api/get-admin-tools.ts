@@ -19,7 +19,11 @@ export function getAdminTools(f: AdminToolFilters, options: { signal?: AbortSign
 }
 
 export function adminToolsQueryOptions(f: AdminToolFilters) {
-  return queryOptions({ queryKey: adminKeys.toolList(f), queryFn: ({ signal }) => getAdminTools(f, { signal }), placeholderData: keepPreviousData });
+  return queryOptions({
+    queryKey: adminKeys.toolList(f),
+    queryFn: ({ signal }) => getAdminTools(f, { signal }),
+    placeholderData: keepPreviousData,
+  });
 }
 
 export function useAdminTools(f: AdminToolFilters) {

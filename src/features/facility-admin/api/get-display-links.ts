@@ -4,11 +4,17 @@ import { api } from '@/lib/api-client';
 import { adminKeys } from '@/features/facility-admin/api/admin-keys';
 
 export function getDisplayLinks(includeRevoked: boolean, options: { signal?: AbortSignal } = {}) {
-  return api.get<{ items: DisplayLinkItem[]; total: number }>('/api/admin/display-links', { ...options, params: { includeRevoked, limit: 200 } });
+  return api.get<{ items: DisplayLinkItem[]; total: number }>('/api/admin/display-links', {
+    ...options,
+    params: { includeRevoked, limit: 200 },
+  });
 }
 
 export function displayLinksQueryOptions(includeRevoked: boolean) {
-  return queryOptions({ queryKey: adminKeys.displayLinks(includeRevoked), queryFn: ({ signal }) => getDisplayLinks(includeRevoked, { signal }) });
+  return queryOptions({
+    queryKey: adminKeys.displayLinks(includeRevoked),
+    queryFn: ({ signal }) => getDisplayLinks(includeRevoked, { signal }),
+  });
 }
 
 export function useDisplayLinks(includeRevoked: boolean) {

@@ -41,10 +41,34 @@ function AreaForm({ area, onDone }: { area?: AdminArea; onDone: () => void }) {
   return (
     <form onSubmit={submit} noValidate className="grid gap-3 rounded-lg border border-line bg-sunken p-4 sm:grid-cols-2">
       <TextField label="Name" required value={name} onChange={(e) => setName(e.target.value)} errors={errors.name} maxLength={120} />
-      <TextField label="Code" required hint="Short, in capitals, e.g. LITHO" value={code} onChange={(e) => setCode(e.target.value)} errors={errors.code} maxLength={24} inputClassName="font-mono uppercase" />
-      <TextField label="Order on the board" type="number" value={sortOrder} onChange={(e) => setSortOrder(e.target.value)} errors={errors.sortOrder} />
-      <TextField label="Description (optional)" value={description} onChange={(e) => setDescription(e.target.value)} errors={errors.description} />
-      {failure && <Alert tone="danger" live className="sm:col-span-2">{failure.message}</Alert>}
+      <TextField
+        label="Code"
+        required
+        hint="Short, in capitals, e.g. LITHO"
+        value={code}
+        onChange={(e) => setCode(e.target.value)}
+        errors={errors.code}
+        maxLength={24}
+        inputClassName="font-mono uppercase"
+      />
+      <TextField
+        label="Order on the board"
+        type="number"
+        value={sortOrder}
+        onChange={(e) => setSortOrder(e.target.value)}
+        errors={errors.sortOrder}
+      />
+      <TextField
+        label="Description (optional)"
+        value={description}
+        onChange={(e) => setDescription(e.target.value)}
+        errors={errors.description}
+      />
+      {failure && (
+        <Alert tone="danger" live className="sm:col-span-2">
+          {failure.message}
+        </Alert>
+      )}
       <div className="flex gap-2 sm:col-span-2">
         <Button type="submit" busy={busy}>
           {area ? 'Save area' : 'Add area'}
@@ -76,7 +100,11 @@ export function AreasPanel() {
         </label>
       </div>
       {editing === 'new' && <AreaForm onDone={() => setEditing(null)} />}
-      {update.isError && <Alert tone="danger" live>{update.error.message}</Alert>}
+      {update.isError && (
+        <Alert tone="danger" live>
+          {update.error.message}
+        </Alert>
+      )}
       {areas.isPending && <Spinner label="Loading areas…" showLabel />}
       {areas.isError && <Alert tone="danger">{areas.error.message}</Alert>}
       {areas.data && (
@@ -94,7 +122,11 @@ export function AreasPanel() {
                 <Button variant="secondary" onClick={() => setEditing(a.id)}>
                   Edit
                 </Button>
-                <Button variant="secondary" busy={update.isPending && update.variables?.id === a.id} onClick={() => update.mutate({ id: a.id, input: { retired: !a.retiredAt } })}>
+                <Button
+                  variant="secondary"
+                  busy={update.isPending && update.variables?.id === a.id}
+                  onClick={() => update.mutate({ id: a.id, input: { retired: !a.retiredAt } })}
+                >
                   {a.retiredAt ? 'Restore' : 'Retire'}
                 </Button>
               </div>

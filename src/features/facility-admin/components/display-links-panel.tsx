@@ -31,7 +31,9 @@ function NewLinkNotice({ link }: { link: NewDisplayLink }) {
         {link.url}
       </p>
       <p className="mt-2" data-testid="display-bays-help">
-        To show only some bays (a screen that hangs in one bay), add their area codes to the address: <code className="font-mono">{link.url}?areas=LITHO,ETCH</code>. When the bays do not fit on the screen, the display pages through them by itself.
+        To show only some bays (a screen that hangs in one bay), add their area codes to the address:{' '}
+        <code className="font-mono">{link.url}?areas=LITHO,ETCH</code>. When the bays do not fit on the screen, the display pages through
+        them by itself.
       </p>
     </Alert>
   );
@@ -55,19 +57,35 @@ export function DisplayLinksPanel() {
   return (
     <div className="flex flex-col gap-5">
       <form onSubmit={submit} className="flex flex-wrap items-end gap-3">
-        <TextField label="Name of the screen" hint="Where it hangs, e.g. “Gowning room entrance”." value={name} onChange={(e) => setName(e.target.value)} maxLength={120} className="w-full sm:w-80" required />
+        <TextField
+          label="Name of the screen"
+          hint="Where it hangs, e.g. “Gowning room entrance”."
+          value={name}
+          onChange={(e) => setName(e.target.value)}
+          maxLength={120}
+          className="w-full sm:w-80"
+          required
+        />
         <Button type="submit" busy={create.isPending} disabled={!name.trim()}>
           Create display link
         </Button>
       </form>
-      {create.isError && <Alert tone="danger" live>{create.error.message}</Alert>}
+      {create.isError && (
+        <Alert tone="danger" live>
+          {create.error.message}
+        </Alert>
+      )}
       {create.data && <NewLinkNotice link={create.data} />}
 
       <label className="inline-flex min-h-11 items-center gap-2 text-sm text-ink">
         <input type="checkbox" className="size-5" checked={showRevoked} onChange={(e) => setShowRevoked(e.target.checked)} />
         Show revoked links
       </label>
-      {revoke.isError && <Alert tone="danger" live>{revoke.error.message}</Alert>}
+      {revoke.isError && (
+        <Alert tone="danger" live>
+          {revoke.error.message}
+        </Alert>
+      )}
       {links.isPending && <Spinner label="Loading display links…" showLabel />}
       {links.isError && <Alert tone="danger">{links.error.message}</Alert>}
       {links.data && links.data.items.length === 0 && <p className="text-sm text-muted">No display links yet.</p>}
@@ -82,7 +100,14 @@ export function DisplayLinksPanel() {
                 </p>
                 <p className="text-xs text-muted">
                   Created <RelativeTime value={l.createdAt} />
-                  {l.createdBy && ` by ${l.createdBy}`} · {l.lastSeenAt ? <>last seen <RelativeTime value={l.lastSeenAt} /></> : 'not opened yet'}
+                  {l.createdBy && ` by ${l.createdBy}`} ·{' '}
+                  {l.lastSeenAt ? (
+                    <>
+                      last seen <RelativeTime value={l.lastSeenAt} />
+                    </>
+                  ) : (
+                    'not opened yet'
+                  )}
                 </p>
               </div>
               {!l.revokedAt && confirming !== l.id && (
@@ -92,7 +117,11 @@ export function DisplayLinksPanel() {
               )}
               {!l.revokedAt && confirming === l.id && (
                 <>
-                  <Button variant="danger" busy={revoke.isPending} onClick={() => revoke.mutate(l.id, { onSettled: () => setConfirming(null) })}>
+                  <Button
+                    variant="danger"
+                    busy={revoke.isPending}
+                    onClick={() => revoke.mutate(l.id, { onSettled: () => setConfirming(null) })}
+                  >
                     Yes, revoke
                   </Button>
                   <Button variant="secondary" onClick={() => setConfirming(null)}>

@@ -22,7 +22,10 @@ export function FieldSelect({ label, errors, children, className, id, ...rest }:
         id={selectId}
         aria-invalid={errorId ? true : undefined}
         aria-describedby={errorId}
-        className={cx('min-h-11 rounded-lg border bg-card px-3 text-base text-ink amber:border-2', errorId ? 'border-2 border-state-down-fill' : 'border-control')}
+        className={cx(
+          'min-h-11 rounded-lg border bg-card px-3 text-base text-ink amber:border-2',
+          errorId ? 'border-2 border-state-down-fill' : 'border-control',
+        )}
         {...rest}
       >
         {children}

@@ -16,14 +16,24 @@ function ModuleRow({ module: m }: { module: AdminModule }) {
   const [errors, setErrors] = useState<FieldErrors>({});
   const save = (e: FormEvent) => {
     e.preventDefault();
-    update.mutate({ id: m.id, input: { name, code } }, { onSuccess: () => setEditing(false), onError: (err) => isApiError(err) && err.fields && setErrors(err.fields) });
+    update.mutate(
+      { id: m.id, input: { name, code } },
+      { onSuccess: () => setEditing(false), onError: (err) => isApiError(err) && err.fields && setErrors(err.fields) },
+    );
   };
   return (
     <li className="flex flex-col gap-2 py-2">
       {editing ? (
         <form onSubmit={save} noValidate className="flex flex-wrap items-end gap-2">
           <TextField label="Name" value={name} onChange={(e) => setName(e.target.value)} errors={errors.name} className="flex-1" />
-          <TextField label="Code" value={code} onChange={(e) => setCode(e.target.value)} errors={errors.code} className="w-32" inputClassName="font-mono uppercase" />
+          <TextField
+            label="Code"
+            value={code}
+            onChange={(e) => setCode(e.target.value)}
+            errors={errors.code}
+            className="w-32"
+            inputClassName="font-mono uppercase"
+          />
           <Button type="submit" busy={update.isPending}>
             Save
           </Button>
@@ -78,7 +88,9 @@ export function ModulesEditor({ tool }: { tool: AdminToolDetail }) {
   };
   return (
     <div className="flex flex-col gap-3">
-      {tool.modules.length === 0 ? <p className="text-sm text-muted">No modules.</p> : (
+      {tool.modules.length === 0 ? (
+        <p className="text-sm text-muted">No modules.</p>
+      ) : (
         <ul className="divide-y divide-line">
           {tool.modules.map((m) => (
             <ModuleRow key={`${m.id}-${m.name}-${m.code}-${m.retiredAt}`} module={m} />
@@ -87,8 +99,21 @@ export function ModulesEditor({ tool }: { tool: AdminToolDetail }) {
       )}
       {!tool.retiredAt && (
         <form onSubmit={add} noValidate className="flex flex-wrap items-end gap-2">
-          <TextField label="New module name" value={name} onChange={(e) => setName(e.target.value)} errors={errors.name} className="flex-1" />
-          <TextField label="Code" value={code} onChange={(e) => setCode(e.target.value)} errors={errors.code} className="w-32" inputClassName="font-mono uppercase" />
+          <TextField
+            label="New module name"
+            value={name}
+            onChange={(e) => setName(e.target.value)}
+            errors={errors.name}
+            className="flex-1"
+          />
+          <TextField
+            label="Code"
+            value={code}
+            onChange={(e) => setCode(e.target.value)}
+            errors={errors.code}
+            className="w-32"
+            inputClassName="font-mono uppercase"
+          />
           <Button type="submit" variant="secondary" busy={create.isPending}>
             Add module
           </Button>

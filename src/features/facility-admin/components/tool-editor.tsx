@@ -14,7 +14,11 @@ import { useEngineers } from '@/features/facility-admin/api/get-engineers';
 import { FieldSelect } from '@/features/facility-admin/components/field-select';
 import { ModulesEditor } from '@/features/facility-admin/components/modules-editor';
 
-const CRITICALITY_WORDS: Record<(typeof CRITICALITIES)[number], string> = { high: 'High — many users depend on it', normal: 'Normal', low: 'Low — alternatives exist' };
+const CRITICALITY_WORDS: Record<(typeof CRITICALITIES)[number], string> = {
+  high: 'High — many users depend on it',
+  normal: 'Normal',
+  low: 'Low — alternatives exist',
+};
 
 function toFields(issues: { path: PropertyKey[]; message: string }[]): FieldErrors {
   const out: FieldErrors = {};
@@ -62,7 +66,10 @@ function ToolForm({ tool, onDone, onCancel }: ToolFormProps) {
     const onError = (error: Error) => isApiError(error) && error.fields && setErrors(error.fields);
     if (tool) {
       const { modules: _m, ...fields } = checked.data;
-      update.mutate({ id: tool.id, input: { ...fields, version: tool.version } }, { onSuccess: () => onDone(`Saved ${fields.name}.`), onError });
+      update.mutate(
+        { id: tool.id, input: { ...fields, version: tool.version } },
+        { onSuccess: () => onDone(`Saved ${fields.name}.`), onError },
+      );
     } else {
       create.mutate(checked.data, { onSuccess: (t) => onDone(`Added ${t.name} (${t.code}). It starts as Running (standby).`), onError });
     }
@@ -82,8 +89,29 @@ function ToolForm({ tool, onDone, onCancel }: ToolFormProps) {
 
   return (
     <form onSubmit={submit} noValidate className="grid gap-4 sm:grid-cols-2" aria-label={tool ? `Edit ${tool.name}` : 'New tool'}>
-      <TextField label="Name" required value={name} onChange={(e) => setName(e.target.value)} errors={errors.name} maxLength={120} hint="A plain description, e.g. “ICP etcher 2”." />
-      <TextField label="Code" required value={code} onChange={(e) => setCode(e.target.value)} errors={errors.code} maxLength={32} hint={tool ? 'Used in addresses and on labels: changing it means printing its label again.' : 'Used in addresses and on labels, e.g. ICP-2.'} inputClassName="font-mono uppercase" />
+      <TextField
+        label="Name"
+        required
+        value={name}
+        onChange={(e) => setName(e.target.value)}
+        errors={errors.name}
+        maxLength={120}
+        hint="A plain description, e.g. “ICP etcher 2”."
+      />
+      <TextField
+        label="Code"
+        required
+        value={code}
+        onChange={(e) => setCode(e.target.value)}
+        errors={errors.code}
+        maxLength={32}
+        hint={
+          tool
+            ? 'Used in addresses and on labels: changing it means printing its label again.'
+            : 'Used in addresses and on labels, e.g. ICP-2.'
+        }
+        inputClassName="font-mono uppercase"
+      />
       <FieldSelect label="Area" value={areaId} onChange={(e) => setAreaId(e.target.value)} errors={errors.areaId}>
         <option value="">Choose an area</option>
         {areas.data?.items.map((a) => (
@@ -92,7 +120,12 @@ function ToolForm({ tool, onDone, onCancel }: ToolFormProps) {
           </option>
         ))}
       </FieldSelect>
-      <FieldSelect label="Criticality" value={criticality} onChange={(e) => setCriticality(e.target.value as typeof criticality)} errors={errors.criticality}>
+      <FieldSelect
+        label="Criticality"
+        value={criticality}
+        onChange={(e) => setCriticality(e.target.value as typeof criticality)}
+        errors={errors.criticality}
+      >
         {CRITICALITIES.map((c) => (
           <option key={c} value={c}>
             {CRITICALITY_WORDS[c]}
@@ -105,16 +138,39 @@ function ToolForm({ tool, onDone, onCancel }: ToolFormProps) {
       <FieldSelect label="Backup engineer" value={backup} onChange={(e) => setBackup(e.target.value)} errors={errors.backupEngineerId}>
         {engineerChoices}
       </FieldSelect>
-      <TextField label="Description (optional)" value={description} onChange={(e) => setDescription(e.target.value)} errors={errors.description} className="sm:col-span-2" />
+      <TextField
+        label="Description (optional)"
+        value={description}
+        onChange={(e) => setDescription(e.target.value)}
+        errors={errors.description}
+        className="sm:col-span-2"
+      />
 
       {!tool && (
         <fieldset className="flex flex-col gap-2 sm:col-span-2">
           <legend className="mb-1 text-sm font-semibold text-ink">Modules (optional): chambers, bowls, tubes, stations</legend>
           {modules.map((m, i) => (
             <div key={i} className="flex flex-wrap items-end gap-2">
-              <TextField label={`Module ${i + 1} name`} value={m.name} onChange={(e) => setModules(modules.map((x, j) => (j === i ? { ...x, name: e.target.value } : x)))} errors={errors[`modules.${i}.name`]} className="flex-1" />
-              <TextField label="Code" value={m.code} onChange={(e) => setModules(modules.map((x, j) => (j === i ? { ...x, code: e.target.value } : x)))} errors={errors[`modules.${i}.code`]} className="w-32" inputClassName="font-mono uppercase" />
-              <Button variant="secondary" onClick={() => setModules(modules.filter((_, j) => j !== i))} aria-label={`Remove module ${i + 1}`}>
+              <TextField
+                label={`Module ${i + 1} name`}
+                value={m.name}
+                onChange={(e) => setModules(modules.map((x, j) => (j === i ? { ...x, name: e.target.value } : x)))}
+                errors={errors[`modules.${i}.name`]}
+                className="flex-1"
+              />
+              <TextField
+                label="Code"
+                value={m.code}
+                onChange={(e) => setModules(modules.map((x, j) => (j === i ? { ...x, code: e.target.value } : x)))}
+                errors={errors[`modules.${i}.code`]}
+                className="w-32"
+                inputClassName="font-mono uppercase"
+              />
+              <Button
+                variant="secondary"
+                onClick={() => setModules(modules.filter((_, j) => j !== i))}
+                aria-label={`Remove module ${i + 1}`}
+              >
                 Remove
               </Button>
             </div>
@@ -158,7 +214,11 @@ export function ToolEditor({ toolId, onClose }: { toolId: number | null; onClose
   const retired = Boolean(t.retiredAt);
   return (
     <div className="flex flex-col gap-6">
-      {retired && <Alert tone="info" title="Retired">This tool is retired: it is off the board and its state can no longer change. Its history stays.</Alert>}
+      {retired && (
+        <Alert tone="info" title="Retired">
+          This tool is retired: it is off the board and its state can no longer change. Its history stays.
+        </Alert>
+      )}
       <ToolForm key={t.version} tool={t} onDone={(m) => onClose(m)} onCancel={() => onClose()} />
       <section className="flex flex-col gap-3">
         <h3 className="font-semibold text-ink">Modules</h3>
@@ -167,9 +227,15 @@ export function ToolEditor({ toolId, onClose }: { toolId: number | null; onClose
       <section className="flex flex-col gap-2 border-t border-line pt-4">
         <h3 className="font-semibold text-ink">{retired ? 'Bring back into service' : 'Retire this tool'}</h3>
         <p className="text-sm text-muted">
-          {retired ? 'It returns to the board as Offline until a technician sets its state.' : 'It goes Offline and leaves the board; its history, tickets and page stay.'}
+          {retired
+            ? 'It returns to the board as Offline until a technician sets its state.'
+            : 'It goes Offline and leaves the board; its history, tickets and page stay.'}
         </p>
-        {update.isError && <Alert tone="danger" live>{update.error.message}</Alert>}
+        {update.isError && (
+          <Alert tone="danger" live>
+            {update.error.message}
+          </Alert>
+        )}
         <div className="flex flex-wrap gap-2">
           {!retired && !confirmRetire && (
             <Button variant="danger" onClick={() => setConfirmRetire(true)}>
@@ -178,7 +244,16 @@ export function ToolEditor({ toolId, onClose }: { toolId: number | null; onClose
           )}
           {!retired && confirmRetire && (
             <>
-              <Button variant="danger" busy={update.isPending} onClick={() => update.mutate({ id: t.id, input: { version: t.version, retired: true } }, { onSuccess: () => onClose(`Retired ${t.name}.`) })}>
+              <Button
+                variant="danger"
+                busy={update.isPending}
+                onClick={() =>
+                  update.mutate(
+                    { id: t.id, input: { version: t.version, retired: true } },
+                    { onSuccess: () => onClose(`Retired ${t.name}.`) },
+                  )
+                }
+              >
                 Yes, retire {t.code}
               </Button>
               <Button variant="secondary" onClick={() => setConfirmRetire(false)}>
@@ -187,7 +262,16 @@ export function ToolEditor({ toolId, onClose }: { toolId: number | null; onClose
             </>
           )}
           {retired && (
-            <Button variant="secondary" busy={update.isPending} onClick={() => update.mutate({ id: t.id, input: { version: t.version, retired: false } }, { onSuccess: () => onClose(`${t.name} is back in service.`) })}>
+            <Button
+              variant="secondary"
+              busy={update.isPending}
+              onClick={() =>
+                update.mutate(
+                  { id: t.id, input: { version: t.version, retired: false } },
+                  { onSuccess: () => onClose(`${t.name} is back in service.`) },
+                )
+              }
+            >
               Bring back
             </Button>
           )}

@@ -41,9 +41,34 @@ export function ToolsPanel() {
         </Alert>
       )}
       <div className="flex flex-wrap items-end gap-3">
-        <Button onClick={() => { setMessage(null); setEditing('new'); }}>Add a tool</Button>
-        <TextField label="Search" type="search" placeholder="Name or code" value={q} onChange={(e) => { setQ(e.target.value); setOffset(0); }} className="w-full sm:w-64" />
-        <FieldSelect label="Area" value={areaId ?? ''} onChange={(e) => { setAreaId(e.target.value ? Number(e.target.value) : null); setOffset(0); }} className="w-full sm:w-56">
+        <Button
+          onClick={() => {
+            setMessage(null);
+            setEditing('new');
+          }}
+        >
+          Add a tool
+        </Button>
+        <TextField
+          label="Search"
+          type="search"
+          placeholder="Name or code"
+          value={q}
+          onChange={(e) => {
+            setQ(e.target.value);
+            setOffset(0);
+          }}
+          className="w-full sm:w-64"
+        />
+        <FieldSelect
+          label="Area"
+          value={areaId ?? ''}
+          onChange={(e) => {
+            setAreaId(e.target.value ? Number(e.target.value) : null);
+            setOffset(0);
+          }}
+          className="w-full sm:w-56"
+        >
           <option value="">All areas</option>
           {areas.data?.items.map((a) => (
             <option key={a.id} value={a.id}>
@@ -52,7 +77,15 @@ export function ToolsPanel() {
           ))}
         </FieldSelect>
         <label className="inline-flex min-h-11 items-center gap-2 text-sm text-ink">
-          <input type="checkbox" className="size-5" checked={includeRetired} onChange={(e) => { setIncludeRetired(e.target.checked); setOffset(0); }} />
+          <input
+            type="checkbox"
+            className="size-5"
+            checked={includeRetired}
+            onChange={(e) => {
+              setIncludeRetired(e.target.checked);
+              setOffset(0);
+            }}
+          />
           Show retired tools
         </label>
       </div>
@@ -65,18 +98,29 @@ export function ToolsPanel() {
               <caption className="sr-only">Tools</caption>
               <thead className="border-b border-line bg-sunken text-xs font-semibold tracking-wide text-muted uppercase">
                 <tr>
-                  <th scope="col" className="px-3 py-2">Tool</th>
-                  <th scope="col" className="hidden px-3 py-2 md:table-cell">Area</th>
-                  <th scope="col" className="hidden px-3 py-2 lg:table-cell">Engineers</th>
-                  <th scope="col" className="hidden px-3 py-2 sm:table-cell">Modules</th>
-                  <th scope="col" className="px-3 py-2"><span className="sr-only">Actions</span></th>
+                  <th scope="col" className="px-3 py-2">
+                    Tool
+                  </th>
+                  <th scope="col" className="hidden px-3 py-2 md:table-cell">
+                    Area
+                  </th>
+                  <th scope="col" className="hidden px-3 py-2 lg:table-cell">
+                    Engineers
+                  </th>
+                  <th scope="col" className="hidden px-3 py-2 sm:table-cell">
+                    Modules
+                  </th>
+                  <th scope="col" className="px-3 py-2">
+                    <span className="sr-only">Actions</span>
+                  </th>
                 </tr>
               </thead>
               <tbody>
                 {tools.data.items.map((t) => (
                   <tr key={t.id} className="border-b border-line last:border-0">
                     <td className="px-3 py-2">
-                      <span className="font-semibold text-ink">{t.name}</span> <span className="font-mono text-xs text-muted">{t.code}</span>
+                      <span className="font-semibold text-ink">{t.name}</span>{' '}
+                      <span className="font-mono text-xs text-muted">{t.code}</span>
                       {t.retiredAt && <span className="ml-2 text-xs font-semibold text-muted uppercase">Retired</span>}
                       {t.criticality !== 'normal' && <span className="block text-xs text-muted">Criticality: {t.criticality}</span>}
                     </td>
@@ -87,7 +131,14 @@ export function ToolsPanel() {
                     </td>
                     <td className="hidden px-3 py-2 tabular-nums sm:table-cell">{t.moduleCount}</td>
                     <td className="px-3 py-2 text-right">
-                      <Button variant="secondary" onClick={() => { setMessage(null); setEditing(t.id); }} aria-label={`Edit ${t.name}`}>
+                      <Button
+                        variant="secondary"
+                        onClick={() => {
+                          setMessage(null);
+                          setEditing(t.id);
+                        }}
+                        aria-label={`Edit ${t.name}`}
+                      >
                         Edit
                       </Button>
                     </td>
@@ -101,9 +152,15 @@ export function ToolsPanel() {
               Previous
             </Button>
             <span className="text-sm text-muted tabular-nums">
-              {tools.data.total === 0 ? 'No tools' : `${offset + 1}–${Math.min(offset + ADMIN_TOOLS_PAGE, tools.data.total)} of ${tools.data.total}`}
+              {tools.data.total === 0
+                ? 'No tools'
+                : `${offset + 1}–${Math.min(offset + ADMIN_TOOLS_PAGE, tools.data.total)} of ${tools.data.total}`}
             </span>
-            <Button variant="secondary" disabled={offset + ADMIN_TOOLS_PAGE >= tools.data.total} onClick={() => setOffset(offset + ADMIN_TOOLS_PAGE)}>
+            <Button
+              variant="secondary"
+              disabled={offset + ADMIN_TOOLS_PAGE >= tools.data.total}
+              onClick={() => setOffset(offset + ADMIN_TOOLS_PAGE)}
+            >
               Next
             </Button>
           </nav>

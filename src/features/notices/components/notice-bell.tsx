@@ -38,12 +38,16 @@ export function NoticeBell() {
   }, [shown]);
 
   return (
-    <div ref={wrapper} className="relative" onKeyDown={(e) => {
-      if (e.key === 'Escape' && shown) {
-        setOpen(false);
-        button.current?.focus();
-      }
-    }}>
+    <div
+      ref={wrapper}
+      className="relative"
+      onKeyDown={(e) => {
+        if (e.key === 'Escape' && shown) {
+          setOpen(false);
+          button.current?.focus();
+        }
+      }}
+    >
       <button
         ref={button}
         type="button"
@@ -58,17 +62,32 @@ export function NoticeBell() {
         className="relative inline-flex min-h-11 min-w-11 items-center justify-center rounded-lg border border-control bg-card text-ink hover:bg-sunken amber:border-2"
       >
         <svg viewBox="0 0 20 20" className="size-5" aria-hidden="true">
-          <path d="M10 2.5a5 5 0 0 0-5 5v3.2L3.3 14h13.4L15 10.7V7.5a5 5 0 0 0-5-5Zm-2 13a2 2 0 0 0 4 0" fill="none" stroke="currentColor" strokeWidth="1.6" strokeLinejoin="round" />
+          <path
+            d="M10 2.5a5 5 0 0 0-5 5v3.2L3.3 14h13.4L15 10.7V7.5a5 5 0 0 0-5-5Zm-2 13a2 2 0 0 0 4 0"
+            fill="none"
+            stroke="currentColor"
+            strokeWidth="1.6"
+            strokeLinejoin="round"
+          />
         </svg>
         {unread > 0 && (
-          <span className="absolute -top-1.5 -right-1.5 min-w-5 rounded-full bg-danger px-1 text-center text-xs leading-5 font-bold text-on-danger tabular-nums" aria-hidden="true" data-testid="notice-count">
+          <span
+            className="absolute -top-1.5 -right-1.5 min-w-5 rounded-full bg-danger px-1 text-center text-xs leading-5 font-bold text-on-danger tabular-nums"
+            aria-hidden="true"
+            data-testid="notice-count"
+          >
             {unread > 99 ? '99+' : unread}
           </span>
         )}
       </button>
 
       {shown && (
-        <div id={panelId} role="region" aria-label="Notices" className="fixed inset-x-4 top-16 z-40 rounded-xl sm:absolute sm:inset-x-auto sm:top-auto sm:right-0 sm:mt-2 sm:w-96 border border-line bg-card shadow-lg amber:border-2">
+        <div
+          id={panelId}
+          role="region"
+          aria-label="Notices"
+          className="fixed inset-x-4 top-16 z-40 rounded-xl sm:absolute sm:inset-x-auto sm:top-auto sm:right-0 sm:mt-2 sm:w-96 border border-line bg-card shadow-lg amber:border-2"
+        >
           <div className="flex items-center justify-between gap-2 border-b border-line px-4 py-2">
             <h2 className="font-semibold text-ink">Notices</h2>
             <Button variant="ghost" disabled={unread === 0} busy={markAll.isPending} onClick={() => markAll.mutate()}>
@@ -80,7 +99,9 @@ export function NoticeBell() {
               <Spinner label="Loading notices…" showLabel />
             </div>
           )}
-          {notices.data && notices.data.items.length === 0 && <p className="p-4 text-sm text-muted">Nothing yet. Follow a tool to be told when its state changes.</p>}
+          {notices.data && notices.data.items.length === 0 && (
+            <p className="p-4 text-sm text-muted">Nothing yet. Follow a tool to be told when its state changes.</p>
+          )}
           {notices.data && notices.data.items.length > 0 && (
             <ul className="max-h-[60vh] divide-y divide-line overflow-y-auto">
               {notices.data.items.map((n) => (
@@ -102,7 +123,12 @@ export function NoticeBell() {
                     </p>
                   </div>
                   {!n.readAt && (
-                    <Button variant="ghost" className="shrink-0 text-xs" onClick={() => markRead.mutate(n.id)} aria-label={`Mark “${n.title}” read`}>
+                    <Button
+                      variant="ghost"
+                      className="shrink-0 text-xs"
+                      onClick={() => markRead.mutate(n.id)}
+                      aria-label={`Mark “${n.title}” read`}
+                    >
                       Read
                     </Button>
                   )}

@@ -14,11 +14,17 @@ export const queueKeys = {
 /** Areas and tools for the queue's filters, taken from the board (the one list of every tool). */
 export async function getFilterOptions(options: { signal?: AbortSignal } = {}): Promise<FilterOptions> {
   const board = await api.get<BoardData>('/api/board', options);
-  return { areas: board.areas.map((a) => ({ id: a.id, name: a.name, tools: a.tools.map((t) => ({ id: t.id, code: t.code, name: t.name })) })) };
+  return {
+    areas: board.areas.map((a) => ({ id: a.id, name: a.name, tools: a.tools.map((t) => ({ id: t.id, code: t.code, name: t.name })) })),
+  };
 }
 
 export function filterOptionsQueryOptions() {
-  return queryOptions({ queryKey: queueKeys.filterOptions(), queryFn: ({ signal }) => getFilterOptions({ signal }), staleTime: 10 * 60_000 });
+  return queryOptions({
+    queryKey: queueKeys.filterOptions(),
+    queryFn: ({ signal }) => getFilterOptions({ signal }),
+    staleTime: 10 * 60_000,
+  });
 }
 
 export function useFilterOptions() {

@@ -6,9 +6,20 @@ import { cx } from '@/lib/cx';
 import { QUEUE_TOGGLES, TOGGLE_LABELS } from '@/features/queue/hooks/use-queue-filters';
 import { useFilterOptions } from '@/features/queue/api/get-filter-options';
 
-const SELECT = 'min-h-11 w-full min-w-0 rounded-lg border border-control bg-card px-3 py-2 text-sm text-ink sm:w-auto sm:max-w-xs amber:border-2';
+const SELECT =
+  'min-h-11 w-full min-w-0 rounded-lg border border-control bg-card px-3 py-2 text-sm text-ink sm:w-auto sm:max-w-xs amber:border-2';
 
-function Select({ label, value, onChange, children }: { label: string; value: string; onChange: (v: string) => void; children: React.ReactNode }) {
+function Select({
+  label,
+  value,
+  onChange,
+  children,
+}: {
+  label: string;
+  value: string;
+  onChange: (v: string) => void;
+  children: React.ReactNode;
+}) {
   const id = useId();
   return (
     <div className="flex w-full min-w-0 flex-col gap-1 sm:w-auto">
@@ -22,7 +33,15 @@ function Select({ label, value, onChange, children }: { label: string; value: st
   );
 }
 
-export function QueueFilters({ filters, update, clear }: { filters: TicketListQuery; update: (change: Record<string, string | null>) => void; clear: () => void }) {
+export function QueueFilters({
+  filters,
+  update,
+  clear,
+}: {
+  filters: TicketListQuery;
+  update: (change: Record<string, string | null>) => void;
+  clear: () => void;
+}) {
   const options = useFilterOptions();
   const area = options.data?.areas.find((a) => a.id === filters.areaId);
   const tools = (area ? [area] : (options.data?.areas ?? [])).flatMap((a) => a.tools);
@@ -45,7 +64,11 @@ export function QueueFilters({ filters, update, clear }: { filters: TicketListQu
               )}
             >
               <svg viewBox="0 0 16 16" className="size-4" aria-hidden="true">
-                {on ? <path d="M3 8.5l3 3 7-7" fill="none" stroke="currentColor" strokeWidth="2" strokeLinecap="round" /> : <circle cx="8" cy="8" r="5" fill="none" stroke="currentColor" strokeWidth="1.5" />}
+                {on ? (
+                  <path d="M3 8.5l3 3 7-7" fill="none" stroke="currentColor" strokeWidth="2" strokeLinecap="round" />
+                ) : (
+                  <circle cx="8" cy="8" r="5" fill="none" stroke="currentColor" strokeWidth="1.5" />
+                )}
               </svg>
               {TOGGLE_LABELS[t]}
             </button>

@@ -16,11 +16,22 @@ function form(body: unknown, photos: readonly { blob: Blob; name: string }[]) {
 }
 
 /** A new report with its photos in one multipart request, with upload progress. */
-export function createReport(input: ReportInput, photos: readonly { blob: Blob; name: string }[], onProgress?: ProgressHandler, signal?: AbortSignal) {
+export function createReport(
+  input: ReportInput,
+  photos: readonly { blob: Blob; name: string }[],
+  onProgress?: ProgressHandler,
+  signal?: AbortSignal,
+) {
   return api.upload<SentReport>('/api/tickets', form(input, photos), onProgress, { signal });
 }
 
 /** "I see it too": the report goes onto an open ticket instead. */
-export function addReport(ticketId: number, input: AddReportInput, photos: readonly { blob: Blob; name: string }[], onProgress?: ProgressHandler, signal?: AbortSignal) {
+export function addReport(
+  ticketId: number,
+  input: AddReportInput,
+  photos: readonly { blob: Blob; name: string }[],
+  onProgress?: ProgressHandler,
+  signal?: AbortSignal,
+) {
   return api.upload<SentReport>(`/api/tickets/${ticketId}/reports`, form(input, photos), onProgress, { signal });
 }

@@ -41,7 +41,14 @@ export function RadioCards<T extends string>({
       <div className={cx('grid gap-2', columns === 2 && 'sm:grid-cols-2')}>
         {choices.map((c) => (
           <label key={c.value} className={cx(CARD, 'border-control')}>
-            <input type="radio" name={name} value={c.value} checked={value === c.value} onChange={() => onChange(c.value)} className="mt-0.5 size-6 shrink-0 accent-[var(--color-accent)]" />
+            <input
+              type="radio"
+              name={name}
+              value={c.value}
+              checked={value === c.value}
+              onChange={() => onChange(c.value)}
+              className="mt-0.5 size-6 shrink-0 accent-[var(--color-accent)]"
+            />
             <span className="min-w-0">
               <span className="block font-semibold text-ink">{c.label}</span>
               {c.help && <span className="block text-sm text-muted">{c.help}</span>}
@@ -58,7 +65,21 @@ export function RadioCards<T extends string>({
   );
 }
 
-export function CheckCards<T extends string>({ legend, hint, choices, values, onChange, tone = 'normal' }: { legend: ReactNode; hint?: ReactNode; choices: Choice<T>[]; values: T[]; onChange: (v: T[]) => void; tone?: 'normal' | 'danger' }) {
+export function CheckCards<T extends string>({
+  legend,
+  hint,
+  choices,
+  values,
+  onChange,
+  tone = 'normal',
+}: {
+  legend: ReactNode;
+  hint?: ReactNode;
+  choices: Choice<T>[];
+  values: T[];
+  onChange: (v: T[]) => void;
+  tone?: 'normal' | 'danger';
+}) {
   return (
     <fieldset className="flex flex-col gap-2">
       <legend className="mb-1 text-base font-semibold text-ink">{legend}</legend>
@@ -67,8 +88,20 @@ export function CheckCards<T extends string>({ legend, hint, choices, values, on
         {choices.map((c) => {
           const on = values.includes(c.value);
           return (
-            <label key={c.value} className={cx(CARD, 'border-control', tone === 'danger' && on && 'has-[:checked]:border-alert-danger-ink has-[:checked]:bg-alert-danger-tint')}>
-              <input type="checkbox" checked={on} onChange={() => onChange(on ? values.filter((v) => v !== c.value) : [...values, c.value])} className="mt-0.5 size-6 shrink-0 accent-[var(--color-accent)]" />
+            <label
+              key={c.value}
+              className={cx(
+                CARD,
+                'border-control',
+                tone === 'danger' && on && 'has-[:checked]:border-alert-danger-ink has-[:checked]:bg-alert-danger-tint',
+              )}
+            >
+              <input
+                type="checkbox"
+                checked={on}
+                onChange={() => onChange(on ? values.filter((v) => v !== c.value) : [...values, c.value])}
+                className="mt-0.5 size-6 shrink-0 accent-[var(--color-accent)]"
+              />
               <span className="font-semibold text-ink">{c.label}</span>
             </label>
           );

@@ -3,7 +3,13 @@ import type { TicketSummary } from '@shared/schemas/tickets';
 import { Button } from '@/components/ui/button';
 import { RelativeTime } from '@/components/ui/relative-time';
 
-const words = (s: string) => new Set(s.toLowerCase().split(/[^a-z0-9]+/).filter((w) => w.length > 2));
+const words = (s: string) =>
+  new Set(
+    s
+      .toLowerCase()
+      .split(/[^a-z0-9]+/)
+      .filter((w) => w.length > 2),
+  );
 
 /** Open tickets ranked by how many words they share with what is being typed. */
 export function rankBySimilarity(items: TicketSummary[], typed: string) {
@@ -20,11 +26,17 @@ export function DuplicateList({ items, typed, onAddTo }: { items: TicketSummary[
   if (items.length === 0) return null;
   const ranked = rankBySimilarity(items, typed);
   return (
-    <section aria-labelledby="dupes-title" className="flex flex-col gap-2 rounded-xl border-2 border-accent/40 bg-accent-tint p-4 amber:border-black" data-testid="duplicates">
+    <section
+      aria-labelledby="dupes-title"
+      className="flex flex-col gap-2 rounded-xl border-2 border-accent/40 bg-accent-tint p-4 amber:border-black"
+      data-testid="duplicates"
+    >
       <h2 id="dupes-title" className="text-base font-semibold text-accent-ink">
         Already reported on this tool ({items.length} open)
       </h2>
-      <p className="text-sm text-accent-ink">If it is the same problem, add your report to it instead of opening a new one. Your text and photos stay with your name.</p>
+      <p className="text-sm text-accent-ink">
+        If it is the same problem, add your report to it instead of opening a new one. Your text and photos stay with your name.
+      </p>
       <ul className="flex flex-col gap-2">
         {ranked.map(({ t, score }) => (
           <li key={t.id} className="flex flex-col gap-2 rounded-lg border border-line bg-card p-3 sm:flex-row sm:items-center">

@@ -26,11 +26,33 @@ function WaferStepper({ value, onChange }: { value: number; onChange: (n: number
         Wafers left in the tool
       </label>
       <div className="flex items-center gap-2">
-        <Button size="lg" variant="secondary" aria-label="One wafer fewer" disabled={value <= 0} onClick={() => onChange(Math.max(0, value - 1))} className="w-14 text-2xl">
+        <Button
+          size="lg"
+          variant="secondary"
+          aria-label="One wafer fewer"
+          disabled={value <= 0}
+          onClick={() => onChange(Math.max(0, value - 1))}
+          className="w-14 text-2xl"
+        >
           −
         </Button>
-        <input id={id} type="number" inputMode="numeric" min={0} max={1000} value={value} onChange={(e) => onChange(Math.max(0, Math.min(1000, Number(e.target.value) || 0)))} className="min-h-13 w-24 rounded-xl border border-control bg-card text-center text-xl font-semibold tabular-nums amber:border-2" />
-        <Button size="lg" variant="secondary" aria-label="One wafer more" onClick={() => onChange(Math.min(1000, value + 1))} className="w-14 text-2xl">
+        <input
+          id={id}
+          type="number"
+          inputMode="numeric"
+          min={0}
+          max={1000}
+          value={value}
+          onChange={(e) => onChange(Math.max(0, Math.min(1000, Number(e.target.value) || 0)))}
+          className="min-h-13 w-24 rounded-xl border border-control bg-card text-center text-xl font-semibold tabular-nums amber:border-2"
+        />
+        <Button
+          size="lg"
+          variant="secondary"
+          aria-label="One wafer more"
+          onClick={() => onChange(Math.min(1000, value + 1))}
+          className="w-14 text-2xl"
+        >
           +
         </Button>
       </div>
@@ -72,13 +94,15 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
 
   // A tool from the QR label (or a link) fills the form, unless it would replace someone's unsent words.
   const byCode = useToolChoices({ code: code ?? undefined }, Boolean(code) && draft.toolCode !== code);
-  const applyTool = (tool: ToolChoice, keep = true) => update({ toolId: tool.id, toolCode: tool.code, toolName: tool.name, moduleId: null, addToTicketId: keep ? draft.addToTicketId : null });
+  const applyTool = (tool: ToolChoice, keep = true) =>
+    update({ toolId: tool.id, toolCode: tool.code, toolName: tool.name, moduleId: null, addToTicketId: keep ? draft.addToTicketId : null });
   // Only a tool whose code was in the address may fill the form: the lookup's cache entry (and its
   // placeholder) is shared with the search list, so without this check the first tool of any
   // list would be picked by itself.
   const lookedUp = code ? byCode.data?.items.find((t) => t.code.toUpperCase() === code) : undefined;
   useEffect(() => {
-    if (lookedUp && !otherToolDraft && draft.toolId !== lookedUp.id) update({ toolId: lookedUp.id, toolCode: lookedUp.code, toolName: lookedUp.name, moduleId: null });
+    if (lookedUp && !otherToolDraft && draft.toolId !== lookedUp.id)
+      update({ toolId: lookedUp.id, toolCode: lookedUp.code, toolName: lookedUp.name, moduleId: null });
   }, [lookedUp, otherToolDraft, draft.toolId, update]);
   useEffect(() => {
     if (addTo && !draft.addToTicketId && !otherToolDraft) update({ addToTicketId: addTo });
@@ -132,10 +156,14 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
   };
 
   return (
-    <form onSubmit={submit} noValidate className="mx-auto flex max-w-2xl flex-col gap-6" aria-label="Report a fault" data-testid="report-form">
-      <p className="text-sm text-muted">
-        In an emergency, leave the area and raise the facility alarm first. Report here afterwards.
-      </p>
+    <form
+      onSubmit={submit}
+      noValidate
+      className="mx-auto flex max-w-2xl flex-col gap-6"
+      aria-label="Report a fault"
+      data-testid="report-form"
+    >
+      <p className="text-sm text-muted">In an emergency, leave the area and raise the facility alarm first. Report here afterwards.</p>
 
       {state === 'waiting' && (
         <Alert
@@ -148,7 +176,8 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
             </Button>
           }
         >
-          Faultline could not be reached. Your report and photos are kept on this device and go out by themselves as soon as the connection is back. You can close this page.
+          Faultline could not be reached. Your report and photos are kept on this device and go out by themselves as soon as the connection
+          is back. You can close this page.
         </Alert>
       )}
       {endedElsewhere && (
@@ -205,7 +234,9 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
       )}
 
       {draft.toolId && (tool || draft.toolName) ? (
-        <ChosenTool tool={tool ?? { name: draft.toolName ?? '', code: draft.toolCode ?? '' }} onChange={
+        <ChosenTool
+          tool={tool ?? { name: draft.toolName ?? '', code: draft.toolCode ?? '' }}
+          onChange={
             adding
               ? undefined
               : () => {
@@ -213,7 +244,8 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
                   // Drop ?tool= too, or the QR code would put the same tool straight back.
                   if (code) navigate('/report', { replace: true });
                 }
-          } />
+          }
+        />
       ) : code && byCode.isPending ? (
         <Spinner label={`Finding ${code}…`} showLabel />
       ) : (
@@ -240,25 +272,60 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
           Your text, photos and answers are added to that ticket under your name, and you will hear when it is fixed.
         </Alert>
       ) : (
-        draft.toolId && open.data && <DuplicateList items={open.data.items} typed={`${draft.description} ${draft.alarmText}`} onAddTo={(t) => update({ addToTicketId: t.id })} />
+        draft.toolId &&
+        open.data && (
+          <DuplicateList
+            items={open.data.items}
+            typed={`${draft.description} ${draft.alarmText}`}
+            onAddTo={(t) => update({ addToTicketId: t.id })}
+          />
+        )
       )}
 
-      <CheckCards legend="Is anyone or anything in danger?" hint="Tick what applies. Staff on call are alerted at once." tone="danger" choices={HAZARDS.map((h) => ({ value: h, label: HAZARD_LABELS[h] }))} values={draft.hazards} onChange={tickHazards} />
+      <CheckCards
+        legend="Is anyone or anything in danger?"
+        hint="Tick what applies. Staff on call are alerted at once."
+        tone="danger"
+        choices={HAZARDS.map((h) => ({ value: h, label: HAZARD_LABELS[h] }))}
+        values={draft.hazards}
+        onChange={tickHazards}
+      />
       {draft.hazards.length > 0 && <HazardCautions ref={cautionsRef} hazards={draft.hazards} live className="scroll-mt-20" />}
 
-      <TextAreaBig label="What happened?" required value={draft.description} onChange={(v) => update({ description: v })} errors={fields.description} hint="What you were doing, what you saw or heard." />
+      <TextAreaBig
+        label="What happened?"
+        required
+        value={draft.description}
+        onChange={(v) => update({ description: v })}
+        errors={fields.description}
+        hint="What you were doing, what you saw or heard."
+      />
 
-      <TextField label="Alarm text on the tool's screen" hint="Copy it exactly, with any number." value={draft.alarmText} onChange={(e) => update({ alarmText: e.target.value })} maxLength={1000} inputClassName="min-h-13 font-mono text-lg" autoCapitalize="characters" errors={fields.alarmText} />
+      <TextField
+        label="Alarm text on the tool's screen"
+        hint="Copy it exactly, with any number."
+        value={draft.alarmText}
+        onChange={(e) => update({ alarmText: e.target.value })}
+        maxLength={1000}
+        inputClassName="min-h-13 font-mono text-lg"
+        autoCapitalize="characters"
+        errors={fields.alarmText}
+      />
 
       <RadioCards
         name="impact"
-        legend={
-          <>
-            Can the tool still be used?{!adding && <span className="font-normal text-muted"> (required)</span>}
-          </>
-        }
+        legend={<>Can the tool still be used?{!adding && <span className="font-normal text-muted"> (required)</span>}</>}
         hint={adding ? 'Only if it changed since the first report.' : undefined}
-        choices={IMPACTS.map((i) => ({ value: i, label: IMPACT_LABELS[i], help: i === 'tool_stopped' ? `${IMPACT_HELP[i]} It will show as Down on the board at once.` : i === 'tool_limited' ? `${IMPACT_HELP[i]} It will show as Limited on the board at once.` : IMPACT_HELP[i] }))}
+        choices={IMPACTS.map((i) => ({
+          value: i,
+          label: IMPACT_LABELS[i],
+          help:
+            i === 'tool_stopped'
+              ? `${IMPACT_HELP[i]} It will show as Down on the board at once.`
+              : i === 'tool_limited'
+                ? `${IMPACT_HELP[i]} It will show as Limited on the board at once.`
+                : IMPACT_HELP[i],
+        }))}
         value={draft.impact}
         onChange={(v) => update({ impact: v })}
         errors={fields.impact}
@@ -269,7 +336,10 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
           name="module"
           legend="Which part of the tool?"
           columns={2}
-          choices={[{ value: 'tool', label: 'The whole tool / not sure' }, ...tool.modules.map((m) => ({ value: String(m.id), label: m.name, help: m.code }))]}
+          choices={[
+            { value: 'tool', label: 'The whole tool / not sure' },
+            ...tool.modules.map((m) => ({ value: String(m.id), label: m.name, help: m.code })),
+          ]}
           value={draft.moduleId ? String(draft.moduleId) : 'tool'}
           onChange={(v) => update({ moduleId: v === 'tool' ? null : Number(v) })}
           errors={fields.moduleId}
@@ -296,14 +366,32 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
         <WaferStepper value={draft.wafersCount} onChange={(n) => update({ wafersCount: n })} />
         {draft.wafersCount > 0 && (
           <>
-            <TextField label="Whose wafers?" hint="A name or group, so the right person is told." value={draft.wafersOwner} onChange={(e) => update({ wafersOwner: e.target.value })} maxLength={120} inputClassName="min-h-13" />
-            <RadioCards name="recoverable" legend="Can they be recovered?" choices={WAFER_RECOVERABLE.map((r) => ({ value: r, label: WAFER_RECOVERABLE_LABELS[r] }))} value={draft.wafersRecoverable} onChange={(v) => update({ wafersRecoverable: v })} />
+            <TextField
+              label="Whose wafers?"
+              hint="A name or group, so the right person is told."
+              value={draft.wafersOwner}
+              onChange={(e) => update({ wafersOwner: e.target.value })}
+              maxLength={120}
+              inputClassName="min-h-13"
+            />
+            <RadioCards
+              name="recoverable"
+              legend="Can they be recovered?"
+              choices={WAFER_RECOVERABLE.map((r) => ({ value: r, label: WAFER_RECOVERABLE_LABELS[r] }))}
+              value={draft.wafersRecoverable}
+              onChange={(v) => update({ wafersRecoverable: v })}
+            />
           </>
         )}
       </div>
 
-
-      <PhotoPicker photos={photos} onAdd={(f) => void addPhotos(f)} onRemove={(id) => void removePhoto(id)} disabled={busy} stored={photoStore} />
+      <PhotoPicker
+        photos={photos}
+        onAdd={(f) => void addPhotos(f)}
+        onRemove={(id) => void removePhoto(id)}
+        disabled={busy}
+        stored={photoStore}
+      />
 
       <div className="sticky bottom-0 -mx-4 flex flex-col gap-3 border-t border-line bg-page/95 px-4 py-4 backdrop-blur sm:static sm:mx-0 sm:border-0 sm:bg-transparent sm:p-0">
         {message && (
@@ -313,9 +401,16 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
         )}
         {progress !== null && (
           <div className="flex flex-col gap-1" data-testid="upload-progress">
-            <progress max={1} value={progress} aria-label="Sending the report" className="h-3 w-full overflow-hidden rounded-full [&::-webkit-progress-bar]:bg-sunken [&::-webkit-progress-value]:bg-accent" />
+            <progress
+              max={1}
+              value={progress}
+              aria-label="Sending the report"
+              className="h-3 w-full overflow-hidden rounded-full [&::-webkit-progress-bar]:bg-sunken [&::-webkit-progress-value]:bg-accent"
+            />
             <p className="text-sm text-muted" aria-live="polite">
-              {photos.length ? `Uploading ${photos.length} photo${photos.length === 1 ? '' : 's'}… ${Math.round(progress * 100)} %` : 'Sending…'}
+              {photos.length
+                ? `Uploading ${photos.length} photo${photos.length === 1 ? '' : 's'}… ${Math.round(progress * 100)} %`
+                : 'Sending…'}
             </p>
           </div>
         )}
@@ -332,7 +427,21 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
   );
 }
 
-function TextAreaBig({ label, hint, value, onChange, errors, required }: { label: string; hint?: string; value: string; onChange: (v: string) => void; errors?: string[]; required?: boolean }) {
+function TextAreaBig({
+  label,
+  hint,
+  value,
+  onChange,
+  errors,
+  required,
+}: {
+  label: string;
+  hint?: string;
+  value: string;
+  onChange: (v: string) => void;
+  errors?: string[];
+  required?: boolean;
+}) {
   const id = useId();
   return (
     <div className="flex flex-col gap-1.5">
@@ -348,7 +457,10 @@ function TextAreaBig({ label, hint, value, onChange, errors, required }: { label
         maxLength={4000}
         onChange={(e) => onChange(e.target.value)}
         aria-invalid={errors?.length ? true : undefined}
-        className={cx('w-full rounded-xl border bg-card px-4 py-3 text-lg text-ink amber:border-2', errors?.length ? 'border-2 border-state-down-fill' : 'border-control')}
+        className={cx(
+          'w-full rounded-xl border bg-card px-4 py-3 text-lg text-ink amber:border-2',
+          errors?.length ? 'border-2 border-state-down-fill' : 'border-control',
+        )}
       />
       {errors?.map((e) => (
         <p key={e} className="text-sm font-medium text-alert-danger-ink">

@@ -42,7 +42,11 @@ export function ToolPicker({ onPick, errors }: { onPick: (tool: ToolChoice) => v
           {choices.data.items.length === 0 && <li className="text-sm text-muted">No tool matches “{query}”.</li>}
           {choices.data.items.map((t) => (
             <li key={t.id}>
-              <button type="button" onClick={() => onPick(t)} className="flex min-h-13 w-full flex-col items-start rounded-xl border border-control bg-card px-4 py-2 text-left hover:bg-sunken amber:border-2">
+              <button
+                type="button"
+                onClick={() => onPick(t)}
+                className="flex min-h-13 w-full flex-col items-start rounded-xl border border-control bg-card px-4 py-2 text-left hover:bg-sunken amber:border-2"
+              >
                 <span className="font-semibold text-ink">{t.name}</span>
                 <span className="text-sm text-muted">
                   <span className="font-mono">{t.code}</span>

@@ -51,7 +51,9 @@ export async function loadDraftPhotos(userId: number): Promise<StoredDraftPhoto[
 }
 
 export async function saveDraftPhoto(userId: number, photo: { id: string; name: string; blob: Blob }) {
-  await run('readwrite', (s) => s.put({ key: `${userId}:${photo.id}`, id: photo.id, name: photo.name, blob: photo.blob, addedAt: Date.now() }));
+  await run('readwrite', (s) =>
+    s.put({ key: `${userId}:${photo.id}`, id: photo.id, name: photo.name, blob: photo.blob, addedAt: Date.now() }),
+  );
 }
 
 export async function deleteDraftPhoto(userId: number, id: string) {

@@ -33,7 +33,8 @@ export interface DraftPhoto {
   url: string;
 }
 
-export const newDraftKey = () => (crypto.randomUUID ? crypto.randomUUID() : `${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 14)}`);
+export const newDraftKey = () =>
+  crypto.randomUUID ? crypto.randomUUID() : `${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 14)}`;
 
 export function emptyDraft(): ReportDraft {
   return {

@@ -24,7 +24,16 @@ function toInput(d: ReportDraft): { kind: 'new'; input: ReportInput } | { kind: 
     clientKey: d.clientKey,
   };
   if (d.addToTicketId) return { kind: 'add', ticketId: d.addToTicketId, input: { ...common, impact: d.impact || null } };
-  return { kind: 'new', input: { ...common, toolId: d.toolId ?? 0, moduleId: d.moduleId, category: (d.category || undefined) as ReportInput['category'], impact: (d.impact || undefined) as ReportInput['impact'] } };
+  return {
+    kind: 'new',
+    input: {
+      ...common,
+      toolId: d.toolId ?? 0,
+      moduleId: d.moduleId,
+      category: (d.category || undefined) as ReportInput['category'],
+      impact: (d.impact || undefined) as ReportInput['impact'],
+    },
+  };
 }
 
 function fieldErrors(issues: { path: PropertyKey[]; message: string }[]) {
@@ -38,7 +47,12 @@ function fieldErrors(issues: { path: PropertyKey[]; message: string }[]) {
  * away, the draft is marked pending and goes out by itself when the browser is back online
  * (and every 20 s meanwhile, for a server that answered 503).
  */
-export function useSendReport(opts: { draft: ReportDraft; photos: DraftPhoto[]; update: (c: Partial<ReportDraft>) => void; onSent: (r: SentReport, kind: 'new' | 'add') => void }) {
+export function useSendReport(opts: {
+  draft: ReportDraft;
+  photos: DraftPhoto[];
+  update: (c: Partial<ReportDraft>) => void;
+  onSent: (r: SentReport, kind: 'new' | 'add') => void;
+}) {
   const { draft, photos, update, onSent } = opts;
   const [state, setState] = useState<SendState>(draft.pending ? 'waiting' : 'idle');
   const [progress, setProgress] = useState<number | null>(null);
@@ -72,7 +86,10 @@ export function useSendReport(opts: { draft: ReportDraft; photos: DraftPhoto[]; 
     setProgress(0);
     try {
       const files = p.map((x) => ({ blob: x.blob, name: x.name }));
-      const result = target.kind === 'new' ? await createReport(target.input, files, setProgress) : await addReport(target.ticketId, target.input, files, setProgress);
+      const result =
+        target.kind === 'new'
+          ? await createReport(target.input, files, setProgress)
+          : await addReport(target.ticketId, target.input, files, setProgress);
       setState('idle');
       done(result, target.kind);
     } catch (error) {
@@ -82,7 +99,9 @@ export function useSendReport(opts: { draft: ReportDraft; photos: DraftPhoto[]; 
       } else {
         setState('failed');
         // Another tab sent this draft with other words: these words become a draft of their own.
-        update(isApiError(error) && error.code === 'draft_sent_elsewhere' ? { pending: false, clientKey: newDraftKey() } : { pending: false });
+        update(
+          isApiError(error) && error.code === 'draft_sent_elsewhere' ? { pending: false, clientKey: newDraftKey() } : { pending: false },
+        );
         setMessage(error instanceof Error ? error.message : 'The report could not be sent.');
         if (isApiError(error) && error.fields) setFields(error.fields);
       }

@@ -8,7 +8,11 @@ export function getServiceTargets(options: { signal?: AbortSignal } = {}): Promi
 }
 
 export function serviceTargetsQueryOptions() {
-  return queryOptions({ queryKey: ticketKeys.serviceTargets(), queryFn: ({ signal }) => getServiceTargets({ signal }), staleTime: 5 * 60_000 });
+  return queryOptions({
+    queryKey: ticketKeys.serviceTargets(),
+    queryFn: ({ signal }) => getServiceTargets({ signal }),
+    staleTime: 5 * 60_000,
+  });
 }
 
 export function useServiceTargets() {

@@ -18,20 +18,42 @@ export function CommentBox({ ticketId, canNote }: { ticketId: number; canNote: b
   };
 
   return (
-    <form onSubmit={submit} className={cx('flex flex-col gap-3 rounded-xl border p-4 amber:border-2', internal ? 'border-2 border-dashed border-control bg-sunken' : 'border-line bg-card')}>
+    <form
+      onSubmit={submit}
+      className={cx(
+        'flex flex-col gap-3 rounded-xl border p-4 amber:border-2',
+        internal ? 'border-2 border-dashed border-control bg-sunken' : 'border-line bg-card',
+      )}
+    >
       {canNote && (
         <div role="radiogroup" aria-label="Who can read it" className="flex flex-wrap gap-2">
-          <Button size="md" variant={!internal ? 'primary' : 'secondary'} role="radio" aria-checked={!internal} onClick={() => setInternal(false)}>
+          <Button
+            size="md"
+            variant={!internal ? 'primary' : 'secondary'}
+            role="radio"
+            aria-checked={!internal}
+            onClick={() => setInternal(false)}
+          >
             Reply (everyone)
           </Button>
-          <Button size="md" variant={internal ? 'primary' : 'secondary'} role="radio" aria-checked={internal} onClick={() => setInternal(true)}>
+          <Button
+            size="md"
+            variant={internal ? 'primary' : 'secondary'}
+            role="radio"
+            aria-checked={internal}
+            onClick={() => setInternal(true)}
+          >
             Internal note (staff only)
           </Button>
         </div>
       )}
       <TextAreaField
         label={internal ? 'Internal note' : 'Reply'}
-        hint={internal ? 'Only technicians, managers and admins see this.' : 'Everyone who can see this ticket reads it; the reporters get an e-mail.'}
+        hint={
+          internal
+            ? 'Only technicians, managers and admins see this.'
+            : 'Everyone who can see this ticket reads it; the reporters get an e-mail.'
+        }
         value={body}
         onChange={(e) => setBody(e.target.value)}
         maxLength={4000}

@@ -16,7 +16,13 @@ function Errors({ id, errors }: { id: string; errors?: readonly string[] }) {
   );
 }
 
-export function TextAreaField({ label, hint, errors, className, ...props }: { label: ReactNode; hint?: ReactNode; errors?: readonly string[]; className?: string } & TextareaHTMLAttributes<HTMLTextAreaElement>) {
+export function TextAreaField({
+  label,
+  hint,
+  errors,
+  className,
+  ...props
+}: { label: ReactNode; hint?: ReactNode; errors?: readonly string[]; className?: string } & TextareaHTMLAttributes<HTMLTextAreaElement>) {
   const id = useId();
   return (
     <div className={cx('flex flex-col gap-1.5', className)}>
@@ -29,13 +35,33 @@ export function TextAreaField({ label, hint, errors, className, ...props }: { la
           {hint}
         </p>
       )}
-      <textarea id={id} rows={3} aria-invalid={errors?.length ? true : undefined} aria-describedby={[hint ? `${id}-hint` : '', errors?.length ? `${id}-err` : ''].join(' ').trim() || undefined} className={cx(CONTROL, Boolean(errors?.length) && 'border-2 border-state-down-fill')} {...props} />
+      <textarea
+        id={id}
+        rows={3}
+        aria-invalid={errors?.length ? true : undefined}
+        aria-describedby={[hint ? `${id}-hint` : '', errors?.length ? `${id}-err` : ''].join(' ').trim() || undefined}
+        className={cx(CONTROL, Boolean(errors?.length) && 'border-2 border-state-down-fill')}
+        {...props}
+      />
       <Errors id={`${id}-err`} errors={errors} />
     </div>
   );
 }
 
-export function SelectField({ label, hint, errors, className, children, ...props }: { label: ReactNode; hint?: ReactNode; errors?: readonly string[]; className?: string; children: ReactNode } & SelectHTMLAttributes<HTMLSelectElement>) {
+export function SelectField({
+  label,
+  hint,
+  errors,
+  className,
+  children,
+  ...props
+}: {
+  label: ReactNode;
+  hint?: ReactNode;
+  errors?: readonly string[];
+  className?: string;
+  children: ReactNode;
+} & SelectHTMLAttributes<HTMLSelectElement>) {
   const id = useId();
   return (
     <div className={cx('flex flex-col gap-1.5', className)}>

@@ -27,12 +27,38 @@ interface Duration {
 /** Whole minutes, or NaN for an amount that is not a number (the schema then says so). */
 const toMinutes = (d: Duration) => (d.amount.trim() === '' ? NaN : Math.round(Number(d.amount) * UNITS[d.unit]));
 
-function DurationField({ label, value, onChange, errors }: { label: string; value: Duration; onChange: (d: Duration) => void; errors?: string[] }) {
+function DurationField({
+  label,
+  value,
+  onChange,
+  errors,
+}: {
+  label: string;
+  value: Duration;
+  onChange: (d: Duration) => void;
+  errors?: string[];
+}) {
   const minutes = toMinutes(value);
   return (
     <div className="flex items-end gap-2">
-      <TextField className="flex-1" label={label} hint={Number.isFinite(minutes) ? formatDuration(minutes * 60_000) : undefined} type="number" inputMode="decimal" min={0} step="any" value={value.amount} onChange={(e) => onChange({ ...value, amount: e.target.value })} errors={errors} />
-      <select aria-label={`${label}: unit`} value={value.unit} onChange={(e) => onChange({ ...value, unit: e.target.value as Unit })} className="mb-px min-h-11 rounded-lg border border-control bg-card px-2 text-base text-ink amber:border-2">
+      <TextField
+        className="flex-1"
+        label={label}
+        hint={Number.isFinite(minutes) ? formatDuration(minutes * 60_000) : undefined}
+        type="number"
+        inputMode="decimal"
+        min={0}
+        step="any"
+        value={value.amount}
+        onChange={(e) => onChange({ ...value, amount: e.target.value })}
+        errors={errors}
+      />
+      <select
+        aria-label={`${label}: unit`}
+        value={value.unit}
+        onChange={(e) => onChange({ ...value, unit: e.target.value as Unit })}
+        className="mb-px min-h-11 rounded-lg border border-control bg-card px-2 text-base text-ink amber:border-2"
+      >
         {(Object.keys(UNITS) as Unit[]).map((u) => (
           <option key={u} value={u}>
             {u}
@@ -64,7 +90,11 @@ function Row({ target }: { target: ServiceTargetView }) {
   };
 
   return (
-    <form onSubmit={submit} className="flex flex-col gap-3 border-b border-line py-4 last:border-b-0" aria-label={`Targets for ${PRIORITY_LABELS[target.priority]}`}>
+    <form
+      onSubmit={submit}
+      className="flex flex-col gap-3 border-b border-line py-4 last:border-b-0"
+      aria-label={`Targets for ${PRIORITY_LABELS[target.priority]}`}
+    >
       <div className="flex items-center gap-2">
         <PriorityBadge priority={target.priority} long />
       </div>
@@ -88,9 +118,18 @@ function Row({ target }: { target: ServiceTargetView }) {
 export function ServiceTargetsEditor() {
   const targets = useServiceTargets();
   if (targets.isPending) return <PageSpinner label="Loading the targets…" />;
-  if (targets.isError) return <Alert tone="danger" live title="The targets could not be loaded">{targets.error.message}</Alert>;
+  if (targets.isError)
+    return (
+      <Alert tone="danger" live title="The targets could not be loaded">
+        {targets.error.message}
+      </Alert>
+    );
   return (
-    <Card as="section" title="Targets per priority" description={`Clock time from the report. A timer turns to a warning at ${Math.round(TARGET_WARNING_FRACTION * 100)} % of its target and counts as missed after it.`}>
+    <Card
+      as="section"
+      title="Targets per priority"
+      description={`Clock time from the report. A timer turns to a warning at ${Math.round(TARGET_WARNING_FRACTION * 100)} % of its target and counts as missed after it.`}
+    >
       {targets.data.map((t) => (
         <Row key={`${t.priority}-${t.updatedAt}`} target={t} />
       ))}

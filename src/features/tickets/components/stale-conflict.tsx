@@ -97,7 +97,11 @@ export function StaleConflict({
           </tbody>
         </table>
       )}
-      {newEvents.length > 0 && <p className="mt-2">{newEvents.length} new {newEvents.length === 1 ? 'entry' : 'entries'} in the timeline.</p>}
+      {newEvents.length > 0 && (
+        <p className="mt-2">
+          {newEvents.length} new {newEvents.length === 1 ? 'entry' : 'entries'} in the timeline.
+        </p>
+      )}
     </Alert>
   );
 }

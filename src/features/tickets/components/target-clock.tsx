@@ -40,7 +40,17 @@ function Mark({ status }: { status: TargetStatus }) {
  * stopped. The status is recomputed here every tick with the shared rule, so a queue left
  * open turns to a warning without a refetch.
  */
-export function TargetClock({ label, clock, createdAt, compact = false }: { label: string; clock: Clock; createdAt: string; compact?: boolean }) {
+export function TargetClock({
+  label,
+  clock,
+  createdAt,
+  compact = false,
+}: {
+  label: string;
+  clock: Clock;
+  createdAt: string;
+  compact?: boolean;
+}) {
   const now = useNow();
   const start = new Date(createdAt).getTime();
   const due = new Date(clock.dueAt).getTime();

@@ -1,8 +1,25 @@
 import { useState, type FormEvent, type ReactNode } from 'react';
 import { ACTIONS, type TicketAction } from '@shared/ticket-workflow';
 import { PRIORITIES, PRIORITY_LABELS } from '@shared/priority';
-import { FIX_KINDS, FIX_KIND_HELP, FIX_KIND_LABELS, WAIT_REASONS, WAIT_REASON_LABELS, type FixKind, type WaitReason } from '@shared/report-options';
-import { BOARD_LABELS, E10_LABELS, E10_STATES, REASONS_BY_STATE, REASON_LABELS, boardStatusOf, type E10State, type StateReason } from '@shared/equipment-state';
+import {
+  FIX_KINDS,
+  FIX_KIND_HELP,
+  FIX_KIND_LABELS,
+  WAIT_REASONS,
+  WAIT_REASON_LABELS,
+  type FixKind,
+  type WaitReason,
+} from '@shared/report-options';
+import {
+  BOARD_LABELS,
+  E10_LABELS,
+  E10_STATES,
+  REASONS_BY_STATE,
+  REASON_LABELS,
+  boardStatusOf,
+  type E10State,
+  type StateReason,
+} from '@shared/equipment-state';
 import { ticketActionSchema, type TicketActionInput, type TicketDetail } from '@shared/schemas/tickets';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
@@ -97,10 +114,22 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
     const held = ticket.toolStates.find((s) => s.ticketId === ticket.id && s.source === 'user_report' && !s.confirmed);
     const word = held && held.state !== 'unscheduled_downtime' ? 'Limited' : 'Down';
     buttons.push(
-      <Button key="confirm_down" size="lg" variant="danger" busy={action.isPending && action.variables?.action === 'confirm_down'} onClick={() => send({ action: 'confirm_down' }, ticket)}>
+      <Button
+        key="confirm_down"
+        size="lg"
+        variant="danger"
+        busy={action.isPending && action.variables?.action === 'confirm_down'}
+        onClick={() => send({ action: 'confirm_down' }, ticket)}
+      >
         Confirm it is {word}
       </Button>,
-      <Button key="revert_down" size="lg" variant="secondary" busy={action.isPending && action.variables?.action === 'revert_down'} onClick={() => send({ action: 'revert_down', note: null }, ticket)}>
+      <Button
+        key="revert_down"
+        size="lg"
+        variant="secondary"
+        busy={action.isPending && action.variables?.action === 'revert_down'}
+        onClick={() => send({ action: 'revert_down', note: null }, ticket)}
+      >
         Not {word.toLowerCase()}: revert
       </Button>,
     );
@@ -108,16 +137,28 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
   for (const a of ONE_CLICK) {
     if (allowed.has(a)) {
       (next.has(a) ? buttons : others).push(
-          <Button key={a} size="lg" variant={next.has(a) ? 'primary' : 'secondary'} busy={action.isPending && action.variables?.action === a} onClick={() => send({ action: a } as Body, ticket)}>
-            {ACTIONS[a].label}
-          </Button>,
+        <Button
+          key={a}
+          size="lg"
+          variant={next.has(a) ? 'primary' : 'secondary'}
+          busy={action.isPending && action.variables?.action === a}
+          onClick={() => send({ action: a } as Body, ticket)}
+        >
+          {ACTIONS[a].label}
+        </Button>,
       );
     }
   }
   const formButton = (form: FormName, label: string, when: boolean) =>
     when &&
     (next.has(form) ? buttons : others).push(
-      <Button key={form} size="lg" variant={next.has(form) ? 'primary' : 'secondary'} aria-expanded={open?.form === form} onClick={() => (open?.form === form ? setOpen(null) : openForm(form))}>
+      <Button
+        key={form}
+        size="lg"
+        variant={next.has(form) ? 'primary' : 'secondary'}
+        aria-expanded={open?.form === form}
+        onClick={() => (open?.form === form ? setOpen(null) : openForm(form))}
+      >
         {label}
       </Button>,
     );
@@ -180,7 +221,13 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
       )}
       {open && !conflict && (
         <div className="rounded-xl border border-line bg-card p-4 amber:border-2">
-          <ActionForm form={open.form} seen={open.seen} busy={action.isPending} onSubmit={(body) => send(body, open.seen)} onCancel={() => setOpen(null)} />
+          <ActionForm
+            form={open.form}
+            seen={open.seen}
+            busy={action.isPending}
+            onSubmit={(body) => send(body, open.seen)}
+            onCancel={() => setOpen(null)}
+          />
         </div>
       )}
     </section>
@@ -202,7 +249,19 @@ function FormButtons({ busy, label, onCancel }: { busy: boolean; label: string; 
 
 const toLocalInput = (d: Date) => new Date(d.getTime() - d.getTimezoneOffset() * 60_000).toISOString().slice(0, 16);
 
-function ActionForm({ form, seen, busy, onSubmit, onCancel }: { form: FormName; seen: TicketDetail; busy: boolean; onSubmit: (body: Body) => void; onCancel: () => void }) {
+function ActionForm({
+  form,
+  seen,
+  busy,
+  onSubmit,
+  onCancel,
+}: {
+  form: FormName;
+  seen: TicketDetail;
+  busy: boolean;
+  onSubmit: (body: Body) => void;
+  onCancel: () => void;
+}) {
   const [values, setValues] = useState<Record<string, string | boolean>>(() => ({
     waitReason: 'parts',
     fixKind: 'failure',
@@ -221,13 +280,21 @@ function ActionForm({ form, seen, busy, onSubmit, onCancel }: { form: FormName; 
   const num = (k: string) => (v(k).trim() === '' ? null : Number(v(k)));
   const text = (k: string) => (v(k).trim() === '' ? null : v(k).trim());
   const assignees = useAssignees(form === 'assign');
-  const openOnTool = useQuery({ ...ticketsQueryOptions({ toolId: seen.tool.id, status: 'open', sort: 'newest', limit: 50 }), enabled: form === 'merge' });
+  const openOnTool = useQuery({
+    ...ticketsQueryOptions({ toolId: seen.tool.id, status: 'open', sort: 'newest', limit: 50 }),
+    enabled: form === 'merge',
+  });
 
   const submit = (e: FormEvent) => {
     e.preventDefault();
     switch (form) {
       case 'wait':
-        return onSubmit({ action: 'wait', waitReason: v('waitReason') as WaitReason, note: text('note'), expectedReturnAt: v('expectedReturnAt') ? new Date(v('expectedReturnAt')).toISOString() : null });
+        return onSubmit({
+          action: 'wait',
+          waitReason: v('waitReason') as WaitReason,
+          note: text('note'),
+          expectedReturnAt: v('expectedReturnAt') ? new Date(v('expectedReturnAt')).toISOString() : null,
+        });
       case 'fix':
         return onSubmit({
           action: 'fix',
@@ -276,8 +343,20 @@ function ActionForm({ form, seen, busy, onSubmit, onCancel }: { form: FormName; 
               </option>
             ))}
           </SelectField>
-          <TextAreaField label="Note for the reporter" hint="What you are waiting for. It shows on the board while the tool waits." value={v('note')} onChange={set('note')} />
-          <TextField label="Expected back" hint="When the parts, the vendor or the answer should be here; the board shows it." type="datetime-local" min={toLocalInput(new Date())} value={v('expectedReturnAt')} onChange={set('expectedReturnAt')} />
+          <TextAreaField
+            label="Note for the reporter"
+            hint="What you are waiting for. It shows on the board while the tool waits."
+            value={v('note')}
+            onChange={set('note')}
+          />
+          <TextField
+            label="Expected back"
+            hint="When the parts, the vendor or the answer should be here; the board shows it."
+            type="datetime-local"
+            min={toLocalInput(new Date())}
+            value={v('expectedReturnAt')}
+            onChange={set('expectedReturnAt')}
+          />
           <FormButtons busy={busy} label="Set waiting" onCancel={onCancel} />
         </>
       )}
@@ -286,8 +365,18 @@ function ActionForm({ form, seen, busy, onSubmit, onCancel }: { form: FormName; 
           <fieldset className="flex flex-col gap-2">
             <legend className="mb-1 text-sm font-semibold text-ink">What was it?</legend>
             {FIX_KINDS.map((k) => (
-              <label key={k} className="flex min-h-11 cursor-pointer items-start gap-3 rounded-lg border border-control p-3 has-[:checked]:border-2 has-[:checked]:border-accent">
-                <input type="radio" name="fixKind" value={k} checked={v('fixKind') === k} onChange={set('fixKind')} className="mt-1 size-5" />
+              <label
+                key={k}
+                className="flex min-h-11 cursor-pointer items-start gap-3 rounded-lg border border-control p-3 has-[:checked]:border-2 has-[:checked]:border-accent"
+              >
+                <input
+                  type="radio"
+                  name="fixKind"
+                  value={k}
+                  checked={v('fixKind') === k}
+                  onChange={set('fixKind')}
+                  className="mt-1 size-5"
+                />
                 <span>
                   <span className="block font-semibold">{FIX_KIND_LABELS[k]}</span>
                   <span className="block text-sm text-muted">{FIX_KIND_HELP[k]}</span>
@@ -297,19 +386,43 @@ function ActionForm({ form, seen, busy, onSubmit, onCancel }: { form: FormName; 
           </fieldset>
           <TextAreaField label="What was done" required value={v('workDone')} onChange={set('workDone')} />
           <div className="grid gap-4">
-            <TextField label="Failure mode" hint="A short name used in the analytics, e.g. “RF generator fault”." value={v('failureMode')} onChange={set('failureMode')} maxLength={120} />
-            <TextField label="Hands-on time (minutes)" type="number" inputMode="numeric" min={0} value={v('handsOnMinutes')} onChange={set('handsOnMinutes')} />
+            <TextField
+              label="Failure mode"
+              hint="A short name used in the analytics, e.g. “RF generator fault”."
+              value={v('failureMode')}
+              onChange={set('failureMode')}
+              maxLength={120}
+            />
+            <TextField
+              label="Hands-on time (minutes)"
+              type="number"
+              inputMode="numeric"
+              min={0}
+              value={v('handsOnMinutes')}
+              onChange={set('handsOnMinutes')}
+            />
           </div>
           <TextAreaField label="Cause" value={v('cause')} onChange={set('cause')} />
           <TextAreaField label="Parts used" value={v('partsUsed')} onChange={set('partsUsed')} rows={2} />
           {seen.wafersCount > 0 && (
             <div className="grid gap-4">
               <TextField label="Wafers recovered" type="number" min={0} value={v('wafersRecovered')} onChange={set('wafersRecovered')} />
-              <TextField label="Wafers returned to their owner" type="number" min={0} value={v('wafersReturned')} onChange={set('wafersReturned')} />
+              <TextField
+                label="Wafers returned to their owner"
+                type="number"
+                min={0}
+                value={v('wafersReturned')}
+                onChange={set('wafersReturned')}
+              />
             </div>
           )}
           <label className="flex min-h-11 items-center gap-3 text-sm font-semibold">
-            <input type="checkbox" className="size-5" checked={values.returnToService === true} onChange={(e) => setValues((o) => ({ ...o, returnToService: e.target.checked }))} />
+            <input
+              type="checkbox"
+              className="size-5"
+              checked={values.returnToService === true}
+              onChange={(e) => setValues((o) => ({ ...o, returnToService: e.target.checked }))}
+            />
             Return the tool to service now (back to Running)
           </label>
           <FormButtons busy={busy} label="Mark fixed" onCancel={onCancel} />
@@ -324,7 +437,13 @@ function ActionForm({ form, seen, busy, onSubmit, onCancel }: { form: FormName; 
               </option>
             ))}
           </SelectField>
-          <TextAreaField label="Why" required hint="Kept in the timeline; the automatic priority will not override yours afterwards." value={v('reason')} onChange={set('reason')} />
+          <TextAreaField
+            label="Why"
+            required
+            hint="Kept in the timeline; the automatic priority will not override yours afterwards."
+            value={v('reason')}
+            onChange={set('reason')}
+          />
           <FormButtons busy={busy} label="Change priority" onCancel={onCancel} />
         </>
       )}
@@ -353,7 +472,11 @@ function ActionForm({ form, seen, busy, onSubmit, onCancel }: { form: FormName; 
               ))}
             </SelectField>
           )}
-          <SelectField label="State" value={v('state')} onChange={(e) => setValues((o) => ({ ...o, state: e.target.value, stateReason: '' }))}>
+          <SelectField
+            label="State"
+            value={v('state')}
+            onChange={(e) => setValues((o) => ({ ...o, state: e.target.value, stateReason: '' }))}
+          >
             {E10_STATES.map((s) => (
               <option key={s} value={s}>
                 {/* The board's word first, the E10 state beside it: one vocabulary everywhere. */}
@@ -368,14 +491,26 @@ function ActionForm({ form, seen, busy, onSubmit, onCancel }: { form: FormName; 
               </option>
             ))}
           </SelectField>
-          <TextField label="Expected back" type="datetime-local" min={toLocalInput(new Date())} value={v('expectedReturnAt')} onChange={set('expectedReturnAt')} />
+          <TextField
+            label="Expected back"
+            type="datetime-local"
+            min={toLocalInput(new Date())}
+            value={v('expectedReturnAt')}
+            onChange={set('expectedReturnAt')}
+          />
           <TextAreaField label="Note for people at the tool" value={v('note')} onChange={set('note')} rows={2} maxLength={500} />
           <FormButtons busy={busy} label="Set state" onCancel={onCancel} />
         </>
       )}
       {form === 'merge' && (
         <>
-          <SelectField label="Merge this ticket into" hint="Both reporters keep their reports and photos; news goes to both." value={v('targetId')} onChange={set('targetId')} required>
+          <SelectField
+            label="Merge this ticket into"
+            hint="Both reporters keep their reports and photos; news goes to both."
+            value={v('targetId')}
+            onChange={set('targetId')}
+            required
+          >
             <option value="">Choose an open ticket on this tool</option>
             {openOnTool.data?.items
               .filter((t) => t.id !== seen.id)

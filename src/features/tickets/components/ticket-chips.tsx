@@ -15,7 +15,14 @@ const PRIORITY_LOOK: Record<Priority, string> = {
 export function PriorityBadge({ priority, long = false, className }: { priority: Priority; long?: boolean; className?: string }) {
   const [code, word] = PRIORITY_LABELS[priority].split(' · ');
   return (
-    <span data-priority={priority} className={cx('inline-flex h-7 shrink-0 items-center gap-1.5 rounded-md border px-2 text-xs font-bold whitespace-nowrap', PRIORITY_LOOK[priority], className)}>
+    <span
+      data-priority={priority}
+      className={cx(
+        'inline-flex h-7 shrink-0 items-center gap-1.5 rounded-md border px-2 text-xs font-bold whitespace-nowrap',
+        PRIORITY_LOOK[priority],
+        className,
+      )}
+    >
       <span className="font-mono">{code}</span>
       <span className={cx(long ? '' : 'sr-only', 'font-semibold')}>{word}</span>
     </span>
@@ -57,7 +64,10 @@ export function HazardChips({ hazards, className }: { hazards: readonly Hazard[]
   return (
     <span className={cx('inline-flex flex-wrap gap-1', className)}>
       {hazards.map((h) => (
-        <span key={h} className="inline-flex h-7 items-center gap-1 rounded-md border border-alert-danger-ink/40 bg-alert-danger-tint px-2 text-xs font-semibold text-alert-danger-ink amber:border-2 amber:border-black">
+        <span
+          key={h}
+          className="inline-flex h-7 items-center gap-1 rounded-md border border-alert-danger-ink/40 bg-alert-danger-tint px-2 text-xs font-semibold text-alert-danger-ink amber:border-2 amber:border-black"
+        >
           <svg viewBox="0 0 16 16" className="size-3.5" aria-hidden="true">
             <path d="M8 1.5 15 14H1Z" fill="currentColor" />
             <path d="M8 6v4M8 11.5v.5" stroke="var(--color-card)" strokeWidth="1.6" strokeLinecap="round" />

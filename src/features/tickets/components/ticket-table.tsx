@@ -45,13 +45,31 @@ export function TicketTable({ items, caption, showTool = true, showTargets = fal
         <caption className="sr-only">{caption}</caption>
         <thead className="border-b border-line text-xs font-semibold tracking-wide text-muted uppercase">
           <tr>
-            <th scope="col" className="px-3 py-2">Priority</th>
-            <th scope="col" className="px-3 py-2">Ticket</th>
-            {showTool && <th scope="col" className="px-3 py-2">Tool</th>}
-            <th scope="col" className="px-3 py-2">Status</th>
-            <th scope="col" className="px-3 py-2">Assigned</th>
-            <th scope="col" className="px-3 py-2">Reported</th>
-            {showTargets && <th scope="col" className="px-3 py-2">Targets</th>}
+            <th scope="col" className="px-3 py-2">
+              Priority
+            </th>
+            <th scope="col" className="px-3 py-2">
+              Ticket
+            </th>
+            {showTool && (
+              <th scope="col" className="px-3 py-2">
+                Tool
+              </th>
+            )}
+            <th scope="col" className="px-3 py-2">
+              Status
+            </th>
+            <th scope="col" className="px-3 py-2">
+              Assigned
+            </th>
+            <th scope="col" className="px-3 py-2">
+              Reported
+            </th>
+            {showTargets && (
+              <th scope="col" className="px-3 py-2">
+                Targets
+              </th>
+            )}
           </tr>
         </thead>
         <tbody>
@@ -73,7 +91,9 @@ export function TicketTable({ items, caption, showTool = true, showTargets = fal
               )}
               <td className="px-3 py-3">
                 <TicketStatusBadge status={t.status} />
-                {t.status === 'waiting' && t.waitReason && <span className="mt-1 block text-xs text-muted">{WAIT_REASON_LABELS[t.waitReason]}</span>}
+                {t.status === 'waiting' && t.waitReason && (
+                  <span className="mt-1 block text-xs text-muted">{WAIT_REASON_LABELS[t.waitReason]}</span>
+                )}
               </td>
               <td className="px-3 py-3 text-ink">{t.assignee?.name ?? <span className="text-muted">Nobody yet</span>}</td>
               <td className="px-3 py-3 whitespace-nowrap text-muted">
@@ -107,7 +127,10 @@ export function TicketTable({ items, caption, showTool = true, showTargets = fal
                 {t.module && ` · ${t.module.name}`}
               </p>
             )}
-            <p className="text-sm text-muted">{t.assignee ? `Assigned to ${t.assignee.name}` : 'Not assigned yet'}{t.status === 'waiting' && t.waitReason ? ` · ${WAIT_REASON_LABELS[t.waitReason]}` : ''}</p>
+            <p className="text-sm text-muted">
+              {t.assignee ? `Assigned to ${t.assignee.name}` : 'Not assigned yet'}
+              {t.status === 'waiting' && t.waitReason ? ` · ${WAIT_REASON_LABELS[t.waitReason]}` : ''}
+            </p>
             {showTargets && <Targets t={t} />}
           </li>
         ))}

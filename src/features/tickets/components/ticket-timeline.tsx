@@ -1,6 +1,17 @@
 import type { ReactNode } from 'react';
 import { BOARD_LABELS, E10_LABELS, REASON_LABELS, boardStatusOf, type E10State, type StateReason } from '@shared/equipment-state';
-import { CATEGORY_LABELS, FIX_KIND_LABELS, HAZARD_LABELS, IMPACT_LABELS, WAIT_REASON_LABELS, type FixKind, type Hazard, type Impact, type TicketCategory, type WaitReason } from '@shared/report-options';
+import {
+  CATEGORY_LABELS,
+  FIX_KIND_LABELS,
+  HAZARD_LABELS,
+  IMPACT_LABELS,
+  WAIT_REASON_LABELS,
+  type FixKind,
+  type Hazard,
+  type Impact,
+  type TicketCategory,
+  type WaitReason,
+} from '@shared/report-options';
 import { STATUS_LABELS, type TicketStatus } from '@shared/ticket-workflow';
 import { WAFER_RECOVERABLE_LABELS, type TicketEventView, type WaferRecoverable } from '@shared/schemas/tickets';
 import { RelativeTime } from '@/components/ui/relative-time';
@@ -49,10 +60,19 @@ function Facts({ data }: { data: Data }) {
   const rows: [string, ReactNode][] = [];
   if (data.category) rows.push(['Category', CATEGORY_LABELS[data.category as TicketCategory] ?? data.category]);
   if (data.impact) rows.push(['Impact', IMPACT_LABELS[data.impact as Impact]]);
-  if (data.alarmText) rows.push(['Alarm text', <code key="a" className="rounded bg-sunken px-1.5 py-0.5 text-sm break-all">{data.alarmText}</code>]);
-  if (Array.isArray(data.hazards) && data.hazards.length) rows.push(['Hazard', data.hazards.map((h: Hazard) => HAZARD_LABELS[h]).join(', ')]);
+  if (data.alarmText)
+    rows.push([
+      'Alarm text',
+      <code key="a" className="rounded bg-sunken px-1.5 py-0.5 text-sm break-all">
+        {data.alarmText}
+      </code>,
+    ]);
+  if (Array.isArray(data.hazards) && data.hazards.length)
+    rows.push(['Hazard', data.hazards.map((h: Hazard) => HAZARD_LABELS[h]).join(', ')]);
   if (data.wafersCount > 0) {
-    const extra = [data.wafersOwner, data.wafersRecoverable ? WAFER_RECOVERABLE_LABELS[data.wafersRecoverable as WaferRecoverable] : null].filter(Boolean).join(' · ');
+    const extra = [data.wafersOwner, data.wafersRecoverable ? WAFER_RECOVERABLE_LABELS[data.wafersRecoverable as WaferRecoverable] : null]
+      .filter(Boolean)
+      .join(' · ');
     rows.push(['Wafers left inside', `${data.wafersCount}${extra ? ` (${extra})` : ''}`]);
   }
   return <FactList rows={rows} />;
@@ -156,7 +176,14 @@ export function TicketTimeline({ events, modules }: { events: TicketEventView[];
                   {e.photos.map((p, n) => (
                     <li key={p.id}>
                       <a href={p.url} target="_blank" rel="noreferrer" className="block overflow-hidden rounded-lg border border-line">
-                        <img src={p.thumbUrl} alt={`Photo ${n + 1} from ${p.uploader?.name ?? 'the reporter'}`} width={Math.round((p.width / Math.max(p.width, p.height)) * 112)} height={Math.round((p.height / Math.max(p.width, p.height)) * 112)} className="h-28 w-auto object-cover" loading="lazy" />
+                        <img
+                          src={p.thumbUrl}
+                          alt={`Photo ${n + 1} from ${p.uploader?.name ?? 'the reporter'}`}
+                          width={Math.round((p.width / Math.max(p.width, p.height)) * 112)}
+                          height={Math.round((p.height / Math.max(p.width, p.height)) * 112)}
+                          className="h-28 w-auto object-cover"
+                          loading="lazy"
+                        />
                       </a>
                     </li>
                   ))}

@@ -44,7 +44,9 @@ function StateLine({ s, name, ticketId }: { s: ToolStateView; name: string; tick
 
 export function TicketView({ ticket }: { ticket: TicketDetail }) {
   const own = ticket.toolStates.find((s) => s.moduleId === null);
-  const moduleStates = ticket.toolStates.filter((s) => s.moduleId !== null && (s.moduleId === ticket.module?.id || s.ticketId === ticket.id || boardStatusOf(s.state) !== 'running'));
+  const moduleStates = ticket.toolStates.filter(
+    (s) => s.moduleId !== null && (s.moduleId === ticket.module?.id || s.ticketId === ticket.id || boardStatusOf(s.state) !== 'running'),
+  );
   const staff = ticket.viewer.role !== 'member';
   const open = isOpenStatus(ticket.status);
 
@@ -63,14 +65,16 @@ export function TicketView({ ticket }: { ticket: TicketDetail }) {
             <span className="font-mono">{ticket.tool.code}</span> · {ticket.tool.name}
           </Link>
           {ticket.module ? ` · ${ticket.module.name}` : ''}
-          {ticket.tool.areaName ? ` · ${ticket.tool.areaName}` : ''} · reported by {ticket.reporter?.name ?? 'someone'} <RelativeTime value={ticket.createdAt} />
+          {ticket.tool.areaName ? ` · ${ticket.tool.areaName}` : ''} · reported by {ticket.reporter?.name ?? 'someone'}{' '}
+          <RelativeTime value={ticket.createdAt} />
         </p>
         {ticket.priorityReasons.length > 0 && <p className="text-xs text-muted">Priority because: {ticket.priorityReasons.join('; ')}.</p>}
       </header>
 
       {ticket.status === 'merged' && ticket.mergedIntoId && (
         <Alert tone="info" title={`Merged into ticket #${ticket.mergedIntoId}`}>
-          This report is kept with the ticket it was merged into. <Link to={`/tickets/${ticket.mergedIntoId}`}>Go to #{ticket.mergedIntoId}</Link>.
+          This report is kept with the ticket it was merged into.{' '}
+          <Link to={`/tickets/${ticket.mergedIntoId}`}>Go to #{ticket.mergedIntoId}</Link>.
         </Alert>
       )}
 
@@ -118,7 +122,9 @@ export function TicketView({ ticket }: { ticket: TicketDetail }) {
             <TicketTimeline events={ticket.events} modules={ticket.modules} />
           </Card>
 
-          {ticket.allowedActions.includes('comment') && <CommentBox ticketId={ticket.id} canNote={ticket.allowedActions.includes('note')} />}
+          {ticket.allowedActions.includes('comment') && (
+            <CommentBox ticketId={ticket.id} canNote={ticket.allowedActions.includes('note')} />
+          )}
         </div>
 
         <aside className="order-1 flex flex-col gap-6 lg:order-2">
@@ -126,7 +132,12 @@ export function TicketView({ ticket }: { ticket: TicketDetail }) {
             <ul className="flex flex-col gap-4">
               {own && <StateLine s={own} name={ticket.tool.name} ticketId={ticket.id} />}
               {moduleStates.map((s) => (
-                <StateLine key={s.moduleId} s={s} name={ticket.modules.find((m) => m.id === s.moduleId)?.name ?? 'Module'} ticketId={ticket.id} />
+                <StateLine
+                  key={s.moduleId}
+                  s={s}
+                  name={ticket.modules.find((m) => m.id === s.moduleId)?.name ?? 'Module'}
+                  ticketId={ticket.id}
+                />
               ))}
             </ul>
           </Card>
@@ -152,7 +163,10 @@ export function TicketView({ ticket }: { ticket: TicketDetail }) {
           <TicketActions ticket={ticket} />
 
           {ticket.allowedActions.includes('add_report') && !staff && (
-            <Link to={`/report?tool=${encodeURIComponent(ticket.tool.code)}&to=${ticket.id}`} className={buttonClasses({ variant: 'secondary', size: 'lg' })}>
+            <Link
+              to={`/report?tool=${encodeURIComponent(ticket.tool.code)}&to=${ticket.id}`}
+              className={buttonClasses({ variant: 'secondary', size: 'lg' })}
+            >
               I see it too — add my report
             </Link>
           )}

@@ -26,12 +26,21 @@ export function ToolTickets({ toolId, toolCode }: { toolId: number; toolCode?: s
       actions={
         <div role="group" aria-label="Which tickets" className="flex gap-1">
           {(['open', 'all'] as const).map((s) => (
-            <Button key={s} size="md" variant={status === s ? 'primary' : 'secondary'} aria-pressed={status === s} onClick={() => (setStatus(s), setOffset(0))}>
+            <Button
+              key={s}
+              size="md"
+              variant={status === s ? 'primary' : 'secondary'}
+              aria-pressed={status === s}
+              onClick={() => (setStatus(s), setOffset(0))}
+            >
               {s === 'open' ? 'Open' : 'All'}
             </Button>
           ))}
           {toolCode && (
-            <Link to={`/report?tool=${encodeURIComponent(toolCode)}`} className="inline-flex min-h-11 items-center px-3 text-sm font-semibold">
+            <Link
+              to={`/report?tool=${encodeURIComponent(toolCode)}`}
+              className="inline-flex min-h-11 items-center px-3 text-sm font-semibold"
+            >
               Report a fault
             </Link>
           )}
@@ -50,7 +59,11 @@ export function ToolTickets({ toolId, toolCode }: { toolId: number; toolCode?: s
           </Alert>
         </div>
       )}
-      {list.data && list.data.items.length === 0 && <p className="px-5 pb-5 text-sm text-muted">{status === 'open' ? 'No open tickets. Nobody has reported a problem that is still open.' : 'No tickets yet.'}</p>}
+      {list.data && list.data.items.length === 0 && (
+        <p className="px-5 pb-5 text-sm text-muted">
+          {status === 'open' ? 'No open tickets. Nobody has reported a problem that is still open.' : 'No tickets yet.'}
+        </p>
+      )}
       {list.data && list.data.items.length > 0 && (
         <>
           <TicketTable items={list.data.items} caption="Tickets on this tool" showTool={false} showTargets={status === 'open'} />

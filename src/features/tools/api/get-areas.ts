@@ -13,7 +13,11 @@ export function getAreas(options: { signal?: AbortSignal } = {}) {
 }
 
 export function areasQueryOptions() {
-  return queryOptions({ queryKey: [...toolKeys.all, 'areas'] as const, queryFn: ({ signal }) => getAreas({ signal }), staleTime: 5 * 60_000 });
+  return queryOptions({
+    queryKey: [...toolKeys.all, 'areas'] as const,
+    queryFn: ({ signal }) => getAreas({ signal }),
+    staleTime: 5 * 60_000,
+  });
 }
 
 export function useAreas() {

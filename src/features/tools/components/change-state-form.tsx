@@ -1,5 +1,13 @@
 import { useId, useState, type FormEvent } from 'react';
-import { BOARD_LABELS, E10_LABELS, REASONS_BY_STATE, REASON_LABELS, boardStatusOf, type E10State, type StateReason } from '@shared/equipment-state';
+import {
+  BOARD_LABELS,
+  E10_LABELS,
+  REASONS_BY_STATE,
+  REASON_LABELS,
+  boardStatusOf,
+  type E10State,
+  type StateReason,
+} from '@shared/equipment-state';
 import { stateChangeSchema, type BoardModule, type StateChangeInput } from '@shared/schemas/facility';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
@@ -111,7 +119,12 @@ export function ChangeStateForm({ toolId, modules, onDone }: ChangeStateFormProp
           <label htmlFor={`${ids}-target`} className="text-sm font-semibold text-ink">
             What changes
           </label>
-          <select id={`${ids}-target`} value={target} onChange={(e) => setTarget(e.target.value)} className="min-h-11 rounded-lg border border-control bg-card px-3 text-base text-ink amber:border-2">
+          <select
+            id={`${ids}-target`}
+            value={target}
+            onChange={(e) => setTarget(e.target.value)}
+            className="min-h-11 rounded-lg border border-control bg-card px-3 text-base text-ink amber:border-2"
+          >
             <option value="tool">The whole tool</option>
             {modules.map((m) => (
               <option key={m.id} value={m.id}>
@@ -135,7 +148,14 @@ export function ChangeStateForm({ toolId, modules, onDone }: ChangeStateFormProp
                   checked ? 'border-ink bg-sunken ring-2 ring-ink' : 'border-line bg-card hover:bg-sunken',
                 )}
               >
-                <input type="radio" name={`${ids}-state`} value={choice.state} checked={checked} onChange={() => chooseState(choice.state)} className="size-5 accent-[var(--color-accent)]" />
+                <input
+                  type="radio"
+                  name={`${ids}-state`}
+                  value={choice.state}
+                  checked={checked}
+                  onChange={() => chooseState(choice.state)}
+                  className="size-5 accent-[var(--color-accent)]"
+                />
                 <span className="flex min-w-0 flex-col gap-1">
                   <span className="flex flex-wrap items-center gap-2">
                     <StateBadge status={boardStatusOf(choice.state)} size="sm" />
@@ -155,7 +175,12 @@ export function ChangeStateForm({ toolId, modules, onDone }: ChangeStateFormProp
           <label htmlFor={`${ids}-reason`} className="text-sm font-semibold text-ink">
             Reason
           </label>
-          <select id={`${ids}-reason`} value={reason} onChange={(e) => setReason(e.target.value as StateReason)} className="min-h-11 rounded-lg border border-control bg-card px-3 text-base text-ink amber:border-2">
+          <select
+            id={`${ids}-reason`}
+            value={reason}
+            onChange={(e) => setReason(e.target.value as StateReason)}
+            className="min-h-11 rounded-lg border border-control bg-card px-3 text-base text-ink amber:border-2"
+          >
             {REASONS_BY_STATE[state].map((r) => (
               <option key={r} value={r}>
                 {REASON_LABELS[r]}
@@ -181,7 +206,10 @@ export function ChangeStateForm({ toolId, modules, onDone }: ChangeStateFormProp
           onChange={(e) => setNote(e.target.value)}
           aria-describedby={`${ids}-note-hint`}
           aria-invalid={Boolean(fieldError('note')) || undefined}
-          className={cx('rounded-lg border bg-card px-3 py-2 text-base text-ink amber:border-2', fieldError('note') ? 'border-2 border-state-down-fill' : 'border-control')}
+          className={cx(
+            'rounded-lg border bg-card px-3 py-2 text-base text-ink amber:border-2',
+            fieldError('note') ? 'border-2 border-state-down-fill' : 'border-control',
+          )}
         />
         {fieldError('note') && <p className="text-sm font-medium text-alert-danger-ink">{fieldError('note')!.join(' ')}</p>}
       </div>

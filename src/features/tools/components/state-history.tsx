@@ -23,7 +23,9 @@ const UNNAMED: Record<string, string> = {
 function Entry({ entry }: { entry: HistoryEntry }) {
   const status = boardStatusOf(entry.state);
   const lasted = entry.endedAt ? formatDuration(new Date(entry.endedAt).getTime() - new Date(entry.startedAt).getTime()) : null;
-  const who = entry.setBy ? `by ${entry.setBy.name}${entry.source === 'user_report' ? ' (a user’s report)' : ''}` : (UNNAMED[entry.source] ?? 'set by staff');
+  const who = entry.setBy
+    ? `by ${entry.setBy.name}${entry.source === 'user_report' ? ' (a user’s report)' : ''}`
+    : (UNNAMED[entry.source] ?? 'set by staff');
   return (
     <li className="relative flex gap-3 pb-5 last:pb-0" data-testid="history-entry">
       <span aria-hidden="true" className="absolute top-8 bottom-0 left-[0.6875rem] w-0.5 bg-line" />
@@ -66,7 +68,11 @@ const isAutomatic = (e: HistoryEntry) => e.source === 'system' || e.source === '
 export function StateHistory({ toolId }: { toolId: number }) {
   const [open, setOpen] = useState(false);
   return (
-    <details className="rounded-xl border border-line bg-card p-5 amber:border-2" onToggle={(e) => setOpen((e.target as HTMLDetailsElement).open)} data-testid="state-history">
+    <details
+      className="rounded-xl border border-line bg-card p-5 amber:border-2"
+      onToggle={(e) => setOpen((e.target as HTMLDetailsElement).open)}
+      data-testid="state-history"
+    >
       <summary className="flex min-h-11 cursor-pointer items-center text-lg font-semibold text-ink">State history</summary>
       {open && (
         <div className="mt-3">
@@ -101,7 +107,11 @@ function HistoryList({ toolId }: { toolId: number }) {
             <Entry key={entry.id} entry={entry} />
           ))}
       </ol>
-      {hidden > 0 && <p className="text-sm text-muted">{hidden === 1 ? 'One automatic change' : `${hidden} automatic changes`} on this page folded away.</p>}
+      {hidden > 0 && (
+        <p className="text-sm text-muted">
+          {hidden === 1 ? 'One automatic change' : `${hidden} automatic changes`} on this page folded away.
+        </p>
+      )}
       <nav aria-label="History pages" className="flex flex-wrap items-center gap-3">
         <Button variant="secondary" disabled={offset === 0} onClick={() => setOffset(Math.max(0, offset - PAGE))}>
           Newer

@@ -12,7 +12,8 @@ export function ToolStatusPanel({ tool }: { tool: ToolDetail }) {
       <div className="flex flex-wrap items-center gap-3">
         <StateBadge status={tool.status} size="lg" label={reported ? `${BOARD_LABELS[tool.status]} · reported` : undefined} />
         <span className="text-muted">
-          <RelativeTime value={tool.since} mode="elapsed" prefix="for" /> <span className="text-sm">(since {formatExact(new Date(tool.since))})</span>
+          <RelativeTime value={tool.since} mode="elapsed" prefix="for" />{' '}
+          <span className="text-sm">(since {formatExact(new Date(tool.since))})</span>
         </span>
       </div>
       {tool.note && <p className="text-base text-ink">{tool.note}</p>}

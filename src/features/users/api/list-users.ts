@@ -23,7 +23,10 @@ export interface UserList {
 }
 
 export function listUsers(filters: UserListFilters, options: { signal?: AbortSignal } = {}): Promise<UserList> {
-  return api.get<UserList>('/api/users', { signal: options.signal, params: { q: filters.q || undefined, role: filters.role, limit: filters.limit, offset: filters.offset } });
+  return api.get<UserList>('/api/users', {
+    signal: options.signal,
+    params: { q: filters.q || undefined, role: filters.role, limit: filters.limit, offset: filters.offset },
+  });
 }
 
 export function usersQueryOptions(filters: UserListFilters) {

@@ -27,7 +27,14 @@ function StatusMark({ status }: { status: AccountStatus }) {
     return (
       <svg {...common}>
         <circle cx="8" cy="8" r="7" fill="currentColor" />
-        <path d="m4.7 8.2 2.2 2.2 4.4-4.7" fill="none" stroke="var(--color-card)" strokeWidth="1.8" strokeLinecap="round" strokeLinejoin="round" />
+        <path
+          d="m4.7 8.2 2.2 2.2 4.4-4.7"
+          fill="none"
+          stroke="var(--color-card)"
+          strokeWidth="1.8"
+          strokeLinecap="round"
+          strokeLinejoin="round"
+        />
       </svg>
     );
   }
@@ -53,7 +60,11 @@ export function AccountStatusBadge({ status, className }: { status: AccountStatu
   return (
     <span
       data-account-status={status}
-      className={cx('inline-flex h-6 items-center gap-1 rounded-md border px-2 text-xs font-semibold whitespace-nowrap amber:border-2', LOOK[status], className)}
+      className={cx(
+        'inline-flex h-6 items-center gap-1 rounded-md border px-2 text-xs font-semibold whitespace-nowrap amber:border-2',
+        LOOK[status],
+        className,
+      )}
     >
       <StatusMark status={status} />
       {ACCOUNT_STATUS_LABELS[status]}

@@ -117,13 +117,7 @@ export function InviteUserForm({ onInvited, onCancel }: InviteUserFormProps) {
         }}
       />
 
-      <CheckboxField
-        label="On call"
-        name="onCall"
-        hint={ON_CALL_HINT}
-        checked={onCall}
-        onChange={setOnCall}
-      />
+      <CheckboxField label="On call" name="onCall" hint={ON_CALL_HINT} checked={onCall} onChange={setOnCall} />
 
       <div className="flex flex-wrap gap-3">
         <Button type="submit" busy={invite.isPending}>

@@ -84,7 +84,14 @@ export function UserEditor({ user, isSelf, onSaved, onClose }: UserEditorProps) 
             if (isRole(event.target.value)) setRole(event.target.value);
           }}
         />
-        <CheckboxField label="On call" name="onCall" hint={ON_CALL_HINT} checked={onCall} onChange={setOnCall} disabled={update.isPending} />
+        <CheckboxField
+          label="On call"
+          name="onCall"
+          hint={ON_CALL_HINT}
+          checked={onCall}
+          onChange={setOnCall}
+          disabled={update.isPending}
+        />
       </div>
 
       <div className="flex flex-wrap gap-3">
@@ -98,8 +105,8 @@ export function UserEditor({ user, isSelf, onSaved, onClose }: UserEditorProps) 
 
       {user.invited && user.active && (
         <p className="text-sm text-muted">
-          Invitation not arrived or expired? {user.name} can ask for a fresh link on the sign-in page under “Forgot your
-          password?”, using {user.email}.
+          Invitation not arrived or expired? {user.name} can ask for a fresh link on the sign-in page under “Forgot your password?”, using{' '}
+          {user.email}.
         </p>
       )}
 
@@ -129,9 +136,7 @@ export function UserEditor({ user, isSelf, onSaved, onClose }: UserEditorProps) 
           </Alert>
         ) : (
           <div className="mt-2 flex flex-wrap items-center gap-3">
-            <p className="text-sm text-muted">
-              {user.active ? 'The account can sign in.' : 'The account is disabled and cannot sign in.'}
-            </p>
+            <p className="text-sm text-muted">{user.active ? 'The account can sign in.' : 'The account is disabled and cannot sign in.'}</p>
             <Button variant="secondary" onClick={() => setConfirming(true)} disabled={update.isPending}>
               {user.active ? 'Disable account…' : 'Enable account…'}
             </Button>

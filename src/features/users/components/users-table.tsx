@@ -35,11 +35,21 @@ export function UsersTable({ users, currentUserId, onSaved, caption }: UsersTabl
       <caption className="sr-only">{caption}</caption>
       <thead className="border-b border-line text-xs font-semibold tracking-wide text-muted uppercase">
         <tr>
-          <th scope="col" className="px-4 py-3">Person</th>
-          <th scope="col" className="hidden px-4 py-3 sm:table-cell">Role</th>
-          <th scope="col" className="hidden px-4 py-3 md:table-cell">On call</th>
-          <th scope="col" className="hidden px-4 py-3 sm:table-cell">Status</th>
-          <th scope="col" className="hidden px-4 py-3 lg:table-cell">Last sign-in</th>
+          <th scope="col" className="px-4 py-3">
+            Person
+          </th>
+          <th scope="col" className="hidden px-4 py-3 sm:table-cell">
+            Role
+          </th>
+          <th scope="col" className="hidden px-4 py-3 md:table-cell">
+            On call
+          </th>
+          <th scope="col" className="hidden px-4 py-3 sm:table-cell">
+            Status
+          </th>
+          <th scope="col" className="hidden px-4 py-3 lg:table-cell">
+            Last sign-in
+          </th>
           <th scope="col" className="px-4 py-3 text-right">
             <span className="sr-only">Actions</span>
           </th>
@@ -52,7 +62,11 @@ export function UsersTable({ users, currentUserId, onSaved, caption }: UsersTabl
           const isSelf = user.id === currentUserId;
           return (
             <Fragment key={user.id}>
-              <tr data-testid="user-row" data-user-email={user.email} className={cx('border-b border-line align-middle', open && 'bg-sunken')}>
+              <tr
+                data-testid="user-row"
+                data-user-email={user.email}
+                className={cx('border-b border-line align-middle', open && 'bg-sunken')}
+              >
                 <td className="px-4 py-3">
                   <div className="font-semibold text-ink">
                     {user.name}
@@ -67,15 +81,11 @@ export function UsersTable({ users, currentUserId, onSaved, caption }: UsersTabl
                         <OnCallMark />
                       </span>
                     )}
-                    <span>
-                      {user.lastSignInAt ? <RelativeTime value={user.lastSignInAt} prefix="signed in" /> : 'never signed in'}
-                    </span>
+                    <span>{user.lastSignInAt ? <RelativeTime value={user.lastSignInAt} prefix="signed in" /> : 'never signed in'}</span>
                   </div>
                 </td>
                 <td className="hidden px-4 py-3 sm:table-cell">{ROLE_LABELS[user.role]}</td>
-                <td className="hidden px-4 py-3 md:table-cell">
-                  {user.onCall ? <OnCallMark /> : <span className="text-muted">No</span>}
-                </td>
+                <td className="hidden px-4 py-3 md:table-cell">{user.onCall ? <OnCallMark /> : <span className="text-muted">No</span>}</td>
                 <td className="hidden px-4 py-3 sm:table-cell">
                   <AccountStatusBadge status={accountStatus(user)} />
                 </td>
