@@ -165,7 +165,17 @@ export const ticketActionSchema = z.discriminatedUnion('action', [
   }),
   z.strictObject({ action: z.literal('confirm_down'), version }),
   z.strictObject({ action: z.literal('revert_down'), version, note: optionalText(500) }),
-  z.strictObject({ action: z.literal('wait'), version, waitReason: z.enum(WAIT_REASONS), note: optionalText(1000) }),
+  z.strictObject({
+    action: z.literal('wait'),
+    version,
+    waitReason: z.enum(WAIT_REASONS),
+    note: optionalText(1000),
+    /** When the wait should end (parts due, vendor visit); shown on the board as the expected return. */
+    expectedReturnAt: z.iso
+      .datetime({ offset: true })
+      .nullish()
+      .transform((v) => (v ? new Date(v) : null)),
+  }),
   z.strictObject({ action: z.literal('resume'), version }),
   z.strictObject({
     action: z.literal('fix'),

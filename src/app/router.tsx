@@ -44,6 +44,7 @@ export const router = createBrowserRouter([
               { path: 'report', lazy: () => import('@/app/routes/report') },
               { path: 'tickets/:id', lazy: () => import('@/app/routes/tickets') },
               { path: 'my-reports', lazy: () => import('@/app/routes/my-reports') },
+              { path: 'following', lazy: () => import('@/app/routes/following') },
 
               // ---- Admin only ----
               {

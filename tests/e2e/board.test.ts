@@ -116,8 +116,11 @@ describe('the status board in the browser', () => {
       const tech = await signedInPage(technicianEmail, viewport);
       await tech.goto(`${server.url}/tools/${tools['TRACK-A'].code}`);
       await tech.getByTestId('tool-status').waitFor();
+      // The history is folded, automatic changes collapsed, until asked for.
+      await tech.getByTestId('state-history').locator('summary').click();
+      await tech.getByLabel(/Show automatic changes/).check();
       await tech.getByTestId('history-entry').first().waitFor();
-      expect(await tech.getByTestId('report-problem').getAttribute('href')).toBe(`/report?tool=${tools['TRACK-A'].code}`);
+      expect(await tech.getByTestId('report-fault').getAttribute('href')).toBe(`/report?tool=${tools['TRACK-A'].code}`);
       await screenshot(tech, `tool-page-${name}`);
       // Nothing sticks out sideways on a phone.
       expect(await tech.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(viewport.width);
@@ -137,12 +140,14 @@ describe('the status board in the browser', () => {
     await screenshot(page, 'board-amber-desktop');
   });
 
-  it('when a tool page is opened, then it shows state, modules, availability, history and a Report a problem link', async () => {
+  it('when a tool page is opened, then it shows state, modules, availability, history and a Report a fault link', async () => {
     const page = await signedInPage(memberEmail, VIEWPORTS.phone);
     await page.goto(`${server.url}/tools/${tools['ICP-1'].code}`);
     await page.getByTestId('tool-status').waitFor();
     expect(await page.getByTestId('tool-status').textContent()).toContain('Maintenance');
     expect(await page.getByTestId('availability').textContent()).toMatch(/^\d+\.\d %$/);
+    await page.getByTestId('state-history').locator('summary').click();
+    await page.getByLabel(/Show automatic changes/).check();
     await expect.poll(() => page.getByTestId('history-entry').count()).toBe(2);
     // Members follow tools but never see the state form.
     expect(await page.getByRole('button', { name: 'Set state' }).count()).toBe(0);

@@ -66,10 +66,10 @@ describe('reporting a fault from a phone and fixing it', () => {
     await expect.poll(() => staff.page.getByTestId('queue-count').innerText()).toMatch(/Nothing here/);
     await staff.page.evaluate(() => ((window as unknown as { queueNotReloaded: boolean }).queueNotReloaded = true));
 
-    // The member is at the tool with a phone: tool page, then "Report a problem".
+    // The member is at the tool with a phone: tool page, then "Report a fault".
     const reporter = await signedInPage(member.email, VIEWPORTS.phone);
     await reporter.page.goto(`${server.url}/tools/${tool.code}`);
-    await reporter.page.getByTestId('report-problem').click();
+    await reporter.page.getByTestId('report-fault').click();
     await reporter.page.waitForURL(/\/report\?tool=/);
     await fillReport(reporter.page, 'The transfer arm stopped half-way into the chamber and the tool halted.');
     await screenshot(reporter.page, 'report-form-phone');

@@ -329,3 +329,21 @@ describe('notices without the flood', () => {
     }
   });
 });
+
+describe('waiting with an expected date', () => {
+  it('when a technician sets waiting with an expected date, then the board shows it as the expected return', async () => {
+    const { tool } = await createTool(server.deps.sequelize);
+    const { client: member } = await signedInClient(server.url, 'member');
+    const t = await fileReport(member, tool.id, { impact: 'tool_stopped' });
+    const { client: tech } = await staffClient();
+    const due = new Date(Date.now() + 3 * 24 * 3_600_000);
+    expect((await act(tech, t.id, { action: 'acknowledge' })).status).toBe(200);
+    expect(
+      (await act(tech, t.id, { action: 'wait', waitReason: 'parts', note: 'Valve ordered', expectedReturnAt: due.toISOString() })).status,
+    ).toBe(200);
+    const entry = (await member.get(`/api/board?q=${tool.code}`)).body.areas
+      .flatMap((a: any) => a.tools)
+      .find((x: any) => x.code === tool.code);
+    expect(new Date(entry.expectedReturnAt).getTime()).toBe(due.getTime());
+  });
+});

@@ -37,7 +37,7 @@ import {
   updateModule,
   updateTool,
 } from './tools.service';
-import { followTool, unfollowByToken, unfollowTool } from './follow.service';
+import { followTool, listFollowedTools, unfollowByToken, unfollowTool } from './follow.service';
 import { createDisplayLink, describeDisplay, listDisplayLinks, revokeDisplayLink, verifyDisplayKey } from './display-links.service';
 import { getLabels } from './labels.service';
 
@@ -116,6 +116,13 @@ export function facilityRoutes(opts: { log: Logger }): RouteSpec[] {
       body: stateChangeSchema,
       status: 201,
       handle: ({ deps, params, body, user }) => setToolState(deps, params.id, body, user!.id),
+    }),
+    route({
+      method: 'get',
+      path: '/me/following',
+      access: 'member',
+      summary: 'The tools I follow, as board entries',
+      handle: ({ deps, user }) => listFollowedTools(deps, user!.id),
     }),
     route({
       method: 'put',

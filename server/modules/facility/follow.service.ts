@@ -31,6 +31,14 @@ export async function followTool(deps: AppDeps, userId: number, toolId: number) 
   });
 }
 
+/** "Tools I follow": the person's followed tools as board entries, by name. */
+export async function listFollowedTools(deps: AppDeps, userId: number) {
+  const follows = await ToolFollow.findAll({ where: { userId }, attributes: ['toolId'], limit: 500 });
+  if (follows.length === 0) return { items: [] };
+  const tools = await loadBoardTools(deps.sequelize, { toolIds: follows.map((f) => f.toolId), includeRetired: false });
+  return { items: tools.sort((a, b) => a.name.localeCompare(b.name)) };
+}
+
 export async function unfollowTool(userId: number, toolId: number) {
   if (!(await Tool.findByPk(toolId, { attributes: ['id'] }))) throw notFound('Tool');
   await ToolFollow.destroy({ where: { userId, toolId } });

@@ -3,7 +3,7 @@ import { Area, Tool } from './facility.model';
 import type { AppDeps } from '../../lib/http';
 import type { ToolLabel } from '../../../shared/schemas/facility';
 
-/** The address a tool's label opens: the tool page, where "Report a problem" is one tap away. */
+/** The address a tool's label opens: the tool page, where "Report a fault" is one tap away. */
 export function toolUrl(publicUrl: string, code: string) {
   return `${publicUrl.replace(/\/$/, '')}/tools/${encodeURIComponent(code)}`;
 }

@@ -75,6 +75,7 @@ async function syncDowntimeReason(
   reason: StateReason,
   transaction: Transaction,
   note: string | null = null,
+  expectedReturnAt?: Date | null,
 ) {
   for (const held of await intervalsHeldBy(ticket.id, transaction)) {
     // A limited (restricted, still running) interval keeps its running reason.
@@ -89,7 +90,7 @@ async function syncDowntimeReason(
         state: 'unscheduled_downtime',
         reason,
         note,
-        expectedReturnAt: held.expectedReturnAt,
+        expectedReturnAt: expectedReturnAt ?? held.expectedReturnAt,
         source: held.source === 'user_report' ? 'user_report' : 'staff',
         confirmed: held.confirmed,
       },
@@ -151,8 +152,16 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
       case 'wait':
         ticket.waitReason = input.waitReason;
         statusNote = input.note;
-        statusData = { waitReason: input.waitReason };
-        await syncDowntimeReason(deps, ticket, user.id, WAIT_STATE_REASON[input.waitReason], transaction, input.note);
+        statusData = { waitReason: input.waitReason, expectedReturnAt: input.expectedReturnAt?.toISOString() ?? null };
+        await syncDowntimeReason(
+          deps,
+          ticket,
+          user.id,
+          WAIT_STATE_REASON[input.waitReason],
+          transaction,
+          input.note,
+          input.expectedReturnAt,
+        );
         break;
       case 'resume':
         ticket.waitReason = null;

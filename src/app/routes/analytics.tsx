@@ -53,7 +53,7 @@ function MonthTable({ months }: { months: AnalyticsMonthRow[] }) {
       <summary className="inline-flex min-h-11 cursor-pointer items-center text-sm font-semibold text-accent">
         The numbers per month
       </summary>
-      <div className="overflow-x-auto">
+      <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Hours per month (scrolls sideways)">
         <table className="w-full border-collapse text-left text-sm" data-testid="month-table">
           <caption className="sr-only">Hours in each E10 state, availability and failures per month</caption>
           <thead className="border-y border-line text-xs font-semibold text-muted">

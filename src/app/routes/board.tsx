@@ -22,7 +22,7 @@ export function BoardPage() {
         actions={
           <>
             <Link to="/report" className={buttonClasses({ size: 'lg' })}>
-              Report a problem
+              Report a fault
             </Link>
             {staff && (
               <Link to="/labels" className={buttonClasses({ variant: 'secondary' })}>

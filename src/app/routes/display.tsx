@@ -10,6 +10,7 @@ import { DisplayBoard } from '@/features/display/components/display-board';
 import { displayKeys } from '@/features/display/api/display-keys';
 import { useRealtimeStatus } from '@/lib/socket';
 import { useRealtime } from '@/app/realtime';
+import { useFacilitySettings } from '@/lib/facility-settings';
 
 function Message({ title, text }: { title: string; text: string }) {
   return (
@@ -39,6 +40,7 @@ export function DisplayPage() {
   const recheck = useCallback(() => void queryClient.invalidateQueries({ queryKey: displayKeys.all }), [queryClient]);
   useRealtime({ displayKey: key, onRefused: recheck, enabled: allowed });
   const status = useRealtimeStatus();
+  const settings = useFacilitySettings(allowed ? key : undefined);
 
   if (refused || (isApiError(board.error) && board.error.status === 401)) {
     return (
@@ -60,7 +62,7 @@ export function DisplayPage() {
   return (
     <>
       <title>{`${link.data.name} · Faultline`}</title>
-      <DisplayBoard name={link.data.name} data={board.data} status={status} areaCodes={areaCodes} />
+      <DisplayBoard name={link.data.name} data={board.data} status={status} areaCodes={areaCodes} timeZone={settings.data?.timeZone} />
     </>
   );
 }

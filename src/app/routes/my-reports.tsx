@@ -24,7 +24,7 @@ export function MyReportsPage() {
         description="Problems you reported, or added your report to. You get an e-mail when one of them changes."
         actions={
           <Link to="/report" className={buttonClasses({ size: 'lg' })}>
-            Report a problem
+            Report a fault
           </Link>
         }
       />
@@ -41,7 +41,7 @@ export function MyReportsPage() {
       )}
       {list.data && list.data.items.length === 0 && (
         <Alert tone="info" title="No reports yet">
-          When you report a problem, it appears here with its status.
+          When you report a fault, it appears here with its status.
         </Alert>
       )}
       {list.data && list.data.items.length > 0 && (

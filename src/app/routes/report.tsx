@@ -12,9 +12,9 @@ export function ReportPage() {
   const to = Number(params.get('to'));
   return (
     <>
-      <title>Report a problem · Faultline</title>
+      <title>Report a fault · Faultline</title>
       <PageHeader
-        title="Report a problem"
+        title="Report a fault"
         description="Tell the technicians what is wrong with a tool. Your answers are kept on this device until the report is sent."
       />
       <ReportForm key={user.id} userId={user.id} toolCode={params.get('tool')} addTo={to > 0 ? to : null} />

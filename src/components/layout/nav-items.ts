@@ -17,8 +17,9 @@ export interface NavItem {
 export const NAV_ITEMS: readonly NavItem[] = [
   { to: '/', label: 'Home', minimumRole: 'member', ready: true },
   { to: '/board', label: 'Status board', minimumRole: 'member', ready: true },
-  { to: '/report', label: 'Report a problem', minimumRole: 'member', ready: true },
+  { to: '/report', label: 'Report a fault', minimumRole: 'member', ready: true },
   { to: '/my-reports', label: 'My reports', minimumRole: 'member', ready: true },
+  { to: '/following', label: 'Tools I follow', minimumRole: 'member', ready: true },
   { to: '/queue', label: 'Queue', minimumRole: 'technician', ready: true },
   { to: '/maintenance', label: 'Maintenance', minimumRole: 'technician', ready: true },
   { to: '/calendar-feeds', label: 'Calendar feeds', minimumRole: 'member', ready: true, inMenu: false },

@@ -29,7 +29,7 @@ export function LabelsPage() {
       <div className="print:hidden">
         <PageHeader
           title="QR labels"
-          description="One label per tool. Scanning one opens the tool’s page, where anyone can see its state and report a problem."
+          description="One label per tool. Scanning one opens the tool’s page, where anyone can see its state and report a fault."
           actions={
             <Button onClick={() => window.print()} disabled={!labels.data}>
               Print

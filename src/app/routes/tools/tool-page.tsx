@@ -78,9 +78,9 @@ export function ToolPage() {
             <Link
               to={`/report?tool=${encodeURIComponent(t.code)}`}
               className={buttonClasses({ variant: 'danger', size: 'lg' })}
-              data-testid="report-problem"
+              data-testid="report-fault"
             >
-              Report a problem
+              Report a fault
             </Link>
           )
         }
@@ -101,6 +101,14 @@ export function ToolPage() {
             </Alert>
           )}
 
+          {/* First on a phone too: following is what most people at the tool came to do. */}
+          {!retired && (
+            <Card as="section" title="Tell me when it changes">
+              <FollowButton toolId={t.id} code={t.code} following={t.following} />
+              {t.following && <PushToggle />}
+            </Card>
+          )}
+
           {t.modules.length > 0 && (
             <Card as="section" title="Modules" description="Some modules down make the tool Limited; all of them down make it Down.">
               <ModuleStates modules={t.modules} />
@@ -111,21 +119,12 @@ export function ToolPage() {
 
           <ToolAlarmsPanel code={t.code} staff={staff} />
 
-          <Card as="section" title="State history">
-            <StateHistory toolId={t.id} />
-          </Card>
+          <StateHistory toolId={t.id} />
 
           <RequalCharts toolId={t.id} />
         </div>
 
         <div className="flex min-w-0 flex-col gap-6">
-          {!retired && (
-            <Card as="section" title="Tell me when it changes">
-              <FollowButton toolId={t.id} code={t.code} following={t.following} />
-              {t.following && <PushToggle />}
-            </Card>
-          )}
-
           {staff && !retired && (
             <Card as="section" title="Change the state">
               <ChangeStateForm toolId={t.id} modules={t.modules} />

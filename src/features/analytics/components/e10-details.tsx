@@ -61,7 +61,7 @@ export function E10Details({ figures }: { figures: ReliabilityFigures }) {
 
 export function AreaTable({ areas }: { areas: AnalyticsAreaRow[] }) {
   return (
-    <div className="overflow-x-auto">
+    <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Time in each E10 state (scrolls sideways)">
       <table className="w-full border-collapse text-left text-sm" data-testid="area-table">
         <caption className="sr-only">Figures per area</caption>
         <thead className="border-y border-line text-xs font-semibold tracking-wide text-muted uppercase">

@@ -6,7 +6,7 @@ import { formatCount, formatMinutes, formatShare } from '@/features/analytics/co
 export function ResponseTable({ rows, overall }: { rows: ResponseRow[]; overall: ResponseRow }) {
   const all = [...rows, overall];
   return (
-    <div className="overflow-x-auto print:overflow-visible">
+    <div className="overflow-x-auto print:overflow-visible" tabIndex={0} role="region" aria-label="Response times (scrolls sideways)">
       <table
         className="w-full border-collapse text-left text-sm print:text-xs print:[&_td]:px-1.5 print:[&_th]:px-1.5"
         data-testid="response-table"

@@ -89,7 +89,7 @@ export function ToolRanking({ tools }: { tools: AnalyticsToolRow[] }) {
           </button>
         ))}
       </div>
-      <div className="overflow-x-auto">
+      <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Tools ranked (scrolls sideways)">
         <table className="w-full border-collapse text-left text-sm" data-testid="tool-ranking">
           <caption className="sr-only">Tools ranked by {SORTS.find((s) => s.key === sort)!.label.toLowerCase()}</caption>
           <thead className="border-y border-line text-xs font-semibold tracking-wide text-muted uppercase">

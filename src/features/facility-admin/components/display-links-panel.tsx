@@ -30,6 +30,11 @@ function NewLinkNotice({ link }: { link: NewDisplayLink }) {
       <p className="mt-2 rounded border border-line bg-card p-2 font-mono text-xs break-all text-ink" data-testid="new-display-url">
         {link.url}
       </p>
+      <p className="mt-2" data-testid="display-bays-help">
+        To show only some bays (a screen that hangs in one bay), add their area codes to the address:{' '}
+        <code className="font-mono">{link.url}?areas=LITHO,ETCH</code>. When the bays do not fit on the screen, the display pages through
+        them by itself.
+      </p>
     </Alert>
   );
 }

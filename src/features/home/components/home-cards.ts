@@ -93,10 +93,10 @@ export const HOME_SECTIONS: readonly HomeSection[] = [
     heading: 'At the tools',
     cards: [
       {
-        title: 'Report a problem',
+        title: 'Report a fault',
         text: 'Scan the QR label on the tool with your phone, or pick the tool on the status board. Say what happened, copy the alarm text, add a photo of the screen. If the tool stopped, everyone sees it as Down straight away.',
         to: '/report',
-        linkLabel: 'Report a problem',
+        linkLabel: 'Report a fault',
       },
       {
         title: 'See what is running',

@@ -86,7 +86,7 @@ export function NoticeBell() {
           id={panelId}
           role="region"
           aria-label="Notices"
-          className="absolute right-0 z-40 mt-2 w-[min(24rem,calc(100vw-2rem))] rounded-xl border border-line bg-card shadow-lg amber:border-2"
+          className="fixed inset-x-4 top-16 z-40 rounded-xl sm:absolute sm:inset-x-auto sm:top-auto sm:right-0 sm:mt-2 sm:w-96 border border-line bg-card shadow-lg amber:border-2"
         >
           <div className="flex items-center justify-between gap-2 border-b border-line px-4 py-2">
             <h2 className="font-semibold text-ink">Notices</h2>

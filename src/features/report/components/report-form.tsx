@@ -160,7 +160,7 @@ export function ReportForm({ userId, toolCode, addTo }: { userId: number; toolCo
       onSubmit={submit}
       noValidate
       className="mx-auto flex max-w-2xl flex-col gap-6"
-      aria-label="Report a problem"
+      aria-label="Report a fault"
       data-testid="report-form"
     >
       <p className="text-sm text-muted">In an emergency, leave the area and raise the facility alarm first. Report here afterwards.</p>

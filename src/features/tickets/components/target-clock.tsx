@@ -69,7 +69,7 @@ export function TargetClock({
       className={cx(
         'inline-flex items-center gap-1 rounded-md border border-transparent px-1.5 py-0.5 text-xs font-medium whitespace-nowrap tabular-nums',
         stopped && status === 'ok' ? 'text-muted' : LOOK[status],
-        stopped && 'opacity-80',
+        // A stopped clock reads by its muted colour and its words, never by fading (contrast).
         status !== 'ok' && 'amber:border-2 amber:border-black amber:font-bold',
       )}
     >

@@ -10,7 +10,16 @@ import {
   type FixKind,
   type WaitReason,
 } from '@shared/report-options';
-import { E10_LABELS, E10_STATES, REASONS_BY_STATE, REASON_LABELS, type E10State, type StateReason } from '@shared/equipment-state';
+import {
+  BOARD_LABELS,
+  E10_LABELS,
+  E10_STATES,
+  REASONS_BY_STATE,
+  REASON_LABELS,
+  boardStatusOf,
+  type E10State,
+  type StateReason,
+} from '@shared/equipment-state';
 import { ticketActionSchema, type TicketActionInput, type TicketDetail } from '@shared/schemas/tickets';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
@@ -36,6 +45,25 @@ interface Conflict {
 
 const ONE_CLICK: TicketAction[] = ['acknowledge', 'start_repair', 'resume', 'close'];
 
+// The one or two steps the workflow expects next from each status; every other action
+// allowed is offered in a quieter group below them.
+const NEXT_STEPS: Partial<Record<TicketDetail['status'], readonly string[]>> = {
+  reported: ['confirm_down', 'acknowledge'],
+  acknowledged: ['start_repair', 'fix'],
+  in_repair: ['fix', 'wait'],
+  waiting: ['resume'],
+  fixed: ['close'],
+};
+
+const DONE_WORDS: Partial<Record<string, string>> = {
+  acknowledge: 'Acknowledged.',
+  start_repair: 'Repair started.',
+  resume: 'Repair resumed.',
+  close: 'Ticket closed.',
+  confirm_down: 'Confirmed: the tool state is as reported.',
+  revert_down: 'Reverted: the tool is back in the state it had before.',
+};
+
 /**
  * Every change a viewer may make, as buttons that follow the shared workflow table. A form
  * remembers the ticket as it was when the form opened; saving sends that version, so a
@@ -46,10 +74,13 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
   const [open, setOpen] = useState<{ form: FormName; seen: TicketDetail } | null>(null);
   const [conflict, setConflict] = useState<Conflict | null>(null);
   const [error, setError] = useState<{ message: string; fields?: Record<string, string[]> } | null>(null);
+  const [done, setDone] = useState<string | null>(null);
   const allowed = new Set(ticket.allowedActions);
+  const next = new Set(NEXT_STEPS[ticket.status] ?? []);
 
   const send = (body: Body, seen: TicketDetail) => {
     setError(null);
+    setDone(null);
     const input = { ...body, version: seen.version } as Input;
     const parsed = ticketActionSchema.safeParse(input);
     if (!parsed.success) {
@@ -62,6 +93,7 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
       onSuccess: () => {
         setOpen(null);
         setConflict(null);
+        setDone(DONE_WORDS[body.action] ?? 'Saved.');
       },
       onError: (e) => {
         if (e instanceof StaleTicket) setConflict({ before: seen, current: e.current, attempted: body });
@@ -76,6 +108,7 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
   };
 
   const buttons: ReactNode[] = [];
+  const others: ReactNode[] = [];
   if (allowed.has('confirm_down')) {
     // A "tool limited" report holds a restriction on a running tool rather than a Down.
     const held = ticket.toolStates.find((s) => s.ticketId === ticket.id && s.source === 'user_report' && !s.confirmed);
@@ -103,11 +136,11 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
   }
   for (const a of ONE_CLICK) {
     if (allowed.has(a)) {
-      buttons.push(
+      (next.has(a) ? buttons : others).push(
         <Button
           key={a}
           size="lg"
-          variant={a === 'acknowledge' || a === 'start_repair' ? 'primary' : 'secondary'}
+          variant={next.has(a) ? 'primary' : 'secondary'}
           busy={action.isPending && action.variables?.action === a}
           onClick={() => send({ action: a } as Body, ticket)}
         >
@@ -116,20 +149,20 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
       );
     }
   }
-  const formButton = (form: FormName, label: string, when: boolean, variant: 'primary' | 'secondary' = 'secondary') =>
+  const formButton = (form: FormName, label: string, when: boolean) =>
     when &&
-    buttons.push(
+    (next.has(form) ? buttons : others).push(
       <Button
         key={form}
         size="lg"
-        variant={variant}
+        variant={next.has(form) ? 'primary' : 'secondary'}
         aria-expanded={open?.form === form}
         onClick={() => (open?.form === form ? setOpen(null) : openForm(form))}
       >
         {label}
       </Button>,
     );
-  formButton('fix', ACTIONS.fix.label, allowed.has('fix'), 'primary');
+  formButton('fix', ACTIONS.fix.label, allowed.has('fix'));
   formButton('wait', ACTIONS.wait.label, allowed.has('wait'));
   formButton('state', 'Set tool state', allowed.has('set_state'));
   formButton('assign', 'Assign', allowed.has('assign'));
@@ -138,7 +171,7 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
   formButton('no_fault_found', ACTIONS.no_fault_found.label, allowed.has('no_fault_found'));
   formButton('reopen', ACTIONS.reopen.label, allowed.has('reopen'));
 
-  if (buttons.length === 0 && !conflict) return null;
+  if (buttons.length === 0 && others.length === 0 && !conflict) return null;
 
   return (
     <section aria-labelledby="ticket-actions-title" className="flex flex-col gap-4" data-testid="ticket-actions">
@@ -158,7 +191,22 @@ export function TicketActions({ ticket }: { ticket: TicketDetail }) {
           }}
         />
       )}
-      <div className="flex flex-wrap gap-2">{buttons}</div>
+      {buttons.length > 0 && (
+        <div className="flex flex-wrap gap-2" data-testid="next-steps">
+          {buttons}
+        </div>
+      )}
+      {others.length > 0 && (
+        <div className="flex flex-col gap-2" data-testid="other-actions">
+          <p className="text-sm font-semibold text-muted">Other actions</p>
+          <div className="flex flex-wrap gap-2">{others}</div>
+        </div>
+      )}
+      {done && !error && (
+        <Alert tone="success" live title={done}>
+          The timeline below shows the step.
+        </Alert>
+      )}
       {error && (
         <Alert tone="danger" live title="That did not work">
           {error.message}
@@ -241,7 +289,12 @@ function ActionForm({
     e.preventDefault();
     switch (form) {
       case 'wait':
-        return onSubmit({ action: 'wait', waitReason: v('waitReason') as WaitReason, note: text('note') });
+        return onSubmit({
+          action: 'wait',
+          waitReason: v('waitReason') as WaitReason,
+          note: text('note'),
+          expectedReturnAt: v('expectedReturnAt') ? new Date(v('expectedReturnAt')).toISOString() : null,
+        });
       case 'fix':
         return onSubmit({
           action: 'fix',
@@ -295,9 +348,17 @@ function ActionForm({
           </SelectField>
           <TextAreaField
             label="Note for the reporter"
-            hint="What you are waiting for and when you expect it."
+            hint="What you are waiting for. It shows on the board while the tool waits."
             value={v('note')}
             onChange={set('note')}
+          />
+          <TextField
+            label="Expected back"
+            hint="When the parts, the vendor or the answer should be here; the board shows it."
+            type="datetime-local"
+            min={toLocalInput(new Date())}
+            value={v('expectedReturnAt')}
+            onChange={set('expectedReturnAt')}
           />
           <FormButtons busy={busy} label="Set waiting" onCancel={onCancel} />
         </>
@@ -429,7 +490,8 @@ function ActionForm({
           >
             {E10_STATES.map((s) => (
               <option key={s} value={s}>
-                {E10_LABELS[s]}
+                {/* The board's word first, the E10 state beside it: one vocabulary everywhere. */}
+                {BOARD_LABELS[boardStatusOf(s)]} ({E10_LABELS[s]})
               </option>
             ))}
           </SelectField>

@@ -61,7 +61,9 @@ export function TicketView({ ticket }: { ticket: TicketDetail }) {
           <HazardChips hazards={ticket.hazards} />
         </div>
         <p className="text-sm text-muted">
-          <span className="font-mono">{ticket.tool.code}</span> · {ticket.tool.name}
+          <Link to={`/tools/${encodeURIComponent(ticket.tool.code)}`} className="underline" data-testid="ticket-tool-link">
+            <span className="font-mono">{ticket.tool.code}</span> · {ticket.tool.name}
+          </Link>
           {ticket.module ? ` · ${ticket.module.name}` : ''}
           {ticket.tool.areaName ? ` · ${ticket.tool.areaName}` : ''} · reported by{' '}
           {ticket.reporter?.name ?? (ticket.events.some((e) => e.kind === 'alarm_reported') ? 'the tool' : 'someone')}{' '}

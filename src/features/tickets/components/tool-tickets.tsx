@@ -41,7 +41,7 @@ export function ToolTickets({ toolId, toolCode }: { toolId: number; toolCode?: s
               to={`/report?tool=${encodeURIComponent(toolCode)}`}
               className="inline-flex min-h-11 items-center px-3 text-sm font-semibold"
             >
-              Report a problem
+              Report a fault
             </Link>
           )}
         </div>

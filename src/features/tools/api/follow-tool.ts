@@ -10,6 +10,10 @@ export function useFollowTool(toolId: number, code: string) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (follow: boolean) => setFollowing(toolId, follow),
-    onSuccess: () => queryClient.invalidateQueries({ queryKey: toolKeys.detail(code) }),
+    onSuccess: () =>
+      Promise.all([
+        queryClient.invalidateQueries({ queryKey: toolKeys.detail(code) }),
+        queryClient.invalidateQueries({ queryKey: toolKeys.following() }),
+      ]),
   });
 }

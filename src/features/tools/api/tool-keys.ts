@@ -6,5 +6,6 @@ export const toolKeys = {
   histories: () => [...toolKeys.all, 'history'] as const,
   historiesOf: (toolId: number) => [...toolKeys.histories(), toolId] as const,
   history: (toolId: number, page: { limit: number; offset: number }) => [...toolKeys.historiesOf(toolId), page] as const,
+  following: () => [...toolKeys.all, 'following'] as const,
   labels: (areaId: number | null) => [...toolKeys.all, 'labels', areaId] as const,
 };

@@ -28,7 +28,7 @@ export function LabelSheet({ labels }: { labels: ToolLabel[] }) {
             <p className="text-base leading-tight font-bold">{label.name}</p>
             <p className="mt-1 font-mono text-lg font-bold tracking-wide">{label.code}</p>
             <p className="mt-1 text-xs">{label.areaName}</p>
-            <p className="mt-2 text-xs">Scan to see its state or report a problem.</p>
+            <p className="mt-2 text-xs">Scan to see its state or report a fault.</p>
           </div>
         </li>
       ))}

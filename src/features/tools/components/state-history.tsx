@@ -61,22 +61,57 @@ function Entry({ entry }: { entry: HistoryEntry }) {
   );
 }
 
-/** Every change of the tool and its modules, newest first, a page at a time. */
+// Changes no person made (busy ↔ idle flips, the schedule): most of a long history.
+const isAutomatic = (e: HistoryEntry) => e.source === 'system' || e.source === 'schedule';
+
+/** Folded until asked for: on a phone a long history would push everything else away. */
 export function StateHistory({ toolId }: { toolId: number }) {
+  const [open, setOpen] = useState(false);
+  return (
+    <details
+      className="rounded-xl border border-line bg-card p-5 amber:border-2"
+      onToggle={(e) => setOpen((e.target as HTMLDetailsElement).open)}
+      data-testid="state-history"
+    >
+      <summary className="flex min-h-11 cursor-pointer items-center text-lg font-semibold text-ink">State history</summary>
+      {open && (
+        <div className="mt-3">
+          <HistoryList toolId={toolId} />
+        </div>
+      )}
+    </details>
+  );
+}
+
+/** Every change of the tool and its modules, newest first, a page at a time. */
+function HistoryList({ toolId }: { toolId: number }) {
   const [offset, setOffset] = useState(0);
+  const [showAutomatic, setShowAutomatic] = useState(false);
   const history = useToolHistory(toolId, { limit: PAGE, offset });
   if (history.isPending) return <Spinner label="Loading the history…" showLabel />;
   if (history.isError) return <Alert tone="danger">{history.error.message}</Alert>;
   const { items, total } = history.data;
   const pages = Math.max(1, Math.ceil(total / PAGE));
   const page = Math.floor(offset / PAGE) + 1;
+  const hidden = showAutomatic ? 0 : items.filter(isAutomatic).length;
   return (
     <div className="flex flex-col gap-4">
+      <label className="flex min-h-11 items-center gap-3 text-sm">
+        <input type="checkbox" className="size-5" checked={showAutomatic} onChange={(e) => setShowAutomatic(e.target.checked)} />
+        Show automatic changes (busy and idle, the schedule)
+      </label>
       <ol className="flex flex-col" aria-busy={history.isFetching || undefined}>
-        {items.map((entry) => (
-          <Entry key={entry.id} entry={entry} />
-        ))}
+        {items
+          .filter((entry) => showAutomatic || !isAutomatic(entry))
+          .map((entry) => (
+            <Entry key={entry.id} entry={entry} />
+          ))}
       </ol>
+      {hidden > 0 && (
+        <p className="text-sm text-muted">
+          {hidden === 1 ? 'One automatic change' : `${hidden} automatic changes`} on this page folded away.
+        </p>
+      )}
       <nav aria-label="History pages" className="flex flex-wrap items-center gap-3">
         <Button variant="secondary" disabled={offset === 0} onClick={() => setOffset(Math.max(0, offset - PAGE))}>
           Newer

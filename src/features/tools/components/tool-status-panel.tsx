@@ -18,7 +18,7 @@ export function ToolStatusPanel({ tool }: { tool: ToolDetail }) {
       </div>
       {tool.note && <p className="text-base text-ink">{tool.note}</p>}
       <dl className="grid gap-x-6 gap-y-1 text-sm sm:grid-cols-[auto_1fr]">
-        <dt className="font-semibold text-muted">Tool state</dt>
+        <dt className="font-semibold text-muted">E10 state</dt>
         <dd className="text-ink">
           {E10_LABELS[tool.state]}
           {tool.reason !== 'none' && ` — ${REASON_LABELS[tool.reason]}`}
