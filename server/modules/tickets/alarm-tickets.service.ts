@@ -202,7 +202,10 @@ export async function recordAlarmRepeats(
     transaction,
   );
   const ticket = await Ticket.findByPk(ticketId, { attributes: ['id', 'toolId'], transaction, rejectOnEmpty: true });
-  deps.events.publish({ type: 'ticket.updated', audience: { ticket: ticketId }, payload: { id: ticketId, toolId: ticket.toolId } }, transaction);
+  deps.events.publish(
+    { type: 'ticket.updated', audience: { ticket: ticketId }, payload: { id: ticketId, toolId: ticket.toolId } },
+    transaction,
+  );
 }
 
 /** The alarm cleared on the tool: noted, but the tool is not returned to service (a person does that). */
@@ -220,7 +223,10 @@ export async function recordAlarmCleared(
     transaction,
   );
   const ticket = await Ticket.findByPk(ticketId, { attributes: ['id', 'toolId'], transaction, rejectOnEmpty: true });
-  deps.events.publish({ type: 'ticket.updated', audience: { ticket: ticketId }, payload: { id: ticketId, toolId: ticket.toolId } }, transaction);
+  deps.events.publish(
+    { type: 'ticket.updated', audience: { ticket: ticketId }, payload: { id: ticketId, toolId: ticket.toolId } },
+    transaction,
+  );
 }
 
 /**
