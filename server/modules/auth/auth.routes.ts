@@ -1,11 +1,11 @@
 import { route, type RouteSpec } from '../../lib/http';
 import { signInSchema } from '../../../shared/schemas/session';
 import { passwordResetRequestSchema, passwordResetSchema, passwordResetParams } from '../../../shared/schemas/password';
-import { signIn, signOut, requestPasswordReset, resetPassword } from './auth.service';
-import { newCsrfToken } from './session-middleware';
+import { checkSignIn, requestPasswordReset, resetPassword } from './auth.service';
+import { endSession, newCsrfToken, startSession } from './session-middleware';
 import { disconnectSession } from '../../lib/realtime';
 import { rateLimit } from '../../lib/throttle';
-import type { Logger } from '../../lib/logger';
+import { securityLog, type Logger } from '../../lib/logger';
 
 export function authRoutes(log: Logger): RouteSpec[] {
   return [
@@ -25,7 +25,14 @@ export function authRoutes(log: Logger): RouteSpec[] {
       access: 'public',
       summary: 'Sign in with e-mail and password',
       body: signInSchema,
-      handle: ({ deps, req, body }) => signIn(deps, req, body),
+      handle: async ({ deps, req, res, body }) => {
+        const user = await checkSignIn(deps, body, {
+          address: req.ip,
+          audit: (event, extra) => securityLog(deps.log, req, event, extra),
+          onThrottled: (seconds) => res.setHeader('Retry-After', String(seconds)),
+        });
+        return startSession(req, user, deps.log);
+      },
     }),
     route({
       method: 'delete',
@@ -33,7 +40,7 @@ export function authRoutes(log: Logger): RouteSpec[] {
       access: 'member',
       summary: 'Sign out: destroys the server session and closes its sockets',
       handle: async ({ deps, req, res }) => {
-        const sid = await signOut(deps, req);
+        const sid = await endSession(req, deps.log);
         disconnectSession(sid);
         res.clearCookie('faultline.sid', { path: '/' });
         return undefined;

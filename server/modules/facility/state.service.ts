@@ -140,3 +140,41 @@ export async function openInitialState(
     { transaction },
   );
 }
+
+// ---- The state log as other modules see it ------------------------------------------------
+// Reads, and the two marks a ticket may put on intervals it holds. Only this file writes
+// state_intervals.
+
+/** The open intervals of a tool and its modules (tool first). */
+export function openIntervalsOf(toolId: number, transaction?: Transaction) {
+  return StateInterval.findAll({ where: { toolId, endedAt: null }, order: [['moduleId', 'ASC']], transaction });
+}
+
+/** Open intervals a ticket holds down (tool and modules). */
+export function intervalsHeldBy(ticketId: number, transaction: Transaction) {
+  return StateInterval.findAll({ where: { ticketId, endedAt: null, state: 'unscheduled_downtime' }, transaction });
+}
+
+/** The interval that ended when `interval` started: what a reverted change goes back to. */
+export function intervalBefore(interval: StateInterval, transaction: Transaction) {
+  return StateInterval.findOne({
+    where: { toolId: interval.toolId, moduleId: interval.moduleId, endedAt: interval.startedAt },
+    order: [['startedAt', 'DESC']],
+    transaction,
+  });
+}
+
+/** A merged ticket's open Downs become the target's to resolve; the log keeps one stretch. */
+export async function handOverHeldIntervals(fromTicketId: number, toTicketId: number, transaction: Transaction) {
+  await StateInterval.update({ ticketId: toTicketId }, { where: { ticketId: fromTicketId, endedAt: null }, transaction });
+}
+
+/** Confirming a reported Down is not a new state, only a mark on the open interval. */
+export async function confirmIntervals(deps: AppDeps, intervals: readonly StateInterval[], transaction: Transaction) {
+  await StateInterval.update({ confirmed: true }, { where: { id: intervals.map((s) => s.id) }, transaction });
+  for (const s of intervals)
+    deps.events.publish(
+      { type: 'tool.state_changed', audience: 'all', payload: { toolId: s.toolId, moduleId: s.moduleId, state: s.state } },
+      transaction,
+    );
+}

@@ -10,6 +10,8 @@ export interface NewNotice {
   body?: string | null;
   /** A path inside the app, e.g. /tools/ETCH-02. */
   link?: string | null;
+  /** Sent with the 'notice.created' event, so open ticket pages know which ticket it is about. */
+  ticketId?: number;
 }
 
 /**
@@ -30,7 +32,14 @@ export async function createNotices(deps: AppDeps, userIds: number[], notice: Ne
     })),
     { transaction: transaction ?? undefined },
   );
-  deps.events.publish({ type: 'notice.created', audience: { users: ids }, payload: { kind: notice.kind } }, transaction);
+  deps.events.publish(
+    {
+      type: 'notice.created',
+      audience: { users: ids },
+      payload: { kind: notice.kind, ...(notice.ticketId ? { ticketId: notice.ticketId } : {}) },
+    },
+    transaction,
+  );
 }
 
 function present(n: Notice): NoticeItem {

@@ -1,7 +1,7 @@
 import { QueryTypes, type Transaction } from 'sequelize';
 import { Ticket, Photo, UNWORKED_TICKET_FIELDS } from './ticket.model';
-import { Tool, ToolModule } from '../facility/facility.model';
-import { User } from '../users/user.model';
+import { findTool, isActiveModuleOf, lockTool } from '../facility/tool-directory';
+import { activePeople } from '../users/user-directory';
 import { AppError, badRequest, forbidden } from '../../lib/errors';
 import { storePhotos, removePhotos, type IncomingFile, type StoredPhoto } from '../../lib/uploads';
 import type { AppDeps, AuthUser } from '../../lib/http';
@@ -34,11 +34,11 @@ export function titleFrom(description: string): string {
 export const worseImpact = (a: Impact, b: Impact | null): Impact => (b && IMPACTS.indexOf(b) < IMPACTS.indexOf(a) ? b : a);
 
 async function validateToolAndModule(toolId: number, moduleId: number | null) {
-  const tool = await Tool.findByPk(toolId);
+  const tool = await findTool(toolId);
   if (!tool || tool.retiredAt) throw badRequest('That tool cannot take reports.', { toolId: ['Unknown or retired tool.'] });
   if (moduleId !== null) {
-    const mod = await ToolModule.findOne({ where: { id: moduleId, toolId, retiredAt: null } });
-    if (!mod) throw badRequest('That module does not belong to this tool.', { moduleId: ['Unknown module for this tool.'] });
+    if (!(await isActiveModuleOf(toolId, moduleId)))
+      throw badRequest('That module does not belong to this tool.', { moduleId: ['Unknown module for this tool.'] });
   }
   return tool;
 }
@@ -137,7 +137,7 @@ export async function createReport(deps: AppDeps, user: AuthUser, input: ReportD
     deps.sequelize.transaction(async (transaction) => {
       // The tool row is locked first by every ticket write, so writers on one tool queue up
       // instead of deadlocking between the ticket insert and the state change.
-      const locked = await Tool.findByPk(tool.id, { transaction, lock: transaction.LOCK.UPDATE });
+      const locked = await lockTool(tool.id, transaction);
       if (!locked || locked.retiredAt) throw badRequest('That tool cannot take reports.', { toolId: ['Unknown or retired tool.'] });
       const earlier = await alreadySent(deps, user.id, input.clientKey, 'reported', transaction);
       if (earlier) throw new AlreadySent(earlier);
@@ -148,10 +148,10 @@ export async function createReport(deps: AppDeps, user: AuthUser, input: ReportD
         wafersKnownSafe: input.wafersRecoverable === 'yes',
         criticality: locked.criticality,
       });
-      const engineers = await User.findAll({
-        where: { id: [locked.primaryEngineerId, locked.backupEngineerId].filter((x): x is number => x !== null), active: true },
-        transaction,
-      });
+      const engineers = await activePeople(
+        [locked.primaryEngineerId, locked.backupEngineerId].filter((x): x is number => x !== null),
+        { transaction },
+      );
       const assignee =
         engineers.find((u) => u.id === locked.primaryEngineerId && isStaff(u.role)) ??
         engineers.find((u) => u.id === locked.backupEngineerId && isStaff(u.role)) ??
@@ -257,7 +257,7 @@ export async function addReport(deps: AppDeps, user: AuthUser, ticketId: number,
   }
   return withStoredPhotos(deps, files, (stored) =>
     deps.sequelize.transaction(async (transaction) => {
-      const tool = await Tool.findByPk(existing.toolId, { transaction, lock: transaction.LOCK.UPDATE });
+      const tool = await lockTool(existing.toolId, transaction);
       const ticket = await Ticket.findByPk(ticketId, { transaction, lock: transaction.LOCK.UPDATE });
       const earlier = await alreadySent(deps, user.id, input.clientKey, 'added_report', transaction);
       if (earlier) throw new AlreadySent(earlier);

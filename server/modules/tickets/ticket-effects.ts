@@ -1,7 +1,7 @@
 import type { Transaction } from 'sequelize';
 import { Ticket, TicketEvent } from './ticket.model';
-import { StateInterval, type Tool } from '../facility/facility.model';
-import { changeState } from '../facility/state.service';
+import { changeState, findOpenInterval } from '../facility/state.service';
+import type { ToolFacts } from '../facility/tool-directory';
 import type { AppDeps } from '../../lib/http';
 import { E10_LABELS, type E10State, type StateReason } from '../../../shared/equipment-state';
 
@@ -25,10 +25,6 @@ export function appendEvent(
     },
     { transaction },
   );
-}
-
-export async function openInterval(toolId: number, moduleId: number | null, transaction: Transaction) {
-  return StateInterval.findOne({ where: { toolId, moduleId, endedAt: null }, transaction });
 }
 
 export interface StateStep {
@@ -96,13 +92,13 @@ export async function changeStateForTicket(
 export async function applyStoppedReport(
   deps: AppDeps,
   ticket: Ticket,
-  tool: Tool,
+  tool: ToolFacts,
   moduleId: number | null,
   actorId: number,
   transaction: Transaction,
 ) {
-  const toolOpen = await openInterval(tool.id, null, transaction);
-  const targetOpen = moduleId === null ? toolOpen : await openInterval(tool.id, moduleId, transaction);
+  const toolOpen = await findOpenInterval(tool.id, null, transaction);
+  const targetOpen = moduleId === null ? toolOpen : await findOpenInterval(tool.id, moduleId, transaction);
   const alreadyDown = toolOpen?.state === 'unscheduled_downtime' || targetOpen?.state === 'unscheduled_downtime';
   if (alreadyDown) {
     const state = (toolOpen?.state === 'unscheduled_downtime' ? toolOpen : targetOpen)!;
@@ -134,9 +130,4 @@ export async function applyStoppedReport(
     transaction,
   );
   return true;
-}
-
-/** Open intervals this ticket holds down (tool and modules). */
-export async function intervalsHeldBy(ticketId: number, transaction: Transaction) {
-  return StateInterval.findAll({ where: { ticketId, endedAt: null, state: 'unscheduled_downtime' }, transaction });
 }

@@ -1,7 +1,8 @@
 import { Op, literal, type Transaction, type WhereOptions, type Includeable } from 'sequelize';
 import { Ticket, TicketEvent, Photo, ServiceTarget } from './ticket.model';
-import { Tool, ToolModule, Area, StateInterval } from '../facility/facility.model';
-import { User } from '../users/user.model';
+import { activeModules, toolChoices } from '../facility/tool-directory';
+import { openIntervalsOf } from '../facility/state.service';
+import { searchStaff } from '../users/user-directory';
 import { notFound } from '../../lib/errors';
 import type { AppDeps, AuthUser } from '../../lib/http';
 import { isStaff } from '../../../shared/roles';
@@ -11,6 +12,7 @@ import {
   SERVICE_TARGET_DEFAULTS,
   computePriority,
   targetStatus,
+  type Criticality,
   type Priority,
   type ServiceTarget as Target,
 } from '../../../shared/priority';
@@ -29,22 +31,33 @@ import type {
 } from '../../../shared/schemas/tickets';
 import type { z } from 'zod';
 
-const person = (u: User | null | undefined) => (u ? { id: u.id, name: u.name } : null);
+const person = (u: PersonRow | null | undefined) => (u ? { id: u.id, name: u.name } : null);
 const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
 
+// Joined by association name (the associations are declared in server/db/models.ts), so this
+// module reads other modules' tables in its joins without touching their models.
 export const summaryIncludes = (): Includeable[] => [
   {
-    model: Tool,
-    as: 'tool',
+    association: 'tool',
     attributes: ['id', 'code', 'name', 'areaId', 'criticality', 'primaryEngineerId', 'backupEngineerId'],
-    include: [{ model: Area, as: 'area', attributes: ['id', 'name'] }],
+    include: [{ association: 'area', attributes: ['id', 'name'] }],
   },
-  { model: ToolModule, as: 'module', attributes: ['id', 'code', 'name'] },
-  { model: User, as: 'reporter', attributes: ['id', 'name'] },
-  { model: User, as: 'assignee', attributes: ['id', 'name'] },
+  { association: 'module', attributes: ['id', 'code', 'name'] },
+  { association: 'reporter', attributes: ['id', 'name'] },
+  { association: 'assignee', attributes: ['id', 'name'] },
 ];
 
-type WithIncludes = Ticket & { tool?: Tool & { area?: Area }; module?: ToolModule | null; reporter?: User | null; assignee?: User | null };
+interface PersonRow {
+  id: number;
+  name: string;
+}
+
+type WithIncludes = Ticket & {
+  tool?: { code: string; name: string; areaId: number; criticality: Criticality; area?: { name: string } | null };
+  module?: { id: number; code: string; name: string } | null;
+  reporter?: PersonRow | null;
+  assignee?: PersonRow | null;
+};
 
 export type TargetTable = Record<Priority, Target>;
 
@@ -177,7 +190,7 @@ export async function findTicket(id: number, transaction?: Transaction): Promise
   return t as WithIncludes;
 }
 
-function photoView(p: Photo & { uploader?: User | null }): PhotoView {
+function photoView(p: Photo & { uploader?: PersonRow | null }): PhotoView {
   return {
     id: p.id,
     url: `/api/photos/${p.id}`,
@@ -189,7 +202,7 @@ function photoView(p: Photo & { uploader?: User | null }): PhotoView {
 }
 
 export async function openToolStates(toolId: number, transaction?: Transaction): Promise<ToolStateView[]> {
-  const open = await StateInterval.findAll({ where: { toolId, endedAt: null }, order: [['moduleId', 'ASC']], transaction });
+  const open = await openIntervalsOf(toolId, transaction);
   return open.map((s) => ({
     moduleId: s.moduleId,
     state: s.state,
@@ -210,7 +223,7 @@ export async function getTicketDetail(deps: AppDeps, user: AuthUser, id: number)
   // Members never receive internal notes: they are filtered here, in the query, not on screen.
   const events = await TicketEvent.findAll({
     where: { ticketId: ticketIds, ...(staff ? {} : { internal: false }) },
-    include: [{ model: User, as: 'actor', attributes: ['id', 'name'] }],
+    include: [{ association: 'actor', attributes: ['id', 'name'] }],
     order: [
       ['createdAt', 'ASC'],
       ['id', 'ASC'],
@@ -218,17 +231,17 @@ export async function getTicketDetail(deps: AppDeps, user: AuthUser, id: number)
   });
   const photos = await Photo.findAll({
     where: { ticketId: ticketIds, eventId: events.map((e) => e.id) },
-    include: [{ model: User, as: 'uploader', attributes: ['id', 'name'] }],
+    include: [{ association: 'uploader', attributes: ['id', 'name'] }],
     order: [['id', 'ASC']],
   });
   const photosByEvent = new Map<number, PhotoView[]>();
   for (const p of photos) {
     const list = photosByEvent.get(Number(p.eventId)) ?? [];
-    list.push(photoView(p as Photo & { uploader?: User | null }));
+    list.push(photoView(p as Photo & { uploader?: PersonRow | null }));
     photosByEvent.set(Number(p.eventId), list);
   }
   const eventViews: TicketEventView[] = events.map((e) => {
-    const ev = e as TicketEvent & { actor?: User | null };
+    const ev = e as TicketEvent & { actor?: PersonRow | null };
     return {
       id: Number(ev.id),
       kind: ev.kind,
@@ -242,14 +255,7 @@ export async function getTicketDetail(deps: AppDeps, user: AuthUser, id: number)
     };
   });
 
-  const modules = await ToolModule.findAll({
-    where: { toolId: t.toolId, retiredAt: null },
-    order: [
-      ['sortOrder', 'ASC'],
-      ['id', 'ASC'],
-    ],
-    attributes: ['id', 'code', 'name'],
-  });
+  const modules = (await activeModules([t.toolId])).get(t.toolId) ?? [];
   const toolStates = await openToolStates(t.toolId);
   const table = await loadServiceTargets();
   const isReporter = t.reporterId === user.id;
@@ -312,52 +318,9 @@ export async function findVisiblePhoto(user: AuthUser, id: number) {
 
 /** Staff who can be assigned, for the assignee picker. */
 export async function listStaff(q: { search?: string; limit: number }) {
-  const users = await User.findAll({
-    where: {
-      active: true,
-      role: { [Op.ne]: 'member' },
-      ...(q.search ? { name: { [Op.like]: `%${q.search.replace(/[%_\\]/g, (c) => `\\${c}`)}%` } } : {}),
-    },
-    attributes: ['id', 'name', 'role'],
-    order: [['name', 'ASC']],
-    limit: q.limit,
-  });
-  return users.map((u) => ({ id: u.id, name: u.name, role: u.role }));
+  const { items } = await searchStaff({ search: q.search, limit: q.limit });
+  return items.map((u) => ({ id: u.id, name: u.name, role: u.role }));
 }
 
 /** Tools to pick on the report form (by search text, exact code from a QR label, or id). */
-export async function listToolChoices(query: { q?: string; code?: string; id?: number; limit: number }) {
-  const like = (s: string) => `%${s.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-  const where = {
-    retiredAt: null,
-    ...(query.id ? { id: query.id } : {}),
-    ...(query.code ? { code: query.code.toUpperCase() } : {}),
-    ...(query.q ? { [Op.or]: [{ name: { [Op.like]: like(query.q) } }, { code: { [Op.like]: like(query.q) } }] } : {}),
-  };
-  const tools = await Tool.findAll({
-    where,
-    include: [{ model: Area, as: 'area', attributes: ['id', 'name'] }],
-    attributes: ['id', 'code', 'name', 'areaId'],
-    order: [['name', 'ASC']],
-    limit: query.limit,
-  });
-  const modules = tools.length
-    ? await ToolModule.findAll({
-        where: { toolId: tools.map((t) => t.id), retiredAt: null },
-        order: [
-          ['sortOrder', 'ASC'],
-          ['id', 'ASC'],
-        ],
-        attributes: ['id', 'toolId', 'code', 'name'],
-      })
-    : [];
-  return {
-    items: tools.map((t) => ({
-      id: t.id,
-      code: t.code,
-      name: t.name,
-      areaName: (t as Tool & { area?: Area }).area?.name ?? null,
-      modules: modules.filter((m) => m.toolId === t.id).map((m) => ({ id: m.id, code: m.code, name: m.name })),
-    })),
-  };
-}
+export const listToolChoices = toolChoices;

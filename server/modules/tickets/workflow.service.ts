@@ -1,10 +1,11 @@
-import { Op, type Transaction } from 'sequelize';
+import type { Transaction } from 'sequelize';
 import { Ticket } from './ticket.model';
-import { Tool, StateInterval } from '../facility/facility.model';
-import { User } from '../users/user.model';
+import { lockTool } from '../facility/tool-directory';
+import { confirmIntervals, handOverHeldIntervals, intervalBefore, intervalsHeldBy } from '../facility/state.service';
+import { activePeople, peopleByIds, type Person } from '../users/user-directory';
 import { AppError, forbidden, notFound, badRequest } from '../../lib/errors';
 import type { AppDeps, AuthUser } from '../../lib/http';
-import { appendEvent, changeStateForTicket, intervalsHeldBy } from './ticket-effects';
+import { appendEvent, changeStateForTicket } from './ticket-effects';
 import { notifyUsers, ticketFollowers } from './ticket-notify';
 import { worseImpact } from './report.service';
 import { hasRole, isStaff } from '../../../shared/roles';
@@ -111,7 +112,7 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
     const bare = await Ticket.findByPk(ticketId, { attributes: ['id', 'toolId'], transaction });
     if (!bare) throw notFound('That ticket');
     // Same lock order as reports: the tool first, then the ticket.
-    const tool = await Tool.findByPk(bare.toolId, { transaction, lock: transaction.LOCK.UPDATE });
+    const tool = await lockTool(bare.toolId, transaction);
     const ticket = await Ticket.findByPk(ticketId, { transaction, lock: transaction.LOCK.UPDATE });
     if (!tool || !ticket) throw notFound('That ticket');
 
@@ -241,18 +242,18 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
           transaction,
         );
         // A Down the merged report caused is now the target's to resolve.
-        await StateInterval.update({ ticketId: target.id }, { where: { ticketId: ticket.id, endedAt: null }, transaction });
+        await handOverHeldIntervals(ticket.id, target.id, transaction);
         touched.add(target.id);
         break;
       }
       case 'assign': {
-        let to: User | null = null;
+        let to: Person | null = null;
         if (input.assigneeId !== null) {
-          to = await User.findOne({ where: { id: input.assigneeId, active: true, role: { [Op.ne]: 'member' } }, transaction });
+          [to = null] = await activePeople([input.assigneeId], { staffOnly: true, transaction });
           if (!to)
             throw badRequest('Assign to an active technician, manager or admin.', { assigneeId: ['Not someone who can be assigned.'] });
         }
-        const before = ticket.assigneeId ? await User.findByPk(ticket.assigneeId, { attributes: ['id', 'name'], transaction }) : null;
+        const before = ticket.assigneeId ? ((await peopleByIds([ticket.assigneeId], transaction)).get(ticket.assigneeId) ?? null) : null;
         ticket.assigneeId = to?.id ?? null;
         await appendEvent(
           ticket.id,
@@ -308,8 +309,7 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
       case 'confirm_down': {
         const pending = (await intervalsHeldBy(ticket.id, transaction)).filter((s) => s.source === 'user_report' && !s.confirmed);
         if (pending.length === 0) throw new AppError(409, 'nothing_to_confirm', 'There is no reported Down waiting for confirmation.');
-        // Confirming is not a new state, only a mark on the open interval; the log keeps one stretch.
-        await StateInterval.update({ confirmed: true }, { where: { id: pending.map((s) => s.id) }, transaction });
+        await confirmIntervals(deps, pending, transaction);
         await appendEvent(
           ticket.id,
           user.id,
@@ -317,22 +317,13 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
           { data: { intervals: pending.map((s) => ({ moduleId: s.moduleId, state: s.state, since: s.startedAt.toISOString() })) } },
           transaction,
         );
-        for (const s of pending)
-          deps.events.publish(
-            { type: 'tool.state_changed', audience: 'all', payload: { toolId: s.toolId, moduleId: s.moduleId, state: s.state } },
-            transaction,
-          );
         break;
       }
       case 'revert_down': {
         const pending = (await intervalsHeldBy(ticket.id, transaction)).filter((s) => s.source === 'user_report' && !s.confirmed);
         if (pending.length === 0) throw new AppError(409, 'nothing_to_revert', 'There is no reported Down waiting for confirmation.');
         for (const s of pending) {
-          const before = await StateInterval.findOne({
-            where: { toolId: s.toolId, moduleId: s.moduleId, endedAt: s.startedAt },
-            order: [['startedAt', 'DESC']],
-            transaction,
-          });
+          const before = await intervalBefore(s, transaction);
           const state = before && before.state !== 'unscheduled_downtime' ? before.state : 'standby';
           const reason = before && before.state === state ? before.reason : REASONS_BY_STATE[state][0];
           await changeStateForTicket(

@@ -1,7 +1,8 @@
 import crypto from 'node:crypto';
 import { Op, type WhereOptions } from 'sequelize';
 import { User, PasswordReset } from './user.model';
-import { SessionRow } from '../auth/session.model';
+import { endAllSessions } from '../auth/sessions.service';
+import { likePattern } from '../../lib/like-pattern';
 import { queueMail } from '../../lib/mailer';
 import { disconnectUser } from '../../lib/realtime';
 import { AppError, notFound } from '../../lib/errors';
@@ -26,7 +27,8 @@ export function presentUser(u: User) {
 export async function listUsers(query: { q?: string; role?: Role; limit: number; offset: number }) {
   const where: WhereOptions<User> = {};
   if (query.role) Object.assign(where, { role: query.role });
-  if (query.q) Object.assign(where, { [Op.or]: [{ name: { [Op.like]: `%${query.q}%` } }, { email: { [Op.like]: `%${query.q}%` } }] });
+  if (query.q)
+    Object.assign(where, { [Op.or]: [{ name: { [Op.like]: likePattern(query.q) } }, { email: { [Op.like]: likePattern(query.q) } }] });
   const { rows, count } = await User.findAndCountAll({ where, order: [['name', 'ASC']], limit: query.limit, offset: query.offset });
   return { items: rows.map(presentUser), total: count };
 }
@@ -74,7 +76,7 @@ export async function updateUser(deps: AppDeps, id: number, input: UpdateUserInp
   }
   await deps.sequelize.transaction(async (transaction) => {
     await user.update(input, { transaction });
-    if (input.active === false || input.role) await SessionRow.destroy({ where: { userId: id }, transaction });
+    if (input.active === false || input.role) await endAllSessions(id, transaction);
   });
   if (input.active === false || input.role) disconnectUser(id);
   return presentUser(user);
