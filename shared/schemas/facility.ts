@@ -112,19 +112,27 @@ export const RETURN_TIME_SLACK_MS = 60_000;
 
 const RUNNING_STATES: readonly E10State[] = ['productive', 'standby'];
 
-export const stateChangeSchema = z
-  .strictObject({
-    /** null or absent: the tool itself; otherwise one of its modules. */
-    moduleId: z.number().int().positive().nullable().optional(),
-    state: z.enum(E10_STATES, { error: 'Choose one of the states.' }),
-    reason: z.enum(STATE_REASONS).optional(),
-    /** What people at the tool should know: why, and what to do meanwhile. */
-    note: z.string().trim().max(500, 'Use at most 500 characters.').nullable().optional(),
-    restriction: z.string().trim().max(200, 'Use at most 200 characters.').nullable().optional(),
-    expectedReturnAt: z.iso.datetime({ offset: true, error: 'Give the time as a date and time.' }).nullable().optional(),
-    ticketId: z.number().int().positive().nullable().optional(),
-  })
-  .superRefine((v, ctx) => {
+/**
+ * The fields of a state change, wherever it is asked for: the tool page and a ticket's "set tool
+ * state" both spread these and refine with checkStateChange, so both refuse the same input
+ * with the same field messages.
+ */
+export const stateChangeFields = {
+  /** null or absent: the tool itself; otherwise one of its modules. */
+  moduleId: z.number().int().positive().nullable().optional(),
+  state: z.enum(E10_STATES, { error: 'Choose one of the states.' }),
+  reason: z.enum(STATE_REASONS).optional(),
+  /** What people at the tool should know: why, and what to do meanwhile. */
+  note: z.string().trim().max(500, 'Use at most 500 characters.').nullable().optional(),
+  restriction: z.string().trim().max(200, 'Use at most 200 characters.').nullable().optional(),
+  expectedReturnAt: z.iso.datetime({ offset: true, error: 'Give the time as a date and time.' }).nullable().optional(),
+};
+
+export type StateChangeFields = z.infer<z.ZodObject<typeof stateChangeFields>>;
+
+/** A note is required unless the tool runs; no restriction unless it runs; no return time in the past. */
+export function checkStateChange(v: StateChangeFields, ctx: z.RefinementCtx) {
+  {
     const running = RUNNING_STATES.includes(v.state);
     if (v.reason && !isReasonAllowed(v.state, v.reason)) {
       ctx.addIssue({ code: 'custom', path: ['reason'], message: 'That reason does not fit that state.' });
@@ -146,7 +154,12 @@ export const stateChangeSchema = z
         ctx.addIssue({ code: 'custom', path: ['expectedReturnAt'], message: 'The expected return time is in the past.' });
       }
     }
-  });
+  }
+}
+
+export const stateChangeSchema = z
+  .strictObject({ ...stateChangeFields, ticketId: z.number().int().positive().nullable().optional() })
+  .superRefine(checkStateChange);
 
 export type StateChangeInput = z.infer<typeof stateChangeSchema>;
 

@@ -3,6 +3,7 @@ import { Tool, ToolModule, StateInterval, type StateSource } from './facility.mo
 import { isReasonAllowed, REASONS_BY_STATE, type E10State, type StateReason } from '../../../shared/equipment-state';
 import { AppError, notFound, badRequest } from '../../lib/errors';
 import type { AppDeps } from '../../lib/http';
+import type { StateChangeFields } from '../../../shared/schemas/facility';
 
 export interface StateChange {
   toolId: number;
@@ -111,6 +112,36 @@ export async function changeState(deps: AppDeps, change: StateChange, outer?: Tr
     return result;
   };
   return outer ? run(outer) : deps.sequelize.transaction(run);
+}
+
+/**
+ * A person's state change, from the tool page or from a ticket: both send the fields of
+ * stateChangeFields (checked by the same schema), and this is the one translation into a change.
+ */
+export function requestStateChange(
+  deps: AppDeps,
+  toolId: number,
+  input: StateChangeFields,
+  by: { actorId: number; ticketId?: number | null },
+  transaction?: Transaction,
+): Promise<StateChangeResult> {
+  return changeState(
+    deps,
+    {
+      toolId,
+      moduleId: input.moduleId ?? null,
+      state: input.state,
+      reason: input.reason,
+      note: input.note?.trim() || null,
+      restriction: input.restriction?.trim() || null,
+      expectedReturnAt: input.expectedReturnAt ? new Date(input.expectedReturnAt) : null,
+      ticketId: by.ticketId ?? null,
+      source: 'staff',
+      confirmed: true,
+      actorId: by.actorId,
+    },
+    transaction,
+  );
 }
 
 /** The first interval of a new tool or module (standby, i.e. Running and idle). */

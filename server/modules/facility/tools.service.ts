@@ -6,7 +6,7 @@ import { likePattern } from '../../lib/like-pattern';
 import { ToolFollow } from './facility.model';
 import { AppError, badRequest, conflict, notFound } from '../../lib/errors';
 import type { AppDeps } from '../../lib/http';
-import { changeState, openInitialState } from './state.service';
+import { changeState, openInitialState, requestStateChange } from './state.service';
 import { loadBoardTools } from './board.service';
 import { availabilityForPeriod } from './availability.service';
 import type {
@@ -421,19 +421,7 @@ export async function setToolState(deps: AppDeps, toolId: number, input: StateCh
     if ((await ticketToolId(input.ticketId)) !== toolId)
       throw badRequest('That ticket is not about this tool.', { ticketId: ['Choose a ticket about this tool.'] });
   }
-  const result = await changeState(deps, {
-    toolId,
-    moduleId: input.moduleId ?? null,
-    state: input.state,
-    reason: input.reason,
-    note: input.note?.trim() || null,
-    restriction: input.restriction?.trim() || null,
-    expectedReturnAt: input.expectedReturnAt ? new Date(input.expectedReturnAt) : null,
-    ticketId: input.ticketId ?? null,
-    source: 'staff',
-    confirmed: true,
-    actorId,
-  });
+  const result = await requestStateChange(deps, toolId, input, { actorId, ticketId: input.ticketId });
   const [entry] = await loadBoardTools(deps.sequelize, { toolIds: [toolId], includeRetired: true });
   return {
     interval: {

@@ -2,11 +2,12 @@ import { QueryTypes, type Transaction } from 'sequelize';
 import { Ticket, Photo, UNWORKED_TICKET_FIELDS } from './ticket.model';
 import { findTool, isActiveModuleOf, lockTool } from '../facility/tool-directory';
 import { activePeople } from '../users/user-directory';
-import { AppError, badRequest, forbidden } from '../../lib/errors';
+import { AppError, badRequest } from '../../lib/errors';
 import { storePhotos, removePhotos, type IncomingFile, type StoredPhoto } from '../../lib/uploads';
 import type { AppDeps, AuthUser } from '../../lib/http';
 import { appendEvent, applyStoppedReport } from './ticket-effects';
 import { notifyOnCall, notifyUsers, ticketFollowers } from './ticket-notify';
+import { authorizeTicketAction } from './ticket.policy';
 import { findTicket } from './ticket-query.service';
 import { isStaff } from '../../../shared/roles';
 import { computePriority } from '../../../shared/priority';
@@ -250,11 +251,8 @@ export async function createReport(deps: AppDeps, user: AuthUser, input: ReportD
 /** "I see it too": the report joins an open ticket with its own author, text and photos. */
 export async function addReport(deps: AppDeps, user: AuthUser, ticketId: number, input: AddReportData, files: readonly IncomingFile[]) {
   const existing = await findTicket(ticketId);
-  if (!isOpenStatus(existing.status)) {
-    if (existing.status === 'merged')
-      throw new AppError(409, 'ticket_merged', `This ticket was merged into #${existing.mergedIntoId}; add your report there.`);
-    throw new AppError(409, 'ticket_not_open', 'This ticket is no longer open. Report the problem as a new one, or reopen this ticket.');
-  }
+  // Adding a report never depends on the state log, so the policy needs no interval here.
+  authorizeTicketAction(user, { ...existing.get(), awaitingConfirmation: false }, 'add_report');
   return withStoredPhotos(deps, files, (stored) =>
     deps.sequelize.transaction(async (transaction) => {
       const tool = await lockTool(existing.toolId, transaction);
@@ -341,12 +339,10 @@ export async function addReport(deps: AppDeps, user: AuthUser, ticketId: number,
 }
 
 export async function addComment(deps: AppDeps, user: AuthUser, ticketId: number, input: { body: string; internal: boolean }) {
-  if (input.internal && !isStaff(user.role)) throw forbidden('Only staff can write internal notes.');
   return deps.sequelize.transaction(async (transaction) => {
     const ticket = await Ticket.findByPk(ticketId, { transaction });
     if (!ticket) throw new AppError(404, 'not_found', 'That ticket was not found.');
-    if (ticket.status === 'merged')
-      throw new AppError(409, 'ticket_merged', `This ticket was merged into #${ticket.mergedIntoId}; write there.`);
+    authorizeTicketAction(user, { ...ticket.get(), awaitingConfirmation: false }, input.internal ? 'note' : 'comment');
     const event = await appendEvent(
       ticket.id,
       user.id,

@@ -1,6 +1,6 @@
 import type { Transaction } from 'sequelize';
 import { Ticket, TicketEvent } from './ticket.model';
-import { changeState, findOpenInterval } from '../facility/state.service';
+import { changeState, findOpenInterval, type StateChangeResult } from '../facility/state.service';
 import type { ToolFacts } from '../facility/tool-directory';
 import type { AppDeps } from '../../lib/http';
 import { E10_LABELS, type E10State, type StateReason } from '../../../shared/equipment-state';
@@ -49,7 +49,7 @@ export async function changeStateForTicket(
   step: StateStep,
   transaction: Transaction,
 ) {
-  const { previous, current } = await changeState(
+  const change = await changeState(
     deps,
     {
       toolId: step.toolId,
@@ -65,14 +65,26 @@ export async function changeStateForTicket(
     },
     transaction,
   );
+  await recordStateStep(ticket.id, actorId, change, step.note ?? null, transaction);
+  return change;
+}
+
+/** The ticket's timeline entry for a state change made on its behalf. */
+export async function recordStateStep(
+  ticketId: number,
+  actorId: number | null,
+  { previous, current }: StateChangeResult,
+  note: string | null,
+  transaction: Transaction,
+) {
   await appendEvent(
-    ticket.id,
+    ticketId,
     actorId,
     'tool_state',
     {
-      body: step.note ?? null,
+      body: note,
       data: {
-        moduleId: step.moduleId,
+        moduleId: current.moduleId,
         from: previous ? { state: previous.state, reason: previous.reason } : null,
         to: { state: current.state, reason: current.reason },
         source: current.source,
@@ -82,7 +94,6 @@ export async function changeStateForTicket(
     },
     transaction,
   );
-  return { previous, current };
 }
 
 /**

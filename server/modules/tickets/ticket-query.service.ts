@@ -6,7 +6,8 @@ import { searchStaff } from '../users/user-directory';
 import { notFound } from '../../lib/errors';
 import type { AppDeps, AuthUser } from '../../lib/http';
 import { isStaff } from '../../../shared/roles';
-import { OPEN_STATUSES, RESOLVED_STATUSES, allowedActions, isOpenStatus } from '../../../shared/ticket-workflow';
+import { OPEN_STATUSES, RESOLVED_STATUSES } from '../../../shared/ticket-workflow';
+import { allowedTicketActions, awaitingConfirmation } from './ticket.policy';
 import {
   PRIORITIES,
   SERVICE_TARGET_DEFAULTS,
@@ -259,17 +260,7 @@ export async function getTicketDetail(deps: AppDeps, user: AuthUser, id: number)
   const toolStates = await openToolStates(t.toolId);
   const table = await loadServiceTargets();
   const isReporter = t.reporterId === user.id;
-  const ctx = { role: user.role, isReporter, now: new Date(), resolvedAt: t.resolvedAt };
-  const actions: TicketDetail['allowedActions'] = allowedActions(t.status, ctx);
-  if (t.status !== 'merged') actions.push('comment');
-  if (isOpenStatus(t.status)) actions.push('add_report');
-  if (staff) {
-    actions.push('note');
-    if (isOpenStatus(t.status)) actions.push('assign', 'set_priority');
-    if (t.status !== 'merged') actions.push('set_state');
-    if (toolStates.some((s) => s.ticketId === t.id && s.source === 'user_report' && !s.confirmed))
-      actions.push('confirm_down', 'revert_down');
-  }
+  const actions = allowedTicketActions(user, { ...t.get(), awaitingConfirmation: awaitingConfirmation(t.id, toolStates).length > 0 });
   const priority = computePriority({
     impact: t.impact,
     hazards: t.hazards ?? [],

@@ -1,19 +1,20 @@
 import type { Transaction } from 'sequelize';
 import { Ticket } from './ticket.model';
 import { lockTool } from '../facility/tool-directory';
-import { confirmIntervals, handOverHeldIntervals, intervalBefore, intervalsHeldBy } from '../facility/state.service';
+import { confirmIntervals, handOverHeldIntervals, intervalBefore, intervalsHeldBy, requestStateChange } from '../facility/state.service';
 import { activePeople, peopleByIds, type Person } from '../users/user-directory';
-import { AppError, forbidden, notFound, badRequest } from '../../lib/errors';
+import { AppError, notFound, badRequest } from '../../lib/errors';
 import type { AppDeps, AuthUser } from '../../lib/http';
-import { appendEvent, changeStateForTicket } from './ticket-effects';
+import { appendEvent, changeStateForTicket, recordStateStep } from './ticket-effects';
 import { notifyUsers, ticketFollowers } from './ticket-notify';
 import { worseImpact } from './report.service';
-import { hasRole, isStaff } from '../../../shared/roles';
-import { ACTIONS, STATUS_LABELS, canPerform, isOpenStatus, type TicketAction, type TicketStatus } from '../../../shared/ticket-workflow';
+import { isStaff } from '../../../shared/roles';
+import { ACTIONS, STATUS_LABELS, isOpenStatus, type TicketAction, type TicketStatus } from '../../../shared/ticket-workflow';
 import { computePriority } from '../../../shared/priority';
 import { E10_LABELS, REASONS_BY_STATE, type StateReason } from '../../../shared/equipment-state';
 import { FIX_KIND_LABELS, WAIT_REASON_LABELS, type WaitReason } from '../../../shared/report-options';
-import { STAFF_ONLY_ACTIONS, type TicketActionData } from '../../../shared/schemas/tickets';
+import type { TicketActionData } from '../../../shared/schemas/tickets';
+import { authorizeTicketAction, awaitingConfirmation } from './ticket.policy';
 
 /** The client saved on top of a version someone else already changed. */
 export class StaleTicketError extends AppError {
@@ -36,30 +37,6 @@ const WAIT_STATE_REASON: Record<WaitReason, StateReason> = {
   facilities: 'facilities_related',
   user: 'maintenance_delay_user',
 };
-
-function checkPermission(user: AuthUser, ticket: Ticket, action: TicketActionData['action']) {
-  if ((STAFF_ONLY_ACTIONS as readonly string[]).includes(action)) {
-    if (!isStaff(user.role)) throw forbidden('Only technicians, managers and admins can do this.');
-    if (ticket.status === 'merged') throw new AppError(409, 'ticket_merged', `This ticket was merged into #${ticket.mergedIntoId}.`);
-    if ((action === 'assign' || action === 'set_priority') && !isOpenStatus(ticket.status))
-      throw new AppError(409, 'ticket_not_open', 'This ticket is no longer open.');
-    return;
-  }
-  if (!isWorkflowAction(action)) throw badRequest('Unknown action.');
-  const rule = ACTIONS[action];
-  if (!hasRole(user.role, rule.minimumRole)) {
-    throw forbidden(`Only technicians, managers and admins can ${rule.label.toLowerCase()} a ticket.`);
-  }
-  const result = canPerform(action, ticket.status, {
-    role: user.role,
-    isReporter: ticket.reporterId === user.id,
-    now: new Date(),
-    resolvedAt: ticket.resolvedAt,
-  });
-  if (result.ok) return;
-  if (!rule.from.includes(ticket.status)) throw new AppError(409, 'invalid_transition', result.reason);
-  throw forbidden(result.reason);
-}
 
 /** Keeps the reason of a Down held by this ticket in step with the ticket (repair or which delay). */
 async function syncDowntimeReason(deps: AppDeps, ticket: Ticket, actorId: number, reason: StateReason, transaction: Transaction) {
@@ -116,7 +93,9 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
     const ticket = await Ticket.findByPk(ticketId, { transaction, lock: transaction.LOCK.UPDATE });
     if (!tool || !ticket) throw notFound('That ticket');
 
-    checkPermission(user, ticket, input.action);
+    const held = await intervalsHeldBy(ticket.id, transaction);
+    const pending = awaitingConfirmation(ticket.id, held);
+    authorizeTicketAction(user, { ...ticket.get(), awaitingConfirmation: pending.length > 0 }, input.action, new Date());
     if (ticket.version !== input.version) throw new StaleTicketError(ticket.id);
 
     const now = new Date();
@@ -289,26 +268,11 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
         ticket.priorityOverridden = true;
         break;
       case 'set_state': {
-        const reason = input.reason ?? REASONS_BY_STATE[input.state][0];
-        await changeStateForTicket(
-          deps,
-          ticket,
-          user.id,
-          {
-            toolId: tool.id,
-            moduleId: input.moduleId,
-            state: input.state,
-            reason,
-            note: input.note,
-            expectedReturnAt: input.expectedReturnAt,
-          },
-          transaction,
-        );
+        const change = await requestStateChange(deps, tool.id, input, { actorId: user.id, ticketId: ticket.id }, transaction);
+        await recordStateStep(ticket.id, user.id, change, change.current.note, transaction);
         break;
       }
       case 'confirm_down': {
-        const pending = (await intervalsHeldBy(ticket.id, transaction)).filter((s) => s.source === 'user_report' && !s.confirmed);
-        if (pending.length === 0) throw new AppError(409, 'nothing_to_confirm', 'There is no reported Down waiting for confirmation.');
         await confirmIntervals(deps, pending, transaction);
         await appendEvent(
           ticket.id,
@@ -320,8 +284,6 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
         break;
       }
       case 'revert_down': {
-        const pending = (await intervalsHeldBy(ticket.id, transaction)).filter((s) => s.source === 'user_report' && !s.confirmed);
-        if (pending.length === 0) throw new AppError(409, 'nothing_to_revert', 'There is no reported Down waiting for confirmation.');
         for (const s of pending) {
           const before = await intervalBefore(s, transaction);
           const state = before && before.state !== 'unscheduled_downtime' ? before.state : 'standby';
