@@ -252,6 +252,9 @@ export interface AvailabilityFigure {
   byState: Record<E10State, number>;
 }
 
+/** What a user may do on the tool page; the tool detail sends the allowed ones. */
+export type ToolAction = 'change_state';
+
 export interface ToolDetail extends BoardTool {
   description: string | null;
   area: { id: number; code: string; name: string };
@@ -262,6 +265,7 @@ export interface ToolDetail extends BoardTool {
   following: boolean;
   availability30d: AvailabilityFigure;
   setBy: { id: number; name: string } | null;
+  allowedActions: ToolAction[];
 }
 
 export interface HistoryEntry {

@@ -91,7 +91,7 @@ export function facilityRoutes(opts: { log: Logger }): RouteSpec[] {
       access: 'member',
       summary: 'A tool page: state, modules, engineers, 30-day availability, whether I follow it',
       params: toolCodeParams,
-      handle: ({ deps, params, user }) => getToolDetail(deps, params.code, user!.id),
+      handle: ({ deps, params, user }) => getToolDetail(deps, params.code, user!),
     }),
     route({
       method: 'get',
@@ -110,7 +110,7 @@ export function facilityRoutes(opts: { log: Logger }): RouteSpec[] {
       params: idParams,
       body: stateChangeSchema,
       status: 201,
-      handle: ({ deps, params, body, user }) => setToolState(deps, params.id, body, user!.id),
+      handle: ({ deps, params, body, user }) => setToolState(deps, params.id, body, user!),
     }),
     route({
       method: 'put',

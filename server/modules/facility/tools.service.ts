@@ -3,9 +3,11 @@ import { Area, Tool, ToolModule } from './facility.model';
 import { activePeople, peopleByIds, searchStaff, type Person } from '../users/user-directory';
 import { ticketToolId } from '../tickets/ticket-lookup';
 import { likePattern } from '../../lib/like-pattern';
+import { allowedToolActions, authorizeToolAction } from './tool.policy';
+import { findTool } from './tool-directory';
 import { ToolFollow } from './facility.model';
 import { AppError, badRequest, conflict, notFound } from '../../lib/errors';
-import type { AppDeps } from '../../lib/http';
+import type { AppDeps, AuthUser } from '../../lib/http';
 import { changeState, openInitialState, requestStateChange } from './state.service';
 import { loadBoardTools } from './board.service';
 import { availabilityForPeriod } from './availability.service';
@@ -313,7 +315,7 @@ export async function findToolIdByCode(code: string): Promise<number> {
 }
 
 /** Everything the tool page shows at the top: state, people, modules, 30-day availability. */
-export async function getToolDetail(deps: AppDeps, code: string, viewerId: number): Promise<ToolDetail> {
+export async function getToolDetail(deps: AppDeps, code: string, viewer: AuthUser): Promise<ToolDetail> {
   const tool = await Tool.findOne({ where: { code }, include: [{ model: Area, as: 'area', attributes: ['id', 'name', 'code'] }] });
   if (!tool) throw notFound('Tool');
   const now = new Date();
@@ -321,7 +323,7 @@ export async function getToolDetail(deps: AppDeps, code: string, viewerId: numbe
   const [entries, people, follow, availability, setBy] = await Promise.all([
     loadBoardTools(deps.sequelize, { toolIds: [tool.id], includeRetired: true }),
     peopleByIds([tool.primaryEngineerId, tool.backupEngineerId]),
-    ToolFollow.findOne({ where: { userId: viewerId, toolId: tool.id }, attributes: ['userId'] }),
+    ToolFollow.findOne({ where: { userId: viewer.id, toolId: tool.id }, attributes: ['userId'] }),
     availabilityForPeriod(deps.sequelize, { from, to: now, toolIds: [tool.id] }),
     deps.sequelize.query<{ id: number; name: string }>(
       `SELECT u.id, u.name FROM state_intervals si JOIN users u ON u.id = si.set_by_id
@@ -342,6 +344,7 @@ export async function getToolDetail(deps: AppDeps, code: string, viewerId: numbe
     following: Boolean(follow),
     availability30d: availability.get(tool.id)!,
     setBy: setBy[0] ?? null,
+    allowedActions: allowedToolActions(viewer, tool),
   };
 }
 
@@ -416,12 +419,15 @@ export async function getToolHistory(deps: AppDeps, toolId: number, query: Histo
 }
 
 /** A technician's state change from the API: the request's words become the change. */
-export async function setToolState(deps: AppDeps, toolId: number, input: StateChangeInput, actorId: number) {
+export async function setToolState(deps: AppDeps, toolId: number, input: StateChangeInput, actor: AuthUser) {
+  const tool = await findTool(toolId);
+  if (!tool) throw notFound('Tool');
+  authorizeToolAction(actor, tool, 'change_state');
   if (input.ticketId) {
     if ((await ticketToolId(input.ticketId)) !== toolId)
       throw badRequest('That ticket is not about this tool.', { ticketId: ['Choose a ticket about this tool.'] });
   }
-  const result = await requestStateChange(deps, toolId, input, { actorId, ticketId: input.ticketId });
+  const result = await requestStateChange(deps, toolId, input, { actorId: actor.id, ticketId: input.ticketId });
   const [entry] = await loadBoardTools(deps.sequelize, { toolIds: [toolId], includeRetired: true });
   return {
     interval: {

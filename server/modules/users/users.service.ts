@@ -5,12 +5,13 @@ import { endAllSessions } from '../auth/sessions.service';
 import { likePattern } from '../../lib/like-pattern';
 import { queueMail } from '../../lib/mailer';
 import { disconnectUser } from '../../lib/realtime';
-import { AppError, notFound } from '../../lib/errors';
-import type { AppDeps } from '../../lib/http';
+import { notFound } from '../../lib/errors';
+import type { AppDeps, AuthUser } from '../../lib/http';
+import { allowedUserActions, authorizeUserUpdate } from './user.policy';
 import type { InviteUserInput, UpdateUserInput } from '../../../shared/schemas/users';
 import type { Role } from '../../../shared/roles';
 
-export function presentUser(u: User) {
+export function presentUser(u: User, viewer: AuthUser) {
   return {
     id: u.id,
     email: u.email,
@@ -21,22 +22,23 @@ export function presentUser(u: User) {
     invited: !u.passwordHash,
     lastSignInAt: u.lastSignInAt?.toISOString() ?? null,
     createdAt: u.createdAt.toISOString(),
+    allowedActions: allowedUserActions(viewer, u),
   };
 }
 
-export async function listUsers(query: { q?: string; role?: Role; limit: number; offset: number }) {
+export async function listUsers(viewer: AuthUser, query: { q?: string; role?: Role; limit: number; offset: number }) {
   const where: WhereOptions<User> = {};
   if (query.role) Object.assign(where, { role: query.role });
   if (query.q)
     Object.assign(where, { [Op.or]: [{ name: { [Op.like]: likePattern(query.q) } }, { email: { [Op.like]: likePattern(query.q) } }] });
   const { rows, count } = await User.findAndCountAll({ where, order: [['name', 'ASC']], limit: query.limit, offset: query.offset });
-  return { items: rows.map(presentUser), total: count };
+  return { items: rows.map((u) => presentUser(u, viewer)), total: count };
 }
 
 const INVITE_TTL_MS = 7 * 24 * 3600 * 1000;
 
 /** Creates the account without a password and e-mails a link to choose one (valid 7 days). */
-export async function inviteUser(deps: AppDeps, input: InviteUserInput, invitedBy: { name: string }) {
+export async function inviteUser(deps: AppDeps, input: InviteUserInput, invitedBy: AuthUser) {
   const token = crypto.randomBytes(32).toString('base64url');
   const tokenHash = crypto.createHash('sha256').update(token).digest('hex');
   return deps.sequelize.transaction(async (transaction) => {
@@ -63,21 +65,19 @@ export async function inviteUser(deps: AppDeps, input: InviteUserInput, invitedB
       },
       transaction,
     );
-    return presentUser(user);
+    return presentUser(user, invitedBy);
   });
 }
 
 /** Changes a user; disabling ends every session and socket of that user at once. */
-export async function updateUser(deps: AppDeps, id: number, input: UpdateUserInput, actorId: number) {
+export async function updateUser(deps: AppDeps, id: number, input: UpdateUserInput, actor: AuthUser) {
   const user = await User.findByPk(id);
   if (!user) throw notFound('User');
-  if (id === actorId && (input.active === false || (input.role && input.role !== 'admin'))) {
-    throw new AppError(409, 'cannot_demote_self', 'You cannot disable yourself or take away your own admin role.');
-  }
+  authorizeUserUpdate(actor, user, input);
   await deps.sequelize.transaction(async (transaction) => {
     await user.update(input, { transaction });
     if (input.active === false || input.role) await endAllSessions(id, transaction);
   });
   if (input.active === false || input.role) disconnectUser(id);
-  return presentUser(user);
+  return presentUser(user, actor);
 }

@@ -1,12 +1,10 @@
 import { Link, useParams } from 'react-router';
-import { hasRole } from '@shared/roles';
 import { PageHeader } from '@/components/layout/page-header';
 import { Alert } from '@/components/ui/alert';
 import { Button, buttonClasses } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { PageSpinner } from '@/components/ui/spinner';
 import { isApiError } from '@/lib/api-client';
-import { useSession } from '@/features/auth/api/get-session';
 import { useTool } from '@/features/tools/api/get-tool';
 import { AvailabilityPanel } from '@/features/tools/components/availability-panel';
 import { ChangeStateForm } from '@/features/tools/components/change-state-form';
@@ -21,8 +19,6 @@ import { ToolReliability } from '@/features/analytics/components/tool-reliabilit
 export function ToolPage() {
   const { code = '' } = useParams();
   const tool = useTool(code.toUpperCase());
-  const { data: session } = useSession();
-  const staff = session?.user ? hasRole(session.user.role, 'technician') : false;
 
   if (tool.isPending) return <PageSpinner label="Loading the tool…" />;
   if (tool.isError) {
@@ -105,7 +101,7 @@ export function ToolPage() {
             </Card>
           )}
 
-          {staff && !retired && (
+          {t.allowedActions.includes('change_state') && (
             <Card as="section" title="Change the state">
               <ChangeStateForm toolId={t.id} modules={t.modules} />
             </Card>

@@ -6,12 +6,16 @@ import { Ticket, UNWORKED_TICKET_FIELDS } from '../../server/modules/tickets/tic
 import { changeState } from '../../server/modules/facility/state.service';
 import { ALL_TICKET_ACTIONS, type TicketActionName } from '../../server/modules/tickets/ticket.policy';
 import { TICKET_STATUSES, RESOLVED_STATUSES, type TicketStatus } from '../../shared/ticket-workflow';
-import { makeTool } from './facility-fixtures';
+import { makeTool, intervalsOf } from './facility-fixtures';
+import { Tool } from '../../server/modules/facility/facility.model';
+import { User } from '../../server/modules/users/user.model';
+import { ROLES } from '../../shared/roles';
 import { drainOutbox } from './tickets-fixtures';
 
-// The allowed actions sent with a ticket are exactly the requests the server accepts: for
-// every role, every status, with and without a reported Down waiting for confirmation, each
-// action is tried for real. Accepted means 2xx; refused means 403 or 409 and no change.
+// The allowed actions sent with a ticket, a tool or an account are exactly the requests the
+// server accepts. For tickets: every role, every status, with and without a reported Down
+// waiting for confirmation, each action tried for real. Accepted means 2xx; refused means 403
+// or 409 and no change.
 
 let server: TestServer;
 
@@ -166,4 +170,55 @@ describe('ticket policy', () => {
     expect(accepted).toBeGreaterThan(100);
     expect(refused).toBeGreaterThan(100);
   }, 600_000);
+});
+
+describe('tool policy', () => {
+  it('when every role tries to change the state of a tool in service and of a retired one, then the tool page offers exactly what is accepted', async () => {
+    const mismatches: string[] = [];
+    for (const role of ROLES) {
+      const { client } = await signedInClient(server.url, role);
+      for (const retired of [false, true]) {
+        const { tool } = await makeTool(server.deps.sequelize);
+        if (retired) await Tool.update({ retiredAt: new Date() }, { where: { id: tool.id } });
+        const detail = await client.get(`/api/tools/by-code/${tool.code}`);
+        expect(detail.status).toBe(200);
+        const logBefore = (await intervalsOf(tool.id)).length;
+        const r = await client.post(`/api/tools/${tool.id}/state`, { state: 'engineering', note: 'Recipe trials' });
+        const ok = r.status === 201;
+        if (!ok && r.status !== 403 && r.status !== 409) mismatches.push(`${role}, retired ${retired}: answered ${r.status}`);
+        if (!ok && (await intervalsOf(tool.id)).length !== logBefore) mismatches.push(`${role}, retired ${retired}: refused but logged`);
+        if (ok !== detail.body.allowedActions.includes('change_state'))
+          mismatches.push(`${role}, retired ${retired}: change_state ${ok ? 'accepted but not offered' : 'offered but refused'}`);
+      }
+    }
+    expect(mismatches).toEqual([]);
+  });
+});
+
+describe('user policy', () => {
+  it('when an admin changes their own account and someone else’s, then the user list offers exactly the changes that are accepted', async () => {
+    const { client: admin, user: me } = await signedInClient(server.url, 'admin');
+    const changes: Record<string, (target: { role: string; active: boolean }) => Record<string, unknown>> = {
+      rename: () => ({ name: 'Renamed person' }),
+      change_role: (t) => ({ role: t.role === 'admin' ? 'technician' : 'admin' }),
+      set_on_call: () => ({ onCall: true }),
+      disable: () => ({ active: false }),
+      enable: () => ({ active: true }),
+    };
+    const mismatches: string[] = [];
+    for (const [action, body] of Object.entries(changes)) {
+      for (const whose of ['own', 'other'] as const) {
+        const target = whose === 'own' ? me : await createUser('technician');
+        const fresh = (await User.findByPk(target.id))!;
+        const list = await admin.get(`/api/users?q=${encodeURIComponent(fresh.email)}`);
+        const listed = list.body.items.find((u: { id: number }) => u.id === fresh.id);
+        const r = await admin.patch(`/api/users/${fresh.id}`, body(fresh));
+        const ok = r.status === 200;
+        if (!ok && r.status !== 409) mismatches.push(`${whose} account, ${action}: answered ${r.status}`);
+        if (ok !== listed.allowedActions.includes(action))
+          mismatches.push(`${whose} account, ${action}: ${ok ? 'accepted but not offered' : 'offered but refused'}`);
+      }
+    }
+    expect(mismatches).toEqual([]);
+  });
 });
