@@ -42,6 +42,9 @@ export default tseslint.config(
     files: ['src/**/*.{ts,tsx}', 'server/**/*.ts', 'shared/**/*.ts'],
     plugins: { 'import-x': importX },
     settings: {
+      // Without these, import-x skips .ts/.tsx files when it follows imports (and finds no cycle).
+      'import-x/extensions': ['.ts', '.tsx', '.js'],
+      'import-x/parsers': { '@typescript-eslint/parser': ['.ts', '.tsx'] },
       'import-x/resolver-next': [
         createNodeResolver({
           extensions: ['.ts', '.tsx', '.js'],
