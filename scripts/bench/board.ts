@@ -5,12 +5,10 @@
 //   BENCH_SECONDS=20 BENCH_CONNECTIONS=20 npm run bench -- board
 import crypto from 'node:crypto';
 import autocannon from 'autocannon';
-import { loadConfig } from '../../server/config';
-import { createSequelize, createMigrator } from '../../server/db';
 import { startServer } from '../../server/server';
 import { hashPassword } from '../../server/modules/users/password';
 import { createRandom } from '../../server/db/seed/random';
-import { localSecrets } from '../lib/local-secrets';
+import { benchConfig, rebuildBenchDatabase, signInCookie } from '../lib/bench';
 
 const TOOLS = 300;
 const AREAS = 10;
@@ -19,31 +17,12 @@ const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 10);
 const HISTORY_PER_TOOL = 300;
 const PASSWORD = 'bench-password-not-secret';
 
-const secrets = localSecrets();
-const config = loadConfig(process.env, {
-  DB_NAME: 'faultline_bench',
-  DB_PASSWORD: process.env.DB_PASSWORD ?? secrets.DB_PASSWORD ?? '',
-  SESSION_SECRET: process.env.SESSION_SECRET ?? secrets.SESSION_SECRET ?? 'bench-session-secret-bench-session-secret',
-  PORT: '0',
-  LOG_LEVEL: 'silent',
-  NODE_ENV: 'production',
-  DB_POOL_MAX: process.env.DB_POOL_MAX ?? '10',
-});
+const config = benchConfig({ DB_POOL_MAX: process.env.DB_POOL_MAX ?? '10' });
 
 const fmt = (d: Date) => d.toISOString().replace('T', ' ').replace('Z', '');
 
-async function rebuildDatabase() {
-  const admin = createSequelize({ ...config, DB_NAME: 'information_schema' });
-  await admin.query('DROP DATABASE IF EXISTS faultline_bench');
-  await admin.query('CREATE DATABASE faultline_bench CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci');
-  await admin.close();
-  const sequelize = createSequelize(config);
-  await createMigrator(sequelize).up();
-  return sequelize;
-}
-
 /** 300 tools in 10 areas, a fifth with 3 modules, 300 intervals each, and some tickets. */
-async function fill(sequelize: Awaited<ReturnType<typeof rebuildDatabase>>, displayKey: string) {
+async function fill(sequelize: Awaited<ReturnType<typeof rebuildBenchDatabase>>, displayKey: string) {
   const rnd = createRandom(300);
   const now = Date.now();
   const q = (sql: string) => sequelize.query(sql);
@@ -108,19 +87,6 @@ async function fill(sequelize: Awaited<ReturnType<typeof rebuildDatabase>>, disp
   return rows.length;
 }
 
-async function signIn(url: string): Promise<string> {
-  const first = await fetch(`${url}/api/session`);
-  const cookie = first.headers.get('set-cookie')!.split(';')[0];
-  const { csrfToken } = (await first.json()) as { csrfToken: string };
-  const r = await fetch(`${url}/api/session`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json', 'x-csrf-token': csrfToken, cookie },
-    body: JSON.stringify({ email: 'bench-member@bench.test', password: PASSWORD }),
-  });
-  if (r.status !== 200) throw new Error(`bench sign-in failed: ${r.status}`);
-  return r.headers.get('set-cookie')!.split(';')[0];
-}
-
 interface Row {
   name: string;
   rps: number;
@@ -146,7 +112,7 @@ async function measure(name: string, url: string, headers: Record<string, string
   };
 }
 
-const sequelize = await rebuildDatabase();
+const sequelize = await rebuildBenchDatabase(config);
 const displayKey = crypto.randomBytes(32).toString('base64url');
 const started = Date.now();
 const intervals = await fill(sequelize, displayKey);
@@ -157,7 +123,7 @@ console.log(
 
 const server = await startServer(config, { outboxWorker: false, serveClient: false });
 try {
-  const cookie = await signIn(server.url);
+  const cookie = await signInCookie(server.url, 'bench-member@bench.test', PASSWORD);
   const check = await fetch(`${server.url}/api/board`, { headers: { 'x-display-key': displayKey } });
   const body = await check.text();
   const board = JSON.parse(body) as { total: number; areas: { tools: unknown[] }[] };

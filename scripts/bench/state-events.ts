@@ -4,26 +4,16 @@
 //   npm run bench -- state-events        BENCH_ROUNDS=200 npm run bench -- state-events
 import os from 'node:os';
 import { io } from 'socket.io-client';
-import { loadConfig } from '../../server/config';
-import { createSequelize, createMigrator } from '../../server/db';
 import { startServer } from '../../server/server';
 import { changeState, openInitialState } from '../../server/modules/facility/state.service';
 import { seedFacility } from '../../server/db/seed/facility';
 import { User } from '../../server/modules/users/user.model';
 import { hashPassword } from '../../server/modules/users/password';
 import { Area, Tool } from '../../server/modules/facility/facility.model';
-import { localSecrets } from '../lib/local-secrets';
+import { benchConfig, rebuildBenchDatabase, signInCookie } from '../lib/bench';
 
 const ROUNDS = Number(process.env.BENCH_ROUNDS ?? 100);
-const secrets = localSecrets();
-const config = loadConfig(process.env, {
-  DB_NAME: 'faultline_bench',
-  DB_PASSWORD: process.env.DB_PASSWORD ?? secrets.DB_PASSWORD ?? '',
-  SESSION_SECRET: process.env.SESSION_SECRET ?? secrets.SESSION_SECRET ?? 'bench-session-secret-bench-session-secret',
-  PORT: '0',
-  LOG_LEVEL: 'silent',
-  NODE_ENV: 'production',
-});
+const config = benchConfig();
 
 const percentile = (sorted: number[], p: number) => sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))];
 const summary = (name: string, ms: number[]) => {
@@ -31,14 +21,7 @@ const summary = (name: string, ms: number[]) => {
   return `${name.padEnd(44)} ${String(s.length).padStart(6)} ${percentile(s, 50).toFixed(1).padStart(8)} ${percentile(s, 90).toFixed(1).padStart(8)} ${s[s.length - 1].toFixed(1).padStart(8)}`;
 };
 
-// A fresh bench database (never the demo or test one).
-const admin = createSequelize({ ...config, DB_NAME: 'information_schema' });
-await admin.query('DROP DATABASE IF EXISTS faultline_bench');
-await admin.query('CREATE DATABASE faultline_bench CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci');
-await admin.close();
-const migrations = createSequelize(config);
-await createMigrator(migrations).up();
-await migrations.close();
+await (await rebuildBenchDatabase(config)).close();
 
 const server = await startServer(config, { outboxWorker: false, serveClient: false });
 try {
@@ -67,15 +50,7 @@ try {
   // Every board listens in the room 'all'; a signed-in member's socket joins it.
   const hash = await hashPassword('bench-password-not-secret');
   await User.create({ email: 'bench@bench.test', name: 'Bench member', role: 'member', passwordHash: hash, lastSignInAt: null });
-  const first = await fetch(`${server.url}/api/session`);
-  let cookie = first.headers.get('set-cookie')!.split(';')[0];
-  const { csrfToken } = (await first.json()) as { csrfToken: string };
-  const signIn = await fetch(`${server.url}/api/session`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json', 'x-csrf-token': csrfToken, cookie },
-    body: JSON.stringify({ email: 'bench@bench.test', password: 'bench-password-not-secret' }),
-  });
-  cookie = signIn.headers.get('set-cookie')!.split(';')[0];
+  const cookie = await signInCookie(server.url, 'bench@bench.test', 'bench-password-not-secret');
   const socket = io(server.url, { path: '/socket.io', transports: ['websocket'], extraHeaders: { cookie }, forceNew: true });
   await new Promise<void>((resolve, reject) => {
     socket.once('connect', () => resolve());

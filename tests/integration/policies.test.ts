@@ -39,37 +39,27 @@ interface Setup {
 /** A ticket straight in the database in `status`, optionally holding a reported Down of its tool. */
 async function ticketIn(tool: { id: number }, status: TicketStatus, reporterId: number, reportedDown: boolean): Promise<Setup> {
   const resolved = (RESOLVED_STATUSES as readonly TicketStatus[]).includes(status);
-  const other = await Ticket.create({
-    ...UNWORKED_TICKET_FIELDS,
-    toolId: tool.id,
-    moduleId: null,
-    category: 'alarm_interlock',
-    title: 'Another report on the same tool',
-    description: 'Pressure alarm again',
-    alarmText: null,
-    impact: 'still_usable',
-    hazards: [],
-    wafersOwner: null,
-    wafersRecoverable: null,
-    priority: 'P3',
-    reporterId,
-    assigneeId: null,
-  });
-  const ticket = await Ticket.create({
-    ...UNWORKED_TICKET_FIELDS,
-    toolId: tool.id,
-    moduleId: null,
-    category: 'alarm_interlock',
-    title: 'Chamber pressure alarm',
-    description: 'Chamber pressure alarm and the process stopped mid-run',
-    alarmText: null,
+  const report = (fields: Partial<Parameters<typeof Ticket.create>[0]>) =>
+    Ticket.create({
+      ...UNWORKED_TICKET_FIELDS,
+      toolId: tool.id,
+      moduleId: null,
+      category: 'alarm_interlock',
+      title: 'Chamber pressure alarm',
+      description: 'Chamber pressure alarm and the process stopped mid-run',
+      alarmText: null,
+      impact: 'still_usable',
+      hazards: [],
+      wafersOwner: null,
+      wafersRecoverable: null,
+      priority: 'P3',
+      reporterId,
+      assigneeId: null,
+      ...fields,
+    });
+  const other = await report({ title: 'Another report on the same tool' });
+  const ticket = await report({
     impact: reportedDown ? 'tool_stopped' : 'still_usable',
-    hazards: [],
-    wafersOwner: null,
-    wafersRecoverable: null,
-    priority: 'P3',
-    reporterId,
-    assigneeId: null,
     status,
     // Resolved an hour ago: inside the reporter's reopen window.
     resolvedAt: resolved ? new Date(Date.now() - 3600_000) : null,
