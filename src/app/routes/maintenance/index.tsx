@@ -111,7 +111,7 @@ export function MaintenancePage() {
             <PlanForm />
           </Card>
           <Card as="section" title={`Plans (${plans.data?.total ?? '…'})`} flush>
-            <div className="overflow-x-auto">
+            <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Plans (scrolls sideways)">
               <table className="w-full text-sm">
                 <caption className="sr-only">Maintenance plans with their next due point</caption>
                 <thead>

@@ -74,7 +74,7 @@ export function PartsPage() {
           {parts.isPending && <PageSpinner label="Loading parts…" />}
           {parts.isError && <Alert tone="danger">{parts.error.message}</Alert>}
           {parts.data && (
-            <div className="overflow-x-auto">
+            <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Parts (scrolls sideways)">
               <table className="w-full text-sm" data-testid="parts-table">
                 <caption className="sr-only">Spare parts</caption>
                 <thead>

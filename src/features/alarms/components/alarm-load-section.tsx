@@ -88,7 +88,7 @@ export function AlarmLoadSection() {
             {load.data.facility.count.toLocaleString()} alarms from {load.data.tools.length} tools.
           </p>
           <FacilityFigures f={load.data.facility} t={load.data.targets} />
-          <div className="mt-4 overflow-x-auto">
+          <div className="mt-4 overflow-x-auto" tabIndex={0} role="region" aria-label="Alarm load per tool (scrolls sideways)">
             <table className="w-full border-collapse text-left text-sm" data-testid="alarm-load-tools">
               <caption className="sr-only">Alarm load per tool</caption>
               <thead className="border-y border-line text-xs font-semibold text-muted">
