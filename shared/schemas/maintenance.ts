@@ -133,10 +133,16 @@ export const workOrderFromTicketSchema = z.strictObject({
 
 const version = z.number().int().min(0);
 
+const bothDates = (a: unknown, b: unknown) => a instanceof Date && b instanceof Date;
+
 export const windowSchema = z
   .strictObject({ version, startsAt: isoDate, endsAt: isoDate })
-  .refine((w) => w.endsAt > w.startsAt, { message: 'The window must end after it starts.', path: ['endsAt'] })
-  .refine((w) => w.endsAt.getTime() - w.startsAt.getTime() <= 14 * 24 * 3600_000, {
+  // Refinements run even when a field failed to parse; only compare real dates.
+  .refine((w) => !bothDates(w.startsAt, w.endsAt) || w.endsAt > w.startsAt, {
+    message: 'The window must end after it starts.',
+    path: ['endsAt'],
+  })
+  .refine((w) => !bothDates(w.startsAt, w.endsAt) || w.endsAt.getTime() - w.startsAt.getTime() <= 14 * 24 * 3600_000, {
     message: 'A window is at most 14 days long.',
     path: ['endsAt'],
   });
@@ -284,6 +290,6 @@ export const counterReadingSchema = z.strictObject({
 
 export const figuresQuery = z
   .strictObject({ from: isoDate, to: isoDate, toolId: id.optional() })
-  .refine((q) => q.to > q.from, { message: 'The end must be after the start.', path: ['to'] });
+  .refine((q) => !bothDates(q.from, q.to) || q.to > q.from, { message: 'The end must be after the start.', path: ['to'] });
 
 export const toolIdParams = z.strictObject({ toolId: id });

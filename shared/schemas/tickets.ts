@@ -171,8 +171,7 @@ export const ticketActionSchema = z.discriminatedUnion('action', [
     waitReason: z.enum(WAIT_REASONS),
     note: optionalText(1000),
     /** When the wait should end (parts due, vendor visit); shown on the board as the expected return. */
-    expectedReturnAt: z.iso
-      .datetime({ offset: true })
+    expectedReturnAt: isoInstant()
       .nullish()
       .transform((v) => (v ? new Date(v) : null)),
   }),
