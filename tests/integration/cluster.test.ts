@@ -97,8 +97,14 @@ describe('two processes', () => {
     const { client: member } = await signIn(cluster.url, 'member');
     const { client: tech } = await signIn(b.url, 'technician');
     const { tool } = await makeTool(sequelize);
-    // Round-robin spreads new connections over both processes.
-    const boards = Array.from({ length: 6 }, () => open(cluster.url, member.cookie!, true));
+    // Round-robin spreads new connections over both processes. The balancer's stickiness
+    // cookie from the sign-in would pin all six to one process, as if one browser; these are
+    // six browsers sharing the session cookie only.
+    const sessionOnly = member
+      .cookie!.split('; ')
+      .filter((c) => !c.startsWith('FLNODE='))
+      .join('; ');
+    const boards = Array.from({ length: 6 }, () => open(cluster.url, sessionOnly, true));
     await Promise.all(boards.map((e) => connected(e.socket)));
     const dropped = new Set<number>();
     boards.forEach((e, i) => e.socket.on('disconnect', () => dropped.add(i)));
