@@ -104,7 +104,7 @@ export function createApp(deps: AppDeps, opts: AppOptions) {
   // Health first: it must answer even when the session store (MariaDB) is down.
   mountRoutes(api, '', healthRoutes(), deps, registry);
   // Tools post with their own key, before sessions and CSRF; 500 events fit in 1 MB.
-  api.use('/ingest/v1', toolKeyAuth(log), express.json({ limit: '1mb' }));
+  api.use('/ingest/v1', toolKeyAuth(log, config.INGEST_REQUESTS_PER_KEY_PER_MINUTE), express.json({ limit: '1mb' }));
   mountRoutes(api, '', ingestRoutes(config.DB_POOL_MAX), deps, registry);
   api.use(express.json({ limit: '200kb' }));
   api.use(opts.session);

@@ -37,6 +37,9 @@ const configSchema = z.object({
   SIGNIN_DELAY_SECONDS: z.coerce.number().positive().default(30),
   // API requests per minute from one address by visitors who are not signed in (no session).
   ANONYMOUS_REQUESTS_PER_MINUTE: z.coerce.number().int().min(1).default(300),
+  // Ingest requests per minute from one tool key: a tool sending once a second fits with
+  // room; a runaway script loop does not.
+  INGEST_REQUESTS_PER_KEY_PER_MINUTE: z.coerce.number().int().min(1).default(600),
   // Which proxies in front of the server to believe about the client's address and protocol
   // (X-Forwarded-For / -Proto): 'false' (none), 'loopback', a comma-separated list of
   // addresses or subnets, or a hop count. Needed for an https PUBLIC_URL behind a TLS proxy.

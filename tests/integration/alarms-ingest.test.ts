@@ -13,8 +13,8 @@ afterAll(() => server.close());
 
 const minutesAgo = (m: number) => new Date(Date.now() - m * 60_000);
 
-async function eventCount(toolId: number) {
-  const [row] = await server.deps.sequelize.query<{ n: number }>(`SELECT COUNT(*) AS n FROM alarm_events WHERE tool_id = :toolId`, {
+async function eventCount(toolId: number, on: TestServer = server) {
+  const [row] = await on.deps.sequelize.query<{ n: number }>(`SELECT COUNT(*) AS n FROM alarm_events WHERE tool_id = :toolId`, {
     replacements: { toolId },
     type: QueryTypes.SELECT,
   });
@@ -255,5 +255,40 @@ describe('ingest: counters', () => {
       expect(Object.keys(r.body.error.fields)).toContain(field);
     }
     expect(await CounterReading.count({ where: { toolId: tool.id } })).toBe(0);
+  });
+});
+
+describe('ingest: rate limit per key', () => {
+  // A server with a small per-key limit, so the test need not send hundreds of requests.
+  const KEY_LIMIT = 30;
+  let limited: TestServer;
+  beforeAll(async () => {
+    limited = await startTestServer({ INGEST_REQUESTS_PER_KEY_PER_MINUTE: String(KEY_LIMIT) }, { outboxWorker: false });
+  });
+  afterAll(() => limited.close());
+
+  it('when one key sends more than its limit within the window, then that key gets 429 with Retry-After, and another key of the same tool still gets through', async () => {
+    const { tool, key, admin } = await toolWithKey(limited);
+    const second = await admin.post(`/api/tools/${tool.code}/keys`, { label: 'second host PC' });
+    expect(second.status).toBe(201);
+    // Empty batches are refused (400) after the key check, so they spend the key's budget
+    // without storing anything; sent in parallel batches to stay quick.
+    const statuses: number[] = [];
+    for (let sent = 0; sent < KEY_LIMIT; sent += 10) {
+      const batch = Array.from({ length: Math.min(10, KEY_LIMIT - sent) }, () => ingest(limited, key, 'alarms', { events: [] }));
+      statuses.push(...(await Promise.all(batch)).map((r) => r.status));
+    }
+    expect(statuses.filter((s) => s === 429)).toHaveLength(0);
+    const over = await fetch(`${limited.url}/api/ingest/v1/alarms`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json', authorization: `Bearer ${key}` },
+      body: JSON.stringify({ events: [alarmEvent(3, true, minutesAgo(1))] }),
+    });
+    expect(over.status).toBe(429);
+    expect(Number(over.headers.get('retry-after'))).toBeGreaterThan(0);
+    expect(await eventCount(tool.id, limited)).toBe(0);
+    // The limit is per key: the tool's other key is not held back.
+    expect((await ingest(limited, second.body.key, 'alarms', { events: [alarmEvent(3, true, minutesAgo(1))] })).status).toBe(202);
+    expect(await eventCount(tool.id, limited)).toBe(1);
   });
 });

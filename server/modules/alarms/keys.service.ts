@@ -15,8 +15,8 @@ import type { ToolKeyView } from '../../../shared/schemas/alarms';
 const PREFIX = 'flt_';
 const sha256 = (s: string) => crypto.createHash('sha256').update(s).digest('hex');
 
-/** Requests per key per minute: 300 tools at one a second each fit with room; a script loop does not. */
-export const KEY_RATE_LIMIT = { limit: 600, windowMs: 60_000 };
+/** The window of the per-key limit (INGEST_REQUESTS_PER_KEY_PER_MINUTE requests in it). */
+const KEY_RATE_WINDOW_MS = 60_000;
 
 function present(k: ToolKey): ToolKeyView {
   return {
@@ -78,7 +78,7 @@ export async function verifyToolKey(key: string): Promise<{ id: number; toolId: 
  * Reads `Authorization: Bearer <key>` on the ingest routes and sets req.toolKey; the route's
  * access rule 'tool' then admits the request. Each key has its own rate limit.
  */
-export function toolKeyAuth(log: Logger): RequestHandler {
+export function toolKeyAuth(log: Logger, requestsPerMinute: number): RequestHandler {
   return async (req, res, next) => {
     try {
       const header = req.get('authorization') ?? '';
@@ -90,8 +90,8 @@ export function toolKeyAuth(log: Logger): RequestHandler {
         return next(new AppError(401, 'unauthenticated', 'This tool key is unknown or has been revoked.'));
       }
       const bucket = `rl:ingest:key:${key.id}`;
-      if ((await hit(bucket, KEY_RATE_LIMIT.windowMs)) > KEY_RATE_LIMIT.limit) {
-        const seconds = await retryAfterSeconds(bucket, KEY_RATE_LIMIT.windowMs);
+      if ((await hit(bucket, KEY_RATE_WINDOW_MS)) > requestsPerMinute) {
+        const seconds = await retryAfterSeconds(bucket, KEY_RATE_WINDOW_MS);
         res.setHeader('Retry-After', String(seconds));
         securityLog(log, req, 'rate_limited', { limit: 'ingest-key' });
         return next(tooManyRequests(seconds, 'requests from this tool key'));
