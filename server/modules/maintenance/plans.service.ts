@@ -32,7 +32,10 @@ export interface PlanView {
 }
 
 /** Next due point of a plan from its basis (last completion or skipped due) and the counter now. */
-export function planDue(plan: MaintenancePlan, counterNow: number | null): NextDue {
+/** What the due date depends on: a plan instance, or a row read for that alone. */
+export type PlanTrigger = Pick<MaintenancePlan, 'everyDays' | 'everyUnits' | 'basisAt' | 'basisCounter' | 'graceFactor'>;
+
+export function planDue(plan: PlanTrigger, counterNow: number | null): NextDue {
   return nextDue({
     everyDays: plan.everyDays,
     everyUnits: plan.everyUnits,

@@ -494,11 +494,31 @@ export async function maintenanceOverview(deps: AppDeps, filter: { toolId?: numb
       LIMIT 500`,
     { type: QueryTypes.SELECT, replacements: { toolId: filter.toolId ?? 0 } },
   );
-  // The checklists are not needed to tell what is overdue; leaving them out halves the work.
-  const plans = await MaintenancePlan.findAll({
-    where: { active: true, ...(filter.toolId ? { toolId: filter.toolId } : {}) },
-    attributes: { exclude: ['checklist'] },
-  });
+  // Only the columns that tell what is overdue, as plain rows: building thousands of model
+  // instances cost most of this page's time (docs/performance.md).
+  const plans = (
+    await deps.sequelize.query<{
+      id: number;
+      toolId: number;
+      title: string;
+      everyDays: number | null;
+      everyUnits: number | null;
+      counterName: string | null;
+      basisAt: Date;
+      basisCounter: number | null;
+      graceFactor: number | string;
+    }>(
+      `SELECT id, tool_id AS toolId, title, every_days AS everyDays, every_units AS everyUnits, counter_name AS counterName,
+              basis_at AS basisAt, basis_counter AS basisCounter, grace_factor AS graceFactor
+         FROM maintenance_plans WHERE active = 1 ${filter.toolId ? 'AND tool_id = :toolId' : ''}`,
+      { type: QueryTypes.SELECT, replacements: { toolId: filter.toolId ?? 0 } },
+    )
+  ).map((p) => ({
+    ...p,
+    basisAt: new Date(p.basisAt),
+    basisCounter: p.basisCounter === null ? null : Number(p.basisCounter),
+    graceFactor: Number(p.graceFactor),
+  }));
   const tools = new Map(
     (
       await deps.sequelize.query<{ id: number; code: string; name: string }>(`SELECT id, code, name FROM tools`, {
