@@ -156,3 +156,11 @@ export function rollUp(toolState: E10State, moduleStates: readonly E10State[], r
   if (downModules > 0 || restricted) return 'limited';
   return 'running';
 }
+
+/**
+ * A state in one vocabulary: the board word first, the E10 state beside it
+ * ("Down (Unscheduled downtime)"). Every place that names a state in words uses this.
+ */
+export function stateWords(state: E10State, status: BoardStatus = boardStatusOf(state)): string {
+  return `${BOARD_LABELS[status]} (${E10_LABELS[state]})`;
+}

@@ -734,7 +734,13 @@ function timeline(from: number, now: number, disruptions: Disruption[], usage: n
   return out;
 }
 
-/** What some tools are doing right now, so the board has something to show. */
+/**
+ * What some tools are doing right now, so the board has something to show. Each trouble tells
+ * one story with its open ticket (server/db/seed/tickets.ts reads it back from the state log):
+ * for unscheduled downtime the note starts with the problem the ticket is about ("problem;
+ * what is being done"); a trouble that waits (`waitAfterHours`) is first in repair with the
+ * problem as its note, then waits with `note` saying for what.
+ */
 interface CurrentTrouble {
   module?: string;
   agoHours: number;
@@ -742,9 +748,34 @@ interface CurrentTrouble {
   state: E10State;
   reason: StateReason;
   note: string | null;
+  /** For a trouble that waits: the problem, shown while it was in repair before the wait. */
+  problem?: string;
+  /** Hours after the start at which the repair turned into the wait. */
+  waitAfterHours?: number;
   restriction?: string;
   source?: StateSource;
   confirmed?: boolean;
+}
+
+/** A current trouble as the disruption that lasts until now (and a day past, cut at now). */
+function currentTrouble(trouble: CurrentTrouble, start: number, nowMs: number, setById: number): Disruption {
+  const last = {
+    state: trouble.state,
+    reason: trouble.reason,
+    note: trouble.note,
+    restriction: trouble.restriction ?? null,
+    expectedReturnAt: trouble.backInHours ? nowMs + trouble.backInHours * HOUR : null,
+    source: trouble.source ?? ('staff' as StateSource),
+    setById,
+    confirmed: trouble.confirmed ?? true,
+  };
+  if (!trouble.waitAfterHours) return { start, segments: [last], durations: [nowMs - start + DAY] };
+  const repair = Math.round(trouble.waitAfterHours * 60) * MINUTE;
+  return {
+    start,
+    segments: [{ ...last, reason: 'repair', note: trouble.problem ?? trouble.note, expectedReturnAt: null }, last],
+    durations: [repair, nowMs - start - repair + DAY],
+  };
 }
 
 const NOW_TROUBLE: Record<string, CurrentTrouble> = {
@@ -760,6 +791,8 @@ const NOW_TROUBLE: Record<string, CurrentTrouble> = {
     backInHours: 70,
     state: 'unscheduled_downtime',
     reason: 'waiting_parts',
+    problem: 'Crucible indexer motor failed',
+    waitAfterHours: 5,
     note: 'Crucible indexer motor failed; replacement on order',
   },
   'ALIGN-2': {
@@ -775,7 +808,9 @@ const NOW_TROUBLE: Record<string, CurrentTrouble> = {
     backInHours: 30,
     state: 'unscheduled_downtime',
     reason: 'maintenance_delay_supplier',
-    note: 'Vendor service visit booked for the RF generator',
+    problem: 'RF generator fault',
+    waitAfterHours: 3,
+    note: 'RF generator fault; vendor service visit booked',
   },
   'SPUT-1': {
     agoHours: 2.5,
@@ -800,6 +835,8 @@ const NOW_TROUBLE: Record<string, CurrentTrouble> = {
     backInHours: 40,
     state: 'unscheduled_downtime',
     reason: 'waiting_parts',
+    problem: 'RF match network fault',
+    waitAfterHours: 2,
     note: 'RF match network fault; spare ordered',
   },
   'FURN-A': {
@@ -808,7 +845,7 @@ const NOW_TROUBLE: Record<string, CurrentTrouble> = {
     backInHours: 26,
     state: 'unscheduled_downtime',
     reason: 'repair',
-    note: 'Thermocouple reading drifts',
+    note: 'Thermocouple reading drifts; sensor being replaced',
   },
   'PECVD-1': {
     module: 'PM1',
@@ -1018,22 +1055,7 @@ export async function seedFacility(
     const trouble = NOW_TROUBLE[spec.code];
     if (trouble && !trouble.module) {
       const start = nowMs - Math.round(trouble.agoHours * 60) * MINUTE;
-      fixed.push({
-        start,
-        segments: [
-          {
-            state: trouble.state,
-            reason: trouble.reason,
-            note: trouble.note,
-            restriction: trouble.restriction ?? null,
-            expectedReturnAt: trouble.backInHours ? nowMs + trouble.backInHours * HOUR : null,
-            source: trouble.source ?? 'staff',
-            setById: trouble.source === 'user_report' ? rnd.pick(members) : engineer,
-            confirmed: trouble.confirmed ?? true,
-          },
-        ],
-        durations: [nowMs - start + DAY],
-      });
+      fixed.push(currentTrouble(trouble, start, nowMs, trouble.source === 'user_report' ? rnd.pick(members) : engineer));
     }
     const toolSegments = mergeSame(timeline(from, nowMs, arrange(candidates, fixed, nowMs, rnd), spec.usage, rnd));
     all.push(...rows(tool.id, null, toolSegments));
@@ -1053,20 +1075,7 @@ export async function seedFacility(
       const modFixed: Disruption[] = [];
       if (trouble?.module === m.code) {
         const start = nowMs - Math.round(trouble.agoHours * 60) * MINUTE;
-        modFixed.push({
-          start,
-          segments: [
-            {
-              state: trouble.state,
-              reason: trouble.reason,
-              note: trouble.note,
-              expectedReturnAt: trouble.backInHours ? nowMs + trouble.backInHours * HOUR : null,
-              source: 'staff',
-              setById: engineer,
-            },
-          ],
-          durations: [nowMs - start + DAY],
-        });
+        modFixed.push(currentTrouble(trouble, start, nowMs, engineer));
       }
       const segs = timeline(from, nowMs, arrange(faults, modFixed, nowMs, rnd), 0, rnd);
       all.push(...rows(tool.id, m.id, mergeSame(segs)));

@@ -115,6 +115,23 @@ const WAIT_REASON_OF: Partial<Record<StateReason, WaitReason>> = {
 
 const WAIT_OF = (reason: string): WaitReason | undefined => WAIT_REASON_OF[reason as StateReason];
 
+/**
+ * The problem a Down's board note names, which its open ticket is about:
+ * "Reported by a user: lamp will not ignite" → "lamp will not ignite";
+ * "Crucible indexer motor failed; replacement on order" → "Crucible indexer motor failed".
+ */
+export function problemOf(note: string | null): string | null {
+  const problem = note
+    ?.replace(/^Reported by a user:\s*/i, '')
+    .split(';')[0]
+    .trim();
+  return problem || null;
+}
+
+// "Pressure low" → "pressure low", but "RF fault" and "KOH bath" keep their capitals.
+const lowerFirst = (s: string) => (/^[A-Z][a-z]/.test(s) ? s.charAt(0).toLowerCase() + s.slice(1) : s);
+const upperFirst = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
+
 interface Stretch {
   intervals: StateInterval[];
   start: Date;
@@ -286,11 +303,15 @@ export async function seedTickets(
     for (const stretch of downtimeStretches(own)) {
       const mode = rng.pick(modes);
       const wafers = rng.chance(0.3) ? rng.int(1, 4) : 0;
-      const alarm = rng.chance(0.6) ? `ALM ${rng.int(100, 9999)} ${mode.toUpperCase()}` : null;
+      let alarm = rng.chance(0.6) ? `ALM ${rng.int(100, 9999)} ${mode.toUpperCase()}` : null;
+      // A Down now is told by its board note, so the board and its open ticket tell one story.
+      const problem = stretch.end === null ? problemOf(stretch.intervals[0].note) : null;
+      if (problem) alarm = null;
+      const what = problem ?? mode;
       const { row, engineer } = base(tool, stretch.start, {
-        category: categoryFor(mode),
-        title: `${tool.name} stopped: ${mode.toLowerCase()}`,
-        description: `${tool.name} stopped during a run. ${alarm ? 'The alarm text is shown on the screen.' : 'No alarm text on the screen.'} (Demo data, invented.)`,
+        category: categoryFor(what),
+        title: `${tool.name} stopped: ${lowerFirst(what)}`,
+        description: `${tool.name} stopped during a run${problem ? `: ${lowerFirst(problem)}` : ''}. ${alarm ? 'The alarm text is shown on the screen.' : 'No alarm text on the screen.'} (Demo data, invented.)`,
         impact: 'tool_stopped',
         wafers,
         alarm,
@@ -318,7 +339,15 @@ export async function seedTickets(
       for (const iv of stretch.intervals.slice(1)) {
         const wait = WAIT_OF(iv.reason);
         if (wait) {
-          setStatus(row, engineer.id, 'waiting', iv.startedAt, { action: 'wait', waitReason: wait });
+          // The wait says what the board says: its note and its expected return.
+          setStatus(
+            row,
+            engineer.id,
+            'waiting',
+            iv.startedAt,
+            { action: 'wait', waitReason: wait, expectedReturnAt: iv.expectedReturnAt?.toISOString() ?? null },
+            iv.note,
+          );
           row.waitReason = wait;
         } else if (row.status === 'waiting') {
           setStatus(row, engineer.id, 'in_repair', iv.startedAt, { action: 'resume' });
@@ -326,11 +355,16 @@ export async function seedTickets(
         }
       }
       if (openNow) {
+        const last = stretch.intervals[stretch.intervals.length - 1];
         if (WAIT_OF(lastReason) && row.status !== 'waiting') {
-          setStatus(row, engineer.id, 'waiting', stretch.intervals[stretch.intervals.length - 1].startedAt, {
-            action: 'wait',
-            waitReason: WAIT_OF(lastReason),
-          });
+          setStatus(
+            row,
+            engineer.id,
+            'waiting',
+            new Date(Math.max(last.startedAt.getTime(), repairAt.getTime())),
+            { action: 'wait', waitReason: WAIT_OF(lastReason), expectedReturnAt: last.expectedReturnAt?.toISOString() ?? null },
+            last.note,
+          );
           row.waitReason = WAIT_OF(lastReason)!;
         }
         continue;
@@ -423,34 +457,52 @@ export async function seedTickets(
     }
 
     // ---- What is Limited right now: a module down, or a restriction in force -------------
-    for (const iv of intervals.filter(
-      (x) => x.toolId === tool.id && x.moduleId !== null && x.endedAt === null && x.state === 'unscheduled_downtime',
-    )) {
-      const mod = modules.find((m) => m.id === iv.moduleId);
-      const mode = rng.pick(modes);
-      const { row, engineer } = base(tool, iv.startedAt, {
-        category: categoryFor(mode),
-        title: `${mod?.name ?? 'A module'} down: ${mode.toLowerCase()}`,
-        description: `${mod?.name ?? 'One module'} stopped; the rest of the tool still runs. (Demo data, invented.)`,
+    for (const mod of modules.filter((m) => m.toolId === tool.id)) {
+      const stretch = downtimeStretches(intervals.filter((iv) => iv.toolId === tool.id && iv.moduleId === mod.id)).find(
+        (x) => x.end === null,
+      );
+      if (!stretch) continue;
+      const what = problemOf(stretch.intervals[0].note) ?? rng.pick(modes);
+      const { row, engineer } = base(tool, stretch.start, {
+        category: categoryFor(what),
+        title: `${mod.name} down: ${lowerFirst(what)}`,
+        description: `${mod.name} stopped: ${lowerFirst(what)}. The rest of the tool still runs. (Demo data, invented.)`,
         impact: 'tool_limited',
         wafers: 0,
-        moduleId: iv.moduleId,
+        moduleId: mod.id,
       });
-      links.set(iv.id, row.id);
-      const ack = clampTo(new Date(iv.startedAt.getTime() + rng.int(5, 45) * MINUTE), now);
+      for (const iv of stretch.intervals) links.set(iv.id, row.id);
+      const ack = clampTo(new Date(stretch.start.getTime() + rng.int(5, 45) * MINUTE), now);
       setStatus(row, engineer.id, 'acknowledged', ack, { action: 'acknowledge' });
       row.acknowledgedAt = ack;
+      const last = stretch.intervals[stretch.intervals.length - 1];
+      const wait = WAIT_OF(last.reason);
+      if (wait) {
+        const repairAt = clampTo(new Date(ack.getTime() + rng.int(2, 30) * MINUTE), now);
+        setStatus(row, engineer.id, 'in_repair', repairAt, { action: 'start_repair' });
+        setStatus(
+          row,
+          engineer.id,
+          'waiting',
+          new Date(Math.max(last.startedAt.getTime(), repairAt.getTime())),
+          { action: 'wait', waitReason: wait, expectedReturnAt: last.expectedReturnAt?.toISOString() ?? null },
+          last.note,
+        );
+        row.waitReason = wait;
+      }
     }
     const restricted = own.find((iv) => iv.endedAt === null && (iv as StateInterval & { restriction?: string | null }).restriction);
     if (restricted) {
-      const note = (restricted as StateInterval & { restriction?: string | null }).restriction!;
-      base(tool, restricted.startedAt, {
+      const restriction = (restricted as StateInterval & { restriction?: string | null }).restriction!;
+      const why = restricted.note ? `${upperFirst(restricted.note)}: ` : '';
+      const { row } = base(tool, restricted.startedAt, {
         category: 'process_out_of_spec',
-        title: `Runs with a restriction: ${note}`.slice(0, 120),
-        description: `${note}. (Demo data, invented.)`,
+        title: `${why}runs with a restriction, ${lowerFirst(restriction)}`.slice(0, 120),
+        description: `${why}${restriction}. (Demo data, invented.)`,
         impact: 'tool_limited',
         wafers: 0,
       });
+      links.set(restricted.id, row.id);
     }
   }
 

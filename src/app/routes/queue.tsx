@@ -6,6 +6,8 @@ import { PageSpinner } from '@/components/ui/spinner';
 import { QueueFilters } from '@/features/queue/components/queue-filters';
 import { QueuePager } from '@/features/queue/components/queue-pager';
 import { QUEUE_PAGE_SIZE, useQueueFilters } from '@/features/queue/hooks/use-queue-filters';
+import { useMemo } from 'react';
+import { useBoard } from '@/features/board/api/get-board';
 import { useTickets } from '@/features/tickets/api/get-tickets';
 import { TicketTable } from '@/features/tickets/components/ticket-table';
 
@@ -14,6 +16,13 @@ export function QueuePage() {
   const { filters, positionKnown, update, clear } = useQueueFilters();
   const list = useTickets(filters);
   const total = list.data?.total ?? 0;
+  // The tools' states come from the live board (already cached and kept current by the socket),
+  // so each row names its tool's state in the board's words with the E10 state beside it.
+  const board = useBoard();
+  const toolStates = useMemo(
+    () => new Map(board.data?.areas.flatMap((a) => a.tools.map((t) => [t.id, { status: t.status, state: t.state }] as const)) ?? []),
+    [board.data],
+  );
 
   return (
     <>
@@ -42,7 +51,9 @@ export function QueuePage() {
                 ? 'Nothing here. No ticket matches these filters.'
                 : `${total.toLocaleString('en')}${list.data.totalCapped ? '+' : ''} ticket${total === 1 ? '' : 's'}`}
             </p>
-            {list.data.items.length > 0 && <TicketTable items={list.data.items} caption="Queue, most urgent first" showTargets />}
+            {list.data.items.length > 0 && (
+              <TicketTable items={list.data.items} caption="Queue, most urgent first" showTargets toolStates={toolStates} />
+            )}
             <QueuePager list={list.data} pageSize={QUEUE_PAGE_SIZE} positionKnown={positionKnown} navigate={update} />
           </Card>
         )}

@@ -5,6 +5,7 @@ import { PageSpinner } from '@/components/ui/spinner';
 import { isApiError } from '@/lib/api-client';
 import { useTicket } from '@/features/tickets/api/get-ticket';
 import { TicketView } from '@/features/tickets/components/ticket-view';
+import { TicketPrint } from '@/features/tickets/components/ticket-print-sheet';
 import { useTicketRoom } from '@/app/realtime';
 import { TicketAlarmPanel } from '@/features/alarms/components/ticket-alarm-panel';
 import { hasRole } from '@shared/roles';
@@ -39,28 +40,32 @@ export function TicketPage() {
   return (
     <>
       <title>{`#${ticket.data.id} ${ticket.data.title} · Faultline`}</title>
-      {just && (
-        <Alert
-          tone="success"
-          live
-          title={just === 'new' ? 'Thank you — your report is in' : 'Thank you — your report was added'}
-          className="mb-6"
-        >
-          The technicians have been told. You will get an e-mail when something changes.
-        </Alert>
-      )}
-      <TicketView ticket={ticket.data} />
-      <div className="mt-6">
-        <TicketAlarmPanel
-          ticketId={ticket.data.id}
-          enabled={ticket.data.viewer.role !== 'member' && ticket.data.events.some((e) => e.kind === 'alarm_reported')}
-        />
-      </div>
-      {staff && (
+      <TicketPrint ticket={ticket.data} />
+      {/* Paper gets the work sheet above; everything else on the page stays on screen. */}
+      <div className="print:hidden">
+        {just && (
+          <Alert
+            tone="success"
+            live
+            title={just === 'new' ? 'Thank you — your report is in' : 'Thank you — your report was added'}
+            className="mb-6"
+          >
+            The technicians have been told. You will get an e-mail when something changes.
+          </Alert>
+        )}
+        <TicketView ticket={ticket.data} />
         <div className="mt-6">
-          <TicketMaintenance ticketId={ticket.data.id} toolId={ticket.data.tool.id} />
+          <TicketAlarmPanel
+            ticketId={ticket.data.id}
+            enabled={ticket.data.viewer.role !== 'member' && ticket.data.events.some((e) => e.kind === 'alarm_reported')}
+          />
         </div>
-      )}
+        {staff && (
+          <div className="mt-6">
+            <TicketMaintenance ticketId={ticket.data.id} toolId={ticket.data.tool.id} />
+          </div>
+        )}
+      </div>
     </>
   );
 }

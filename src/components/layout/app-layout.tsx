@@ -45,7 +45,7 @@ export function AppLayout({ user, onSignOut, signingOut = false, signOutError, r
         Skip to content
       </a>
 
-      <header className="border-b border-line bg-card amber:border-b-2">
+      <header className="border-b border-line bg-card amber:border-b-2 print:hidden">
         <div className="mx-auto flex h-16 max-w-7xl items-center gap-3 px-4 sm:px-6">
           <Link to="/" className="-mx-1 inline-flex min-h-11 items-center rounded-md px-1 no-underline" aria-label="Faultline, home">
             <Wordmark />
@@ -136,11 +136,15 @@ export function AppLayout({ user, onSignOut, signingOut = false, signOutError, r
         </div>
       )}
 
-      <main id="main" tabIndex={-1} className="mx-auto w-full max-w-7xl flex-1 px-4 py-6 focus:outline-none sm:px-6 sm:py-8">
+      <main
+        id="main"
+        tabIndex={-1}
+        className="mx-auto w-full max-w-7xl flex-1 px-4 py-6 focus:outline-none sm:px-6 sm:py-8 print:max-w-none print:p-0"
+      >
         {children}
       </main>
 
-      <footer className="border-t border-line">
+      <footer className="border-t border-line print:hidden">
         <p className="mx-auto max-w-7xl px-4 py-4 text-xs text-muted sm:px-6">
           Faultline records and notifies. It does not replace the facility&rsquo;s alarms, emergency procedures or trained staff.
         </p>

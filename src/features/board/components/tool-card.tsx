@@ -1,5 +1,5 @@
 import { Link } from 'react-router';
-import { BOARD_LABELS, REASON_LABELS } from '@shared/equipment-state';
+import { BOARD_LABELS, E10_LABELS, REASON_LABELS } from '@shared/equipment-state';
 import type { BoardTool } from '@shared/schemas/facility';
 import { RelativeTime } from '@/components/ui/relative-time';
 import { StateBadge } from '@/components/ui/state-badge';
@@ -48,7 +48,13 @@ export function ToolCard({ tool }: { tool: BoardTool }) {
             <span className="block font-mono text-xs font-normal text-muted">{tool.code}</span>
           </Link>
         </div>
-        <StateBadge status={tool.status} label={reported ? `${BOARD_LABELS[tool.status]} · reported` : undefined} />
+        {/* The board word leads; the E10 state sits beside it (one vocabulary everywhere). */}
+        <span className="flex shrink-0 flex-col items-end gap-1">
+          <StateBadge status={tool.status} label={reported ? `${BOARD_LABELS[tool.status]} · reported` : undefined} />
+          <span className="text-xs text-muted" data-testid="state-e10">
+            {E10_LABELS[tool.state]}
+          </span>
+        </span>
       </div>
 
       {why && <p className="line-clamp-3 text-sm text-ink">{why}</p>}

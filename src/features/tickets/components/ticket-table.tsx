@@ -2,7 +2,9 @@ import { Link } from 'react-router';
 import type { TicketSummary } from '@shared/schemas/tickets';
 import { WAIT_REASON_LABELS } from '@shared/report-options';
 import { isOpenStatus } from '@shared/ticket-workflow';
+import type { BoardStatus, E10State } from '@shared/equipment-state';
 import { RelativeTime } from '@/components/ui/relative-time';
+import { StateName } from '@/components/ui/state-name';
 import { HazardChips, PriorityBadge, TicketStatusBadge } from '@/features/tickets/components/ticket-chips';
 import { TargetClock } from '@/features/tickets/components/target-clock';
 
@@ -13,6 +15,8 @@ export interface TicketTableProps {
   showTool?: boolean;
   /** Show the service-target timers (the queue); lists of past tickets leave them out. */
   showTargets?: boolean;
+  /** The tool's current state per tool id, where the page knows it (the queue reads the board). */
+  toolStates?: ReadonlyMap<number, { status: BoardStatus; state: E10State }>;
 }
 
 function TicketLink({ t }: { t: TicketSummary }) {
@@ -34,11 +38,17 @@ function Targets({ t }: { t: TicketSummary }) {
   );
 }
 
+function ToolState({ t, toolStates }: { t: TicketSummary; toolStates?: TicketTableProps['toolStates'] }) {
+  const s = toolStates?.get(t.tool.id);
+  if (!s) return null;
+  return <StateName state={s.state} status={s.status} className="mt-1" />;
+}
+
 /**
  * Tickets as a table on wide screens and as stacked cards on phones: the same rows, the
  * same order, the ticket link always the first thing to tap.
  */
-export function TicketTable({ items, caption, showTool = true, showTargets = false }: TicketTableProps) {
+export function TicketTable({ items, caption, showTool = true, showTargets = false, toolStates }: TicketTableProps) {
   return (
     <>
       <table className="hidden w-full border-collapse text-left text-sm md:table" data-testid="ticket-table">
@@ -87,6 +97,7 @@ export function TicketTable({ items, caption, showTool = true, showTargets = fal
                   <span className="block font-mono text-xs text-muted">{t.tool.code}</span>
                   <span className="block text-ink">{t.tool.name}</span>
                   {t.module && <span className="block text-xs text-muted">{t.module.name}</span>}
+                  <ToolState t={t} toolStates={toolStates} />
                 </td>
               )}
               <td className="px-3 py-3">
@@ -127,6 +138,7 @@ export function TicketTable({ items, caption, showTool = true, showTargets = fal
                 {t.module && ` · ${t.module.name}`}
               </p>
             )}
+            {showTool && <ToolState t={t} toolStates={toolStates} />}
             <p className="text-sm text-muted">
               {t.assignee ? `Assigned to ${t.assignee.name}` : 'Not assigned yet'}
               {t.status === 'waiting' && t.waitReason ? ` · ${WAIT_REASON_LABELS[t.waitReason]}` : ''}

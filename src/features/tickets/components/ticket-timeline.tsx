@@ -1,5 +1,5 @@
 import { useState, type ReactNode } from 'react';
-import { BOARD_LABELS, E10_LABELS, REASON_LABELS, boardStatusOf, type E10State, type StateReason } from '@shared/equipment-state';
+import { stateWords, type E10State, type StateReason } from '@shared/equipment-state';
 import {
   CATEGORY_LABELS,
   FIX_KIND_LABELS,
@@ -16,7 +16,7 @@ import { STATUS_LABELS, type TicketStatus } from '@shared/ticket-workflow';
 import { WAFER_RECOVERABLE_LABELS, type TicketEventView, type WaferRecoverable } from '@shared/schemas/tickets';
 import { Button } from '@/components/ui/button';
 import { RelativeTime } from '@/components/ui/relative-time';
-import { StateBadge } from '@/components/ui/state-badge';
+import { StateName } from '@/components/ui/state-name';
 import { cx } from '@/lib/cx';
 import { useOlderTicketEvents } from '@/features/tickets/api/get-ticket-events';
 
@@ -32,15 +32,7 @@ function who(e: TicketEventView) {
 }
 
 function StateWord({ state, reason }: { state: E10State; reason?: StateReason }) {
-  return (
-    <span className="inline-flex flex-wrap items-center gap-1.5">
-      <StateBadge status={boardStatusOf(state)} size="sm" />
-      <span className="text-muted">
-        {E10_LABELS[state]}
-        {reason && reason !== 'none' ? ` · ${REASON_LABELS[reason]}` : ''}
-      </span>
-    </span>
-  );
+  return <StateName state={state} reason={reason} />;
 }
 
 /** Label–value pairs under an event; nothing when there are none. */
@@ -203,7 +195,8 @@ export function TicketTimeline({ ticketId, events, olderEvents, modules }: Ticke
   );
 }
 
-function EventList({ events, modules }: { events: TicketEventView[]; modules: ModuleName[] }) {
+/** The events as a list; the print sheet shows them with the photos loaded at once. */
+export function EventList({ events, modules, eager = false }: { events: TicketEventView[]; modules: ModuleName[]; eager?: boolean }) {
   return (
     <ol className="relative flex flex-col gap-0" aria-label="Timeline" data-testid="timeline">
       {events.map((e, i) => {
@@ -239,7 +232,7 @@ function EventList({ events, modules }: { events: TicketEventView[]; modules: Mo
                           width={Math.round((p.width / Math.max(p.width, p.height)) * 112)}
                           height={Math.round((p.height / Math.max(p.width, p.height)) * 112)}
                           className="h-28 w-auto object-cover"
-                          loading="lazy"
+                          loading={eager ? 'eager' : 'lazy'}
                         />
                       </a>
                     </li>
@@ -254,7 +247,7 @@ function EventList({ events, modules }: { events: TicketEventView[]; modules: Mo
               )}
               {e.kind === 'tool_state' && d.from && (
                 <p className="mt-1 text-xs text-muted" data-testid="state-before">
-                  Before: {BOARD_LABELS[boardStatusOf(d.from.state as E10State)]} ({E10_LABELS[d.from.state as E10State]})
+                  Before: {stateWords(d.from.state as E10State)}
                 </p>
               )}
             </div>

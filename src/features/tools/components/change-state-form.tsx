@@ -5,6 +5,7 @@ import {
   REASONS_BY_STATE,
   REASON_LABELS,
   boardStatusOf,
+  stateWords,
   type E10State,
   type StateReason,
 } from '@shared/equipment-state';
@@ -93,7 +94,7 @@ export function ChangeStateForm({ toolId, modules, onDone }: ChangeStateFormProp
     mutation.mutate(checked.data, {
       onSuccess: (answer) => {
         const what = target === 'tool' ? 'The tool' : (modules.find((m) => String(m.id) === target)?.name ?? 'The module');
-        setDone(`${what} is now ${E10_LABELS[state].toLowerCase()}. The tool reads ${BOARD_LABELS[answer.tool.status]} on the board.`);
+        setDone(`${what} is now ${stateWords(state)}. The tool reads ${BOARD_LABELS[answer.tool.status]} on the board.`);
         setNote('');
         setRestriction('');
         setReturnAt('');

@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { BOARD_LABELS, E10_LABELS, REASON_LABELS, boardStatusOf } from '@shared/equipment-state';
+import { E10_LABELS, REASON_LABELS, boardStatusOf, stateWords } from '@shared/equipment-state';
 import type { HistoryEntry } from '@shared/schemas/facility';
 import { Alert } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
@@ -37,11 +37,7 @@ function Entry({ entry }: { entry: HistoryEntry }) {
             {entry.moduleName ? `${entry.moduleName}: ` : ''}
             {E10_LABELS[entry.state]}
           </span>
-          {entry.previousState && (
-            <span className="text-sm text-muted">
-              from {E10_LABELS[entry.previousState].toLowerCase()} ({BOARD_LABELS[boardStatusOf(entry.previousState)]})
-            </span>
-          )}
+          {entry.previousState && <span className="text-sm text-muted">from {stateWords(entry.previousState)}</span>}
         </div>
         {(entry.note || entry.reason !== 'none') && (
           <p className="mt-1 text-sm text-ink">
