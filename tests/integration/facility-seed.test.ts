@@ -23,13 +23,12 @@ afterAll(() => sequelize.close());
 
 class Rollback extends Error {}
 
-async function seededThenRolledBack<T>(now: Date, inspect: (seed: FacilitySeed, t: Transaction, ms: number) => Promise<T>): Promise<T> {
+async function seededThenRolledBack<T>(now: Date, inspect: (seed: FacilitySeed, t: Transaction) => Promise<T>): Promise<T> {
   let out: T | undefined;
   await sequelize
     .transaction(async (t) => {
-      const started = Date.now();
       const seed = await seedFacility(t, { staff, members }, now);
-      out = await inspect(seed, t, Date.now() - started);
+      out = await inspect(seed, t);
       throw new Rollback();
     })
     .catch((e) => {
@@ -42,10 +41,9 @@ const rows = <T extends object>(t: Transaction, sql: string, replacements: Recor
   sequelize.query<T>(sql, { type: QueryTypes.SELECT, transaction: t, replacements });
 
 describe('the demo facility seed', () => {
-  it('when seeded, then about 40 tools in 6 areas get a gap-free year of history within seconds, with some tools in trouble now', async () => {
+  it('when seeded, then 40 tools in 6 areas get a gap-free year of history, with some tools in trouble now', async () => {
     const now = new Date('2026-06-15T10:00:00.000Z');
-    await seededThenRolledBack(now, async (seed, t, ms) => {
-      expect(ms).toBeLessThan(5000);
+    await seededThenRolledBack(now, async (seed, t) => {
       expect(seed.areas).toHaveLength(6);
       expect(seed.tools).toHaveLength(40);
       expect(seed.facilityName).toMatch(/fictional/);
