@@ -20,6 +20,7 @@ step() { # name, command...
 
 step typecheck npx tsc -p tsconfig.json --noEmit
 step lint npx eslint . --max-warnings=0
+step format npx prettier --check . --log-level warn
 step build node_modules/.bin/vite build --logLevel error
 
 echo "• vitest (unit, reference, integration, browser)…"

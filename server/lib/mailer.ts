@@ -1,6 +1,6 @@
 import nodemailer, { type Transporter } from 'nodemailer';
 import { Op, type Transaction } from 'sequelize';
-import { OutboxMail } from '../modules/mail/outbox.model';
+import { OutboxMail } from './outbox.model';
 import type { Config } from '../config';
 import type { Logger } from './logger';
 

@@ -1,5 +1,5 @@
 import type { RequestHandler } from 'express';
-import { Throttle } from '../modules/auth/session.model';
+import { Throttle } from './throttle.model';
 import { AppError } from './errors';
 import { securityLog, type Logger } from './logger';
 

@@ -113,41 +113,52 @@ export const RETURN_TIME_SLACK_MS = 60_000;
 
 const RUNNING_STATES: readonly E10State[] = ['productive', 'standby'];
 
+/**
+ * The fields of a state change, wherever it is asked for: the tool page and a ticket's "set tool
+ * state" both spread these and refine with checkStateChange, so both refuse the same input
+ * with the same field messages.
+ */
+export const stateChangeFields = {
+  /** null or absent: the tool itself; otherwise one of its modules. */
+  moduleId: z.number().int().positive().nullable().optional(),
+  state: z.enum(E10_STATES, { error: 'Choose one of the states.' }),
+  reason: z.enum(STATE_REASONS).optional(),
+  /** What people at the tool should know: why, and what to do meanwhile. */
+  note: plainText().trim().max(500, 'Use at most 500 characters.').nullable().optional(),
+  restriction: plainText().trim().max(200, 'Use at most 200 characters.').nullable().optional(),
+  expectedReturnAt: isoInstant('Give the time as a date and time.').nullable().optional(),
+};
+
+export type StateChangeFields = z.infer<z.ZodObject<typeof stateChangeFields>>;
+
+/** A note is required unless the tool runs; no restriction unless it runs; no return time in the past. */
+export function checkStateChange(v: StateChangeFields, ctx: z.RefinementCtx) {
+  const running = RUNNING_STATES.includes(v.state);
+  if (v.reason && !isReasonAllowed(v.state, v.reason)) {
+    ctx.addIssue({ code: 'custom', path: ['reason'], message: 'That reason does not fit that state.' });
+  }
+  if (!running && !v.note?.trim()) {
+    ctx.addIssue({ code: 'custom', path: ['note'], message: 'Say why, so people at the tool know what is going on.' });
+  }
+  if (v.restriction && !running) {
+    ctx.addIssue({ code: 'custom', path: ['restriction'], message: 'A restriction applies only while the tool runs.' });
+  }
+  if (v.expectedReturnAt) {
+    if (running) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['expectedReturnAt'],
+        message: 'An expected return time fits only a state in which it is not running.',
+      });
+    } else if (Date.parse(v.expectedReturnAt) < Date.now() - RETURN_TIME_SLACK_MS) {
+      ctx.addIssue({ code: 'custom', path: ['expectedReturnAt'], message: 'The expected return time is in the past.' });
+    }
+  }
+}
+
 export const stateChangeSchema = z
-  .strictObject({
-    /** null or absent: the tool itself; otherwise one of its modules. */
-    moduleId: z.number().int().positive().nullable().optional(),
-    state: z.enum(E10_STATES, { error: 'Choose one of the states.' }),
-    reason: z.enum(STATE_REASONS).optional(),
-    /** What people at the tool should know: why, and what to do meanwhile. */
-    note: plainText().trim().max(500, 'Use at most 500 characters.').nullable().optional(),
-    restriction: plainText().trim().max(200, 'Use at most 200 characters.').nullable().optional(),
-    expectedReturnAt: isoInstant('Give the time as a date and time.').nullable().optional(),
-    ticketId: z.number().int().positive().nullable().optional(),
-  })
-  .superRefine((v, ctx) => {
-    const running = RUNNING_STATES.includes(v.state);
-    if (v.reason && !isReasonAllowed(v.state, v.reason)) {
-      ctx.addIssue({ code: 'custom', path: ['reason'], message: 'That reason does not fit that state.' });
-    }
-    if (!running && !v.note?.trim()) {
-      ctx.addIssue({ code: 'custom', path: ['note'], message: 'Say why, so people at the tool know what is going on.' });
-    }
-    if (v.restriction && !running) {
-      ctx.addIssue({ code: 'custom', path: ['restriction'], message: 'A restriction applies only while the tool runs.' });
-    }
-    if (v.expectedReturnAt) {
-      if (running) {
-        ctx.addIssue({
-          code: 'custom',
-          path: ['expectedReturnAt'],
-          message: 'An expected return time fits only a state in which it is not running.',
-        });
-      } else if (Date.parse(v.expectedReturnAt) < Date.now() - RETURN_TIME_SLACK_MS) {
-        ctx.addIssue({ code: 'custom', path: ['expectedReturnAt'], message: 'The expected return time is in the past.' });
-      }
-    }
-  });
+  .strictObject({ ...stateChangeFields, ticketId: z.number().int().positive().nullable().optional() })
+  .superRefine(checkStateChange);
 
 export type StateChangeInput = z.infer<typeof stateChangeSchema>;
 
@@ -244,6 +255,9 @@ export interface AvailabilityFigure {
   byState: Record<E10State, number>;
 }
 
+/** What a user may do on the tool page; the tool detail sends the allowed ones. */
+export type ToolAction = 'change_state';
+
 export interface ToolDetail extends BoardTool {
   description: string | null;
   area: { id: number; code: string; name: string };
@@ -254,6 +268,7 @@ export interface ToolDetail extends BoardTool {
   following: boolean;
   availability30d: AvailabilityFigure;
   setBy: { id: number; name: string } | null;
+  allowedActions: ToolAction[];
 }
 
 export interface HistoryEntry {

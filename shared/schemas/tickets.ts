@@ -14,7 +14,8 @@ import {
 } from '../report-options';
 import { PRIORITIES, type Priority, type TargetStatus } from '../priority';
 import { TICKET_STATUSES, type TicketAction, type TicketStatus } from '../ticket-workflow';
-import { E10_STATES, STATE_REASONS, type E10State, type StateReason } from '../equipment-state';
+import type { E10State, StateReason } from '../equipment-state';
+import { checkStateChange, stateChangeFields } from './facility';
 import type { Role } from '../roles';
 
 // Inputs and outputs of the tickets API, shared by the report form, the queue, the ticket
@@ -128,16 +129,6 @@ export type CommentInput = z.input<typeof commentInputSchema>;
 
 const version = z.number({ error: 'The version you read is required.' }).int().min(0);
 
-const stateTarget = {
-  /** null: the tool itself; otherwise one of its modules. */
-  moduleId: z
-    .number()
-    .int()
-    .positive()
-    .nullish()
-    .transform((v) => v ?? null),
-};
-
 /**
  * Every change to a ticket goes through one endpoint with one of these bodies. Each carries
  * the `version` the client read; a stale one is refused with 409 and the current ticket.
@@ -152,17 +143,7 @@ export const ticketActionSchema = z.discriminatedUnion('action', [
     priority: z.enum(PRIORITIES),
     reason: text(500).min(3, 'Say why the priority changes.'),
   }),
-  z.strictObject({
-    action: z.literal('set_state'),
-    version,
-    ...stateTarget,
-    state: z.enum(E10_STATES),
-    reason: z.enum(STATE_REASONS).optional(),
-    note: optionalText(500),
-    expectedReturnAt: isoInstant()
-      .nullish()
-      .transform((v) => (v ? new Date(v) : null)),
-  }),
+  z.strictObject({ action: z.literal('set_state'), version, ...stateChangeFields }).superRefine(checkStateChange),
   z.strictObject({ action: z.literal('confirm_down'), version }),
   z.strictObject({ action: z.literal('revert_down'), version, note: optionalText(500) }),
   z.strictObject({

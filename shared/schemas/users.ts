@@ -28,3 +28,7 @@ export const updateUserSchema = z
 
 export type InviteUserInput = z.infer<typeof inviteUserSchema>;
 export type UpdateUserInput = z.infer<typeof updateUserSchema>;
+
+/** What an administrator may do to an account; the user list sends the allowed ones per person. */
+export const USER_ACTIONS = ['rename', 'change_role', 'set_on_call', 'disable', 'enable'] as const;
+export type UserAction = (typeof USER_ACTIONS)[number];

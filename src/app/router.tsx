@@ -36,9 +36,7 @@ export const router = createBrowserRouter([
             children: [
               { index: true, lazy: () => import('@/app/routes/home') },
 
-              // ---- Feature routes: one line each, lazy-loaded; add the page's NAV_ITEMS entry as ready ----
-              // Open to every signed-in user. Example shape:
-              //   { path: 'board', lazy: () => import('@/app/routes/board') },
+              // Open to every signed-in user.
               { path: 'board', lazy: () => import('@/app/routes/board') },
               { path: 'tools/:code', lazy: () => import('@/app/routes/tools/tool-page') },
               { path: 'report', lazy: () => import('@/app/routes/report') },
@@ -58,8 +56,7 @@ export const router = createBrowserRouter([
                   { path: 'admin/settings', lazy: () => import('@/app/routes/admin/facility-settings') },
                 ],
               },
-              // Pages for technicians or managers go in their own group, like the admin one:
-              //   { element: <RoleGate minimum="technician" />, children: [ ...one line per page... ] },
+              // Technicians and up; managers and up.
               {
                 element: <RoleGate minimum="technician" />,
                 children: [{ path: 'labels', lazy: () => import('@/app/routes/tools/labels') }],

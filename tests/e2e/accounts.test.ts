@@ -6,7 +6,7 @@ import { launchBrowser, screenshot, signInThroughPage, VIEWPORTS } from '../supp
 import { TestClient } from '../support/client';
 import { createUser, TEST_PASSWORD, unique } from '../support/factories';
 import { User } from '../../server/modules/users/user.model';
-import { Throttle } from '../../server/modules/auth/session.model';
+import { Throttle } from '../../server/lib/throttle.model';
 import { hashPassword } from '../../server/modules/users/password';
 import type { Role } from '../../shared/roles';
 

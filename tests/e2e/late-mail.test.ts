@@ -3,7 +3,7 @@ import type { Browser } from 'playwright-core';
 import { startTestServer, drainOutbox, type TestServer } from '../support/server';
 import { launchBrowser, screenshot, signInThroughPage, VIEWPORTS } from '../support/browser';
 import { createUser, TEST_PASSWORD, unique } from '../support/factories';
-import { OutboxMail } from '../../server/modules/mail/outbox.model';
+import { OutboxMail } from '../../server/lib/outbox.model';
 import { queueMail } from '../../server/lib/mailer';
 
 let server: TestServer;

@@ -3,9 +3,11 @@ import { Op } from 'sequelize';
 import { drainOutbox, startTestServer, type TestServer } from '../support/server';
 import { TestClient } from '../support/client';
 import { createUser, signedInClient, unique } from '../support/factories';
-import { AccountMailRequest, PasswordReset, User } from '../../server/modules/users/user.model';
-import { SessionRow, Throttle } from '../../server/modules/auth/session.model';
-import { OutboxMail } from '../../server/modules/mail/outbox.model';
+import { User } from '../../server/modules/users/user.model';
+import { AccountMailRequest, PasswordReset } from '../../server/modules/auth/account-link.model';
+import { SessionRow } from '../../server/modules/auth/session.model';
+import { Throttle } from '../../server/lib/throttle.model';
+import { OutboxMail } from '../../server/lib/outbox.model';
 
 // Reset, invitation and sign-in links: single use under a race, one use voids the others, and
 // asking for one costs the same whether or not the address has an account.

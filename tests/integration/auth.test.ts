@@ -3,7 +3,8 @@ import { Op } from 'sequelize';
 import { startTestServer, type TestServer } from '../support/server';
 import { TestClient } from '../support/client';
 import { createUser, signedInClient, TEST_PASSWORD } from '../support/factories';
-import { SessionRow, Throttle } from '../../server/modules/auth/session.model';
+import { SessionRow } from '../../server/modules/auth/session.model';
+import { Throttle } from '../../server/lib/throttle.model';
 
 let server: TestServer;
 

@@ -153,10 +153,8 @@ describe('the status board', () => {
         socket.on('board.tool_changed', (p: BoardToolChange) => p.tool.id === tool.id && resolve(p)),
       );
       await changeState(server.deps, { toolId: tool.id, state: 'engineering', note: 'Recipe work', actorId: null });
-      const payload = await Promise.race([
-        heard,
-        new Promise<never>((_, reject) => setTimeout(() => reject(new Error('no event within 3 s')), 3000)),
-      ]);
+      // How fast it arrives is measured by `npm run bench -- state-events`, not here.
+      const payload = await heard;
       expect(payload.tool).toMatchObject({ id: tool.id, state: 'engineering', status: 'engineering', note: 'Recipe work' });
     } finally {
       socket.disconnect();

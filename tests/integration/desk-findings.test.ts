@@ -6,7 +6,7 @@ import { Ticket, TicketEvent } from '../../server/modules/tickets/ticket.model';
 import { User } from '../../server/modules/users/user.model';
 import { Area } from '../../server/modules/facility/facility.model';
 import { Notice } from '../../server/modules/notices/notice.model';
-import { OutboxMail } from '../../server/modules/mail/outbox.model';
+import { OutboxMail } from '../../server/lib/outbox.model';
 import { GENERIC_CAUTIONS, HAZARD_FIRST_STEPS, LIMITS_CAUTION } from '../../shared/hazard-cautions';
 import { createTool, drainOutbox, fileReport, jpegBytes, multipartReport, openState, reportBody } from './tickets-fixtures';
 

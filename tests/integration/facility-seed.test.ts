@@ -41,9 +41,8 @@ const rows = <T extends object>(t: Transaction, sql: string, replacements: Recor
   sequelize.query<T>(sql, { type: QueryTypes.SELECT, transaction: t, replacements });
 
 describe('the demo facility seed', () => {
-  it('when seeded, then about 40 tools in 6 areas get a gap-free year of history, with some tools in trouble now', async () => {
+  it('when seeded, then 40 tools in 6 areas get a gap-free year of history, with some tools in trouble now', async () => {
     const now = new Date('2026-06-15T10:00:00.000Z');
-    // How long seeding takes is for the benchmark, not for a test on a shared machine.
     await seededThenRolledBack(now, async (seed, t) => {
       expect(seed.areas).toHaveLength(6);
       expect(seed.tools).toHaveLength(40);

@@ -5,7 +5,7 @@ import { createUser, signedInClient } from '../support/factories';
 import { changeState } from '../../server/modules/facility/state.service';
 import { ToolFollow } from '../../server/modules/facility/facility.model';
 import { Notice } from '../../server/modules/notices/notice.model';
-import { OutboxMail } from '../../server/modules/mail/outbox.model';
+import { OutboxMail } from '../../server/lib/outbox.model';
 import type { DomainEvent } from '../../server/lib/events';
 import { makeTool } from './facility-fixtures';
 

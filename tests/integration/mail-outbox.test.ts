@@ -3,8 +3,8 @@ import { startTestServer, drainOutbox, type TestServer } from '../support/server
 import { TestClient } from '../support/client';
 import { createUser, signedInClient } from '../support/factories';
 import { Op } from 'sequelize';
-import { OutboxMail } from '../../server/modules/mail/outbox.model';
-import { Throttle } from '../../server/modules/auth/session.model';
+import { OutboxMail } from '../../server/lib/outbox.model';
+import { Throttle } from '../../server/lib/throttle.model';
 import { Notice } from '../../server/modules/notices/notice.model';
 import { createTransport, OutboxWorker, queueMail } from '../../server/lib/mailer';
 

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { drainOutbox, startTestServer, type TestServer } from '../support/server';
-import { OutboxMail } from '../../server/modules/mail/outbox.model';
+import { OutboxMail } from '../../server/lib/outbox.model';
 import { TestClient } from '../support/client';
 import { createUser, signedInClient, TEST_PASSWORD } from '../support/factories';
 

@@ -73,11 +73,6 @@ describe('ticket workflow: every (from, to, role) combination', () => {
     ),
   );
 
-  it('when the combinations are enumerated, then all 256 are covered', () => {
-    expect(cases).toHaveLength(ROLES.length * TICKET_STATUSES.length * TICKET_STATUSES.length);
-    expect(cases).toHaveLength(256);
-  });
-
   it.each(cases)('when a $role moves a ticket from $from to $to, then allowed is $allowed', ({ role, from, to, allowed }) => {
     const result = canTransition(from, to, ctx(role));
     expect(result.ok).toBe(allowed);
@@ -123,22 +118,7 @@ describe('ticket workflow: allowed actions per status', () => {
     expect(allowedActions(status, ctx('member', { isReporter: false }))).toEqual([]);
   });
 
-  it('when each action is taken, then it leads to the intended status', () => {
-    const expectedTargets: Record<TicketAction, TicketStatus> = {
-      acknowledge: 'acknowledged',
-      start_repair: 'in_repair',
-      wait: 'waiting',
-      resume: 'in_repair',
-      fix: 'fixed',
-      close: 'closed',
-      merge: 'merged',
-      no_fault_found: 'no_fault_found',
-      reopen: 'acknowledged',
-    };
-    for (const action of TICKET_ACTIONS) expect(ACTIONS[action].to).toBe(expectedTargets[action]);
-  });
-
-  it('when two actions could lead between the same two statuses, then the table is ambiguous and this fails', () => {
+  it('when any two statuses are given, then at most one action leads from the first to the second', () => {
     for (const from of TICKET_STATUSES) {
       for (const to of TICKET_STATUSES) {
         const matching = TICKET_ACTIONS.filter((a) => ACTIONS[a].to === to && ACTIONS[a].from.includes(from));

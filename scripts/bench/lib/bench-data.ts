@@ -35,8 +35,8 @@ export function benchConfig(overrides: Record<string, string> = {}) {
 
 const fmt = (d: Date) => d.toISOString().replace('T', ' ').replace('Z', '');
 
-/** Drops, recreates and fills faultline_bench; returns the display key and the row count. */
-export async function buildBenchFacility() {
+/** Drops and recreates faultline_bench with every migration and no rows; returns a connection to it. */
+export async function emptyBenchDatabase() {
   const config = benchConfig();
   const admin = createSequelize({ ...config, DB_NAME: 'information_schema' });
   await admin.query('DROP DATABASE IF EXISTS faultline_bench');
@@ -44,6 +44,12 @@ export async function buildBenchFacility() {
   await admin.close();
   const sequelize = createSequelize(config);
   await createMigrator(sequelize).up();
+  return sequelize;
+}
+
+/** Drops, recreates and fills faultline_bench; returns the display key and the row count. */
+export async function buildBenchFacility() {
+  const sequelize = await emptyBenchDatabase();
   const displayKey = crypto.randomBytes(32).toString('base64url');
   const started = Date.now();
   try {

@@ -49,8 +49,7 @@ import {
 } from './figures';
 import { monthSerial, planPeriod, type PeriodPlan, type Segment } from './period-plan';
 import { responseFigures } from './response-times';
-
-export type Scope = { kind: 'facility' } | { kind: 'area'; areaId: number } | { kind: 'tool'; toolId: number };
+import { scopeOf, scopeReplacements, scopeSql, type Scope } from './scope';
 
 type Replacements = Record<string, unknown>;
 
@@ -63,22 +62,6 @@ export const NOTES: AnalyticsReport['notes'] = {
   trend:
     'Rising failure rate: the reverse-arrangement test (95 %, one-sided) finds the gaps between failure starts shrinking. Needs at least four failures in the period.',
 };
-
-/** SQL that limits rows of `alias` (a table with tool_id, or tools itself) to the scope. */
-function scopeSql(scope: Scope, alias: string, toolsTable = false): string {
-  const column = toolsTable ? `${alias}.id` : `${alias}.tool_id`;
-  if (scope.kind === 'tool') return ` AND ${column} = :scopeToolId`;
-  if (scope.kind === 'area') {
-    return toolsTable ? ` AND ${alias}.area_id = :scopeAreaId` : ` AND ${column} IN (SELECT id FROM tools WHERE area_id = :scopeAreaId)`;
-  }
-  return '';
-}
-
-function scopeReplacements(scope: Scope): Replacements {
-  if (scope.kind === 'tool') return { scopeToolId: scope.toolId };
-  if (scope.kind === 'area') return { scopeAreaId: scope.areaId };
-  return {};
-}
 
 const clipped = (start: string, end: string) => `TIMESTAMPDIFF(MICROSECOND, GREATEST(si.started_at, ${start}), LEAST(si.ended_at, ${end}))`;
 
@@ -345,12 +328,6 @@ function paretoRows(entries: ParetoTally, totalHours: number): ParetoRow[] {
       cumulativeShare: totalHours > 0 ? cumulative / totalHours : 0,
     };
   });
-}
-
-export function scopeOf(query: Pick<AnalyticsQuery, 'scope' | 'areaId' | 'toolId'>): Scope {
-  if (query.scope === 'area') return { kind: 'area', areaId: query.areaId! };
-  if (query.scope === 'tool') return { kind: 'tool', toolId: query.toolId! };
-  return { kind: 'facility' };
 }
 
 /** One edge interval's share of the period, split by month bucket. */

@@ -17,8 +17,15 @@ export function csvCell(value: Cell): string {
   return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 }
 
-export function toCsv(header: readonly string[], rows: readonly Cell[][]): string {
-  return '\uFEFF' + [header, ...rows].map((row) => row.map(csvCell).join(',')).join('\r\n') + '\r\n';
+/** One CSV column: its header and how a row fills it. Header and value cannot drift apart. */
+export interface Column<Row> {
+  header: string;
+  value: (row: Row) => Cell;
+}
+
+export function toCsv<Row>(columns: readonly Column<Row>[], rows: readonly Row[]): string {
+  const lines = [columns.map((c) => c.header), ...rows.map((row) => columns.map((c) => c.value(row)))];
+  return '\uFEFF' + lines.map((line) => line.map(csvCell).join(',')).join('\r\n') + '\r\n';
 }
 
 const round = (value: number | null, digits = 3) => (value === null ? null : Number(value.toFixed(digits)));
@@ -32,67 +39,43 @@ const STATE_COLUMN: Record<keyof StateHours, string> = {
   nonScheduled: 'Non-scheduled h',
 };
 
-export function toolsCsv(report: AnalyticsReport): string {
-  const header = [
-    'Tool code',
-    'Tool name',
-    'Area',
-    'Availability %',
-    'Uptime h',
-    ...E10_STATE_HOURS_KEYS.map((k) => STATE_COLUMN[k]),
-    'Failures',
-    'Assists',
-    'MTBF over uptime h',
-    'MTBF 90% lower h',
-    'MTBF 90% upper h',
-    'MTTR (E10, excl. waiting) h',
-    'Mean down time per failure h',
-    'Failure trend',
-    'Reversals',
-    'Crow-AMSAA beta',
-  ];
-  const rows = report.tools.map((t) => [
-    t.code,
-    t.name,
-    t.areaName,
-    round(t.figures.availabilityPct),
-    round(t.figures.uptimeHours),
-    ...E10_STATE_HOURS_KEYS.map((k) => round(t.figures.hours[k])),
-    t.figures.failures,
-    t.figures.assists,
-    round(t.figures.mtbf.point),
-    round(t.figures.mtbf.lower),
-    round(t.figures.mtbf.upper),
-    round(t.figures.mttrHours),
-    round(t.figures.meanDownHoursPerFailure),
-    t.trend,
-    t.reversals,
-    round(t.crowBeta),
-  ]);
-  return toCsv(header, rows);
-}
+type ToolRow = AnalyticsReport['tools'][number];
+type MonthRow = AnalyticsReport['months'][number];
 
-export function monthsCsv(report: AnalyticsReport): string {
-  const header = [
-    'Month (UTC)',
-    'From',
-    'To',
-    'Partial month',
-    ...E10_STATE_HOURS_KEYS.map((k) => STATE_COLUMN[k]),
-    'Availability %',
-    'Failures',
-  ];
-  const rows = report.months.map((m) => [
-    m.month.slice(0, 7),
-    m.from,
-    m.to,
-    m.partial,
-    ...E10_STATE_HOURS_KEYS.map((k) => round(m.hours[k])),
-    round(m.availabilityPct),
-    m.failures,
-  ]);
-  return toCsv(header, rows);
-}
+const stateColumns = <Row>(hours: (row: Row) => StateHours): Column<Row>[] =>
+  E10_STATE_HOURS_KEYS.map((k) => ({ header: STATE_COLUMN[k], value: (row: Row) => round(hours(row)[k]) }));
+
+const TOOL_COLUMNS: readonly Column<ToolRow>[] = [
+  { header: 'Tool code', value: (t) => t.code },
+  { header: 'Tool name', value: (t) => t.name },
+  { header: 'Area', value: (t) => t.areaName },
+  { header: 'Availability %', value: (t) => round(t.figures.availabilityPct) },
+  { header: 'Uptime h', value: (t) => round(t.figures.uptimeHours) },
+  ...stateColumns<ToolRow>((t) => t.figures.hours),
+  { header: 'Failures', value: (t) => t.figures.failures },
+  { header: 'Assists', value: (t) => t.figures.assists },
+  { header: 'MTBF over uptime h', value: (t) => round(t.figures.mtbf.point) },
+  { header: 'MTBF 90% lower h', value: (t) => round(t.figures.mtbf.lower) },
+  { header: 'MTBF 90% upper h', value: (t) => round(t.figures.mtbf.upper) },
+  { header: 'MTTR (E10, excl. waiting) h', value: (t) => round(t.figures.mttrHours) },
+  { header: 'Mean down time per failure h', value: (t) => round(t.figures.meanDownHoursPerFailure) },
+  { header: 'Failure trend', value: (t) => t.trend },
+  { header: 'Reversals', value: (t) => t.reversals },
+  { header: 'Crow-AMSAA beta', value: (t) => round(t.crowBeta) },
+];
+
+const MONTH_COLUMNS: readonly Column<MonthRow>[] = [
+  { header: 'Month (UTC)', value: (m) => m.month.slice(0, 7) },
+  { header: 'From', value: (m) => m.from },
+  { header: 'To', value: (m) => m.to },
+  { header: 'Partial month', value: (m) => m.partial },
+  ...stateColumns<MonthRow>((m) => m.hours),
+  { header: 'Availability %', value: (m) => round(m.availabilityPct) },
+  { header: 'Failures', value: (m) => m.failures },
+];
+
+export const toolsCsv = (report: AnalyticsReport): string => toCsv(TOOL_COLUMNS, report.tools);
+export const monthsCsv = (report: AnalyticsReport): string => toCsv(MONTH_COLUMNS, report.months);
 
 /** A file name that says what and when: faultline-tools-area-3-2025-01-01-2025-12-31.csv. */
 export function csvFileName(kind: 'tools' | 'months', report: AnalyticsReport): string {

@@ -8,7 +8,7 @@ import { QueryTypes, type Sequelize } from 'sequelize';
 import { PRIORITIES, SERVICE_TARGET_DEFAULTS, type Priority, type ServiceTarget } from '../../../shared/priority';
 import type { ResponseRow } from '../../../shared/schemas/analytics';
 import type { PeriodPlan } from './period-plan';
-import type { Scope } from './analytics.service';
+import { scopeReplacements, scopeSql, type Scope } from './scope';
 
 /** The targets in force: the service_targets row of each priority, or the shared default. */
 export async function effectiveTargets(sequelize: Sequelize): Promise<Record<Priority, ServiceTarget>> {
@@ -19,12 +19,6 @@ export async function effectiveTargets(sequelize: Sequelize): Promise<Record<Pri
   const targets = { ...SERVICE_TARGET_DEFAULTS };
   for (const row of rows) targets[row.priority] = { acknowledgeMinutes: Number(row.ack), restoreMinutes: Number(row.restore) };
   return targets;
-}
-
-function scopeSql(scope: Scope): string {
-  if (scope.kind === 'tool') return ' AND tk.tool_id = :scopeToolId';
-  if (scope.kind === 'area') return ' AND tk.tool_id IN (SELECT id FROM tools WHERE area_id = :scopeAreaId)';
-  return '';
 }
 
 const targetCase = (kind: 'ack' | 'restore') =>
@@ -62,14 +56,12 @@ export async function responseFigures(
   now: Date,
 ): Promise<{ byPriority: ResponseRow[]; overall: ResponseRow }> {
   const targets = await effectiveTargets(sequelize);
-  const replacements: Record<string, unknown> = { from: plan.from, to: plan.to, now };
-  if (scope.kind === 'tool') replacements.scopeToolId = scope.toolId;
-  if (scope.kind === 'area') replacements.scopeAreaId = scope.areaId;
+  const replacements: Record<string, unknown> = { from: plan.from, to: plan.to, now, ...scopeReplacements(scope) };
   for (const p of PRIORITIES) {
     replacements[`ack${p}`] = targets[p].acknowledgeMinutes;
     replacements[`restore${p}`] = targets[p].restoreMinutes;
   }
-  const base = `FROM tickets tk WHERE tk.created_at >= :from AND tk.created_at < :to AND tk.status <> 'merged'${scopeSql(scope)}`;
+  const base = `FROM tickets tk WHERE tk.created_at >= :from AND tk.created_at < :to AND tk.status <> 'merged'${scopeSql(scope, 'tk')}`;
   const ack = 'TIMESTAMPDIFF(SECOND, tk.created_at, tk.acknowledged_at)';
   const restoredAt = 'COALESCE(tk.resolved_at, tk.fixed_at)';
   const restore = `TIMESTAMPDIFF(SECOND, tk.created_at, ${restoredAt})`;

@@ -1,6 +1,7 @@
 import crypto from 'node:crypto';
 import { Op, QueryTypes, type Transaction } from 'sequelize';
-import { User, PasswordReset, AccountMailRequest, type AccountLinkPurpose } from '../users/user.model';
+import { PasswordReset, AccountMailRequest, type AccountLinkPurpose } from './account-link.model';
+import { findAccountByEmail } from '../users/user-directory';
 import { queueMail } from '../../lib/mailer';
 import type { AppDeps } from '../../lib/http';
 
@@ -89,9 +90,9 @@ export async function processAccountMailRequests(deps: AppDeps, batch = 20): Pro
 }
 
 async function answer(deps: AppDeps, request: AccountMailRequest, transaction: Transaction) {
-  const user = await User.findOne({ where: { email: request.email, active: true }, transaction });
+  const user = await findAccountByEmail(request.email, transaction);
   // A mailed sign-in link is for an account that has a password (an invitee uses the invitation).
-  if (!user || (request.kind === 'sign_in_link' && !user.passwordHash)) return;
+  if (!user || !user.active || (request.kind === 'sign_in_link' && !user.passwordHash)) return;
   const purpose: AccountLinkPurpose = request.kind === 'sign_in_link' ? 'sign_in' : 'reset';
   const recent = await PasswordReset.count({
     where: { userId: user.id, purpose, createdAt: { [Op.gt]: new Date(Date.now() - 15 * 60_000) } },

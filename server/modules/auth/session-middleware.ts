@@ -6,7 +6,7 @@ import crypto from 'node:crypto';
 import type { Request, RequestHandler, Response } from 'express';
 import type { Sequelize } from 'sequelize';
 import type { Config } from '../../config';
-import { User } from '../users/user.model';
+import { findAccountById, type Person } from '../users/user-directory';
 import type { AuthUser } from '../../lib/http';
 import { AppError } from '../../lib/errors';
 import { securityLog, type Logger } from '../../lib/logger';
@@ -24,7 +24,7 @@ export const SESSION_COOKIE = 'faultline.sid';
 /** Holds a signed-out visitor's CSRF nonce, so that no session row is needed before sign-in. */
 export const CSRF_COOKIE = 'faultline.csrf';
 
-export function toAuthUser(u: User): AuthUser {
+export function toAuthUser(u: Pick<Person, 'id' | 'email' | 'name' | 'role'>): AuthUser {
   return { id: u.id, email: u.email, name: u.name, role: u.role };
 }
 
@@ -73,19 +73,47 @@ export function createSessionMiddleware(config: Config, sequelize: Sequelize) {
 export function configurePassport() {
   passport.use(
     new LocalStrategy({ usernameField: 'email', passwordField: 'password', session: true }, (_e, _p, done) => {
-      // Sign-in runs through auth.service (throttling and logging need the request); this
+      // Sign-in runs through auth.service and startSession below; this
       // strategy exists so passport's session support has its usual shape.
       done(null, false);
     }),
   );
   passport.serializeUser((user, done) => done(null, (user as AuthUser).id));
   passport.deserializeUser((id: number, done) => {
-    User.findByPk(id)
+    findAccountById(id)
       // A disabled or deleted user's session no longer signs anyone in.
       .then((u) => done(null, u && u.active ? toAuthUser(u) : false))
       .catch((error) => done(error));
   });
   return passport;
+}
+
+/** Starts a session for a user whose sign-in was checked: a brand-new session id (the old one is dead). */
+export async function startSession(
+  req: Request,
+  user: AuthUser,
+  method: 'password' | 'mailed_link',
+  log: Logger,
+): Promise<{ user: AuthUser; csrfToken: string }> {
+  // passport 0.7 regenerates the session inside req.login: a new id, the old one destroyed.
+  await new Promise<void>((resolve, reject) => req.login(user, (error) => (error ? reject(error) : resolve())));
+  const now = Date.now();
+  const csrfToken = newCsrfToken();
+  req.session.csrfToken = csrfToken;
+  req.session.signedInAt = now;
+  req.session.lastSeenAt = now;
+  await new Promise<void>((resolve, reject) => req.session.save((error) => (error ? reject(error) : resolve())));
+  securityLog(log, req, 'sign_in_succeeded', { method });
+  return { user, csrfToken };
+}
+
+/** Ends the session on the server and returns its id; the caller disconnects its sockets. */
+export async function endSession(req: Request, log: Logger): Promise<string> {
+  const sid = req.sessionID;
+  securityLog(log, req, 'signed_out');
+  await new Promise<void>((resolve, reject) => req.logout({ keepSessionInfo: false }, (error) => (error ? reject(error) : resolve())));
+  await new Promise<void>((resolve) => req.session.destroy(() => resolve()));
+  return sid;
 }
 
 /** How often a busy session's last-seen time (and so its row) is written: at most once a minute. */

@@ -10,13 +10,6 @@ export class SessionRow extends Model<InferAttributes<SessionRow>, InferCreation
   declare updatedAt: CreationOptional<Date>;
 }
 
-/** Fixed-window counters of the rate limits (server/lib/throttle.ts). */
-export class Throttle extends Model<InferAttributes<Throttle>, InferCreationAttributes<Throttle>> {
-  declare key: string;
-  declare hits: number;
-  declare windowStartedAt: Date;
-}
-
 export function initSessionModels(sequelize: Sequelize) {
   SessionRow.init(
     {
@@ -28,13 +21,5 @@ export function initSessionModels(sequelize: Sequelize) {
       updatedAt: DataTypes.DATE(3),
     },
     { sequelize, tableName: 'sessions', modelName: 'Session' },
-  );
-  Throttle.init(
-    {
-      key: { type: DataTypes.STRING(191), primaryKey: true },
-      hits: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
-      windowStartedAt: { type: DataTypes.DATE(3), allowNull: false },
-    },
-    { sequelize, tableName: 'throttles', modelName: 'Throttle', timestamps: false },
   );
 }

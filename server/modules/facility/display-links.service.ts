@@ -1,7 +1,7 @@
 import crypto from 'node:crypto';
 import { Op } from 'sequelize';
 import { DisplayLink } from './facility.model';
-import { User } from '../users/user.model';
+import { peopleByIds } from '../users/user-directory';
 import { notFound } from '../../lib/errors';
 import type { AppDeps } from '../../lib/http';
 import { disconnectDisplay } from '../../lib/realtime';
@@ -33,7 +33,7 @@ function present(link: DisplayLink, createdBy: string | null): DisplayLinkItem {
 export async function createDisplayLink(deps: AppDeps, name: string, actorId: number) {
   const key = newDisplayKey();
   const link = await DisplayLink.create({ name, keyHash: sha256(key), createdById: actorId, revokedAt: null, lastSeenAt: null });
-  const actor = await User.findByPk(actorId, { attributes: ['name'] });
+  const actor = (await peopleByIds([actorId])).get(actorId);
   return { ...present(link, actor?.name ?? null), key, url: `${deps.config.publicUrl}/display/${key}` };
 }
 
@@ -48,11 +48,9 @@ export async function listDisplayLinks(query: { includeRevoked?: boolean; limit:
     limit: query.limit,
     offset: query.offset,
   });
-  const creatorIds = [...new Set(rows.map((r) => r.createdById).filter((v): v is number => v !== null))];
-  const creators = creatorIds.length ? await User.findAll({ where: { id: creatorIds }, attributes: ['id', 'name'] }) : [];
-  const names = new Map(creators.map((c) => [c.id, c.name]));
+  const creators = await peopleByIds(rows.map((r) => r.createdById));
   return {
-    items: rows.map((r) => present(r, r.createdById ? (names.get(r.createdById) ?? null) : null)),
+    items: rows.map((r) => present(r, r.createdById ? (creators.get(r.createdById)?.name ?? null) : null)),
     total: count,
     limit: query.limit,
     offset: query.offset,
@@ -65,7 +63,7 @@ export async function revokeDisplayLink(id: number) {
   if (!link) throw notFound('Display link');
   if (!link.revokedAt) await link.update({ revokedAt: new Date() });
   disconnectDisplay(link.id);
-  const creator = link.createdById ? await User.findByPk(link.createdById, { attributes: ['name'] }) : null;
+  const creator = link.createdById ? (await peopleByIds([link.createdById])).get(link.createdById) : null;
   return present(link, creator?.name ?? null);
 }
 

@@ -115,7 +115,7 @@ export function facilityRoutes(opts: { log: Logger }): RouteSpec[] {
       params: idParams,
       body: stateChangeSchema,
       status: 201,
-      handle: ({ deps, params, body, user }) => setToolState(deps, params.id, body, user!.id),
+      handle: ({ deps, params, body, user }) => setToolState(deps, params.id, body, user!),
     }),
     route({
       method: 'get',

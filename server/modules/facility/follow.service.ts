@@ -39,6 +39,12 @@ export async function listFollowedTools(deps: AppDeps, userId: number) {
   return { items: tools.sort((a, b) => a.name.localeCompare(b.name)) };
 }
 
+/** Who follows the tool (ids only; the users module says who they are). */
+export async function toolFollowerIds(toolId: number, transaction?: Transaction): Promise<number[]> {
+  const rows = await ToolFollow.findAll({ where: { toolId }, attributes: ['userId'], transaction });
+  return rows.map((f) => f.userId);
+}
+
 export async function unfollowTool(userId: number, toolId: number) {
   if (!(await Tool.findByPk(toolId, { attributes: ['id'] }))) throw notFound('Tool');
   await ToolFollow.destroy({ where: { userId, toolId } });

@@ -4,6 +4,7 @@ import { isReasonAllowed, REASONS_BY_STATE, type E10State, type StateReason } fr
 import { AppError, notFound, badRequest } from '../../lib/errors';
 import type { AppDeps } from '../../lib/http';
 import { announceBoardTools } from './board.service';
+import type { StateChangeFields } from '../../../shared/schemas/facility';
 
 export interface StateChange {
   toolId: number;
@@ -111,6 +112,36 @@ export async function changeState(deps: AppDeps, change: StateChange, outer?: Tr
   return outer ? run(outer) : deps.sequelize.transaction(run);
 }
 
+/**
+ * A person's state change, from the tool page or from a ticket: both send the fields of
+ * stateChangeFields (checked by the same schema), and this is the one translation into a change.
+ */
+export function requestStateChange(
+  deps: AppDeps,
+  toolId: number,
+  input: StateChangeFields,
+  by: { actorId: number; ticketId?: number | null },
+  transaction?: Transaction,
+): Promise<StateChangeResult> {
+  return changeState(
+    deps,
+    {
+      toolId,
+      moduleId: input.moduleId ?? null,
+      state: input.state,
+      reason: input.reason,
+      note: input.note?.trim() || null,
+      restriction: input.restriction?.trim() || null,
+      expectedReturnAt: input.expectedReturnAt ? new Date(input.expectedReturnAt) : null,
+      ticketId: by.ticketId ?? null,
+      source: 'staff',
+      confirmed: true,
+      actorId: by.actorId,
+    },
+    transaction,
+  );
+}
+
 /** The first interval of a new tool or module (standby, i.e. Running and idle). */
 export async function openInitialState(
   toolId: number,
@@ -136,5 +167,52 @@ export async function openInitialState(
       confirmed: true,
     },
     { transaction },
+  );
+}
+
+// ---- The state log as other modules see it ------------------------------------------------
+// Reads, and the two marks a ticket may put on intervals it holds. Only this file writes
+// state_intervals.
+
+/** The open intervals of a tool and its modules (tool first). */
+export function openIntervalsOf(toolId: number, transaction?: Transaction) {
+  // open_flag (1 only on open intervals) is indexed with the tool; `ended_at IS NULL` is not.
+  return StateInterval.findAll({
+    where: { toolId, [Op.and]: [literal('`StateInterval`.`open_flag` = 1')] },
+    order: [['moduleId', 'ASC']],
+    transaction,
+  });
+}
+
+/** Open intervals this ticket holds down or limited (tool and modules). */
+export function intervalsHeldBy(ticketId: number, transaction: Transaction) {
+  return StateInterval.findAll({
+    where: { ticketId, endedAt: null, [Op.or]: [{ state: 'unscheduled_downtime' }, { restriction: { [Op.ne]: null } }] },
+    transaction,
+  });
+}
+
+/** The interval that ended when `interval` started: what a reverted change goes back to. */
+export function intervalBefore(interval: StateInterval, transaction: Transaction) {
+  return StateInterval.findOne({
+    where: { toolId: interval.toolId, moduleId: interval.moduleId, endedAt: interval.startedAt },
+    order: [['startedAt', 'DESC']],
+    transaction,
+  });
+}
+
+/** A merged ticket's open Downs become the target's to resolve; the log keeps one stretch. */
+export async function handOverHeldIntervals(fromTicketId: number, toTicketId: number, transaction: Transaction) {
+  await StateInterval.update({ ticketId: toTicketId }, { where: { ticketId: fromTicketId, endedAt: null }, transaction });
+}
+
+/** Confirming a reported Down is not a new state, only a mark on the open interval. */
+export async function confirmIntervals(deps: AppDeps, intervals: readonly StateInterval[], transaction: Transaction) {
+  await StateInterval.update({ confirmed: true }, { where: { id: intervals.map((s) => s.id) }, transaction });
+  announceBoardTools(
+    deps,
+    intervals.map((s) => s.toolId),
+    transaction,
+    { stateChange: true },
   );
 }

@@ -1,14 +1,17 @@
 import { Op, QueryTypes, type Transaction, type WhereOptions } from 'sequelize';
 import { Area, Tool, ToolModule } from './facility.model';
-import { User } from '../users/user.model';
+import { activePeople, peopleByIds, searchStaff, type Person } from '../users/user-directory';
+import { ticketToolId } from '../tickets/ticket-lookup';
+import { likePattern } from '../../lib/like-pattern';
+import { allowedToolActions, authorizeToolAction } from './tool.policy';
+import { findTool } from './tool-directory';
 import { ToolFollow } from './facility.model';
 import { AppError, badRequest, conflict, notFound } from '../../lib/errors';
-import type { AppDeps } from '../../lib/http';
-import { changeState, openInitialState } from './state.service';
+import type { AppDeps, AuthUser } from '../../lib/http';
+import { changeState, openInitialState, requestStateChange } from './state.service';
 import { loadBoardTools, openStateSetter } from './board.service';
 import { availabilityForPeriod } from './availability.service';
-import { STAFF_ROLES } from './staff';
-import { isStaff, type Role } from '../../../shared/roles';
+import { isStaff } from '../../../shared/roles';
 import type {
   AreaCreateInput,
   AreaUpdateInput,
@@ -32,7 +35,6 @@ type HistoryQuery = z.infer<typeof historyQuery>;
 type EngineerListQuery = z.infer<typeof engineerListQuery>;
 
 const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
-const likePattern = (q: string) => `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
 
 /** Admin changes to areas, tools and modules: the board and tool pages refetch. */
 function announce(deps: AppDeps, toolId: number | null, transaction: Parameters<AppDeps['events']['publish']>[1]) {
@@ -93,33 +95,14 @@ export async function updateArea(deps: AppDeps, id: number, input: AreaUpdateInp
 // ---- Staff who can look after tools ---------------------------------------------------------
 
 export async function listEngineers(query: EngineerListQuery) {
-  const where: WhereOptions<User> = { role: STAFF_ROLES as unknown as string[], active: true };
-  if (query.q)
-    Object.assign(where, { [Op.or]: [{ name: { [Op.like]: likePattern(query.q) } }, { email: { [Op.like]: likePattern(query.q) } }] });
-  const { rows, count } = await User.findAndCountAll({
-    where,
-    order: [['name', 'ASC']],
-    limit: query.limit,
-    offset: query.offset,
-    attributes: ['id', 'name', 'email', 'role'],
-  });
-  return {
-    items: rows.map((u) => ({ id: u.id, name: u.name, email: u.email, role: u.role })),
-    total: count,
-    limit: query.limit,
-    offset: query.offset,
-  };
+  const { items, total } = await searchStaff({ search: query.q, byEmail: true, limit: query.limit, offset: query.offset });
+  return { items, total, limit: query.limit, offset: query.offset };
 }
 
 async function checkEngineers(input: { primaryEngineerId?: number | null; backupEngineerId?: number | null }, transaction: Transaction) {
   const ids = [input.primaryEngineerId, input.backupEngineerId].filter((v): v is number => typeof v === 'number');
   if (ids.length === 0) return;
-  const found = await User.findAll({
-    where: { id: ids, role: STAFF_ROLES as unknown as string[], active: true },
-    attributes: ['id'],
-    transaction,
-  });
-  const ok = new Set(found.map((u) => u.id));
+  const ok = new Set((await activePeople(ids, { staffOnly: true, transaction })).map((u) => u.id));
   const fields: Record<string, string[]> = {};
   if (input.primaryEngineerId && !ok.has(input.primaryEngineerId)) fields.primaryEngineerId = ['Choose an active member of staff.'];
   if (input.backupEngineerId && !ok.has(input.backupEngineerId)) fields.backupEngineerId = ['Choose an active member of staff.'];
@@ -145,9 +128,7 @@ export async function listToolsAdmin(query: AdminListQuery) {
     limit: query.limit,
     offset: query.offset,
   });
-  const engineerIds = [...new Set(rows.flatMap((t) => [t.primaryEngineerId, t.backupEngineerId]).filter((v): v is number => v !== null))];
-  const people = engineerIds.length ? await User.findAll({ where: { id: engineerIds }, attributes: ['id', 'name', 'email'] }) : [];
-  const byId = new Map(people.map((p) => [p.id, { id: p.id, name: p.name, email: p.email }]));
+  const byId = await peopleByIds(rows.flatMap((t) => [t.primaryEngineerId, t.backupEngineerId]));
   const moduleCounts = rows.length
     ? ((await ToolModule.count({ where: { toolId: rows.map((t) => t.id), retiredAt: null }, group: ['toolId'] })) as unknown as {
         toolId: number;
@@ -161,8 +142,8 @@ export async function listToolsAdmin(query: AdminListQuery) {
       return {
         ...presentTool(t),
         area: area ? { id: area.id, name: area.name, code: area.code } : null,
-        primaryEngineer: t.primaryEngineerId ? (byId.get(t.primaryEngineerId) ?? null) : null,
-        backupEngineer: t.backupEngineerId ? (byId.get(t.backupEngineerId) ?? null) : null,
+        primaryEngineer: person(t.primaryEngineerId ? byId.get(t.primaryEngineerId) : null, true),
+        backupEngineer: person(t.backupEngineerId ? byId.get(t.backupEngineerId) : null, true),
         moduleCount: modulesOf.get(t.id) ?? 0,
       };
     }),
@@ -325,7 +306,7 @@ export async function updateModule(deps: AppDeps, id: number, input: ModuleUpdat
 const DAY_MS = 24 * 60 * 60 * 1000;
 
 /** An engineer as the tool page shows them: staff see the e-mail address, members the name only. */
-function person(u: User | undefined | null, viewerIsStaff: boolean): PersonRef | null {
+function person(u: Person | undefined | null, viewerIsStaff: boolean): PersonRef | null {
   if (!u) return null;
   return viewerIsStaff ? { id: u.id, name: u.name, email: u.email } : { id: u.id, name: u.name };
 }
@@ -337,8 +318,7 @@ export async function findToolIdByCode(code: string): Promise<number> {
 }
 
 /** Everything the tool page shows at the top: state, people, modules, 30-day availability. */
-export async function getToolDetail(deps: AppDeps, code: string, viewer: { id: number; role: Role }): Promise<ToolDetail> {
-  const viewerId = viewer.id;
+export async function getToolDetail(deps: AppDeps, code: string, viewer: AuthUser): Promise<ToolDetail> {
   const viewerIsStaff = isStaff(viewer.role);
   const tool = await Tool.findOne({ where: { code }, include: [{ model: Area, as: 'area', attributes: ['id', 'name', 'code'] }] });
   if (!tool) throw notFound('Tool');
@@ -346,17 +326,14 @@ export async function getToolDetail(deps: AppDeps, code: string, viewer: { id: n
   const from = new Date(now.getTime() - 30 * DAY_MS);
   const [entries, people, follow, availability, setBy] = await Promise.all([
     loadBoardTools(deps.sequelize, { toolIds: [tool.id], includeRetired: true }),
-    User.findAll({
-      where: { id: [tool.primaryEngineerId, tool.backupEngineerId].filter((v): v is number => v !== null) },
-      attributes: ['id', 'name', 'email'],
-    }),
-    ToolFollow.findOne({ where: { userId: viewerId, toolId: tool.id }, attributes: ['userId'] }),
+    peopleByIds([tool.primaryEngineerId, tool.backupEngineerId]),
+    ToolFollow.findOne({ where: { userId: viewer.id, toolId: tool.id }, attributes: ['userId'] }),
     availabilityForPeriod(deps.sequelize, { from, to: now, toolIds: [tool.id] }),
     openStateSetter(deps.sequelize, tool.id),
   ]);
   const entry = entries[0];
   const area = (tool as Tool & { area: Area }).area;
-  const byId = new Map(people.map((p) => [p.id, p]));
+  const byId = people;
   return {
     ...entry,
     description: tool.description,
@@ -367,6 +344,7 @@ export async function getToolDetail(deps: AppDeps, code: string, viewer: { id: n
     following: Boolean(follow),
     availability30d: availability.get(tool.id)!,
     setBy,
+    allowedActions: allowedToolActions(viewer, tool),
   };
 }
 
@@ -472,28 +450,15 @@ export async function getToolHistory(deps: AppDeps, toolId: number, query: Histo
 }
 
 /** A technician's state change from the API: the request's words become the change. */
-export async function setToolState(deps: AppDeps, toolId: number, input: StateChangeInput, actorId: number) {
+export async function setToolState(deps: AppDeps, toolId: number, input: StateChangeInput, actor: AuthUser) {
+  const tool = await findTool(toolId);
+  if (!tool) throw notFound('Tool');
+  authorizeToolAction(actor, tool, 'change_state');
   if (input.ticketId) {
-    const [ticket] = await deps.sequelize.query<{ toolId: number }>('SELECT tool_id AS toolId FROM tickets WHERE id = :id', {
-      type: QueryTypes.SELECT,
-      replacements: { id: input.ticketId },
-    });
-    if (!ticket || ticket.toolId !== toolId)
+    if ((await ticketToolId(input.ticketId)) !== toolId)
       throw badRequest('That ticket is not about this tool.', { ticketId: ['Choose a ticket about this tool.'] });
   }
-  const result = await changeState(deps, {
-    toolId,
-    moduleId: input.moduleId ?? null,
-    state: input.state,
-    reason: input.reason,
-    note: input.note?.trim() || null,
-    restriction: input.restriction?.trim() || null,
-    expectedReturnAt: input.expectedReturnAt ? new Date(input.expectedReturnAt) : null,
-    ticketId: input.ticketId ?? null,
-    source: 'staff',
-    confirmed: true,
-    actorId,
-  });
+  const result = await requestStateChange(deps, toolId, input, { actorId: actor.id, ticketId: input.ticketId });
   const [entry] = await loadBoardTools(deps.sequelize, { toolIds: [toolId], includeRetired: true });
   return {
     interval: {

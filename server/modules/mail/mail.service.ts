@@ -1,6 +1,6 @@
 import { Op } from 'sequelize';
-import { OutboxMail } from './outbox.model';
-import { User } from '../users/user.model';
+import { OutboxMail } from '../../lib/outbox.model';
+import { activeAdmins } from '../users/user-directory';
 import { createNotices } from '../notices/notices.service';
 import { AppError } from '../../lib/errors';
 import { MAIL_LATE_AFTER_MS } from '../../lib/mailer';
@@ -57,7 +57,7 @@ export async function warnAdminsOfLateMail(deps: AppDeps) {
     });
     if (late.length === 0) return;
     await OutboxMail.update({ warnedAt: new Date() }, { where: { id: late.map((m) => m.id) }, transaction });
-    const admins = await User.findAll({ where: { role: 'admin', active: true }, attributes: ['id'], transaction });
+    const admins = await activeAdmins(transaction);
     const n = late.length;
     await createNotices(
       deps,

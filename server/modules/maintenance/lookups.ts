@@ -1,39 +1,25 @@
-import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
+import type { Sequelize, Transaction } from 'sequelize';
 import { notFound } from '../../lib/errors';
+import { engineerIdsOf, findTool, isActiveModuleOf, type ToolFacts } from '../facility/tool-directory';
+import { toolFollowerIds } from '../facility/follow.service';
+import { findOpenInterval } from '../facility/state.service';
+import { activePeople } from '../users/user-directory';
 
-// Small reads of other modules' data this module needs (tool names, engineers, followers).
-// Read-only SQL rather than other modules' models, so those stay private to their modules.
+// Small reads of other modules' data this module needs (tool names, engineers, followers),
+// through those modules' public functions, so their tables and models stay their own.
+// (`sequelize` stays in the signatures so the call sites read the same.)
 
-export interface ToolInfo {
-  id: number;
-  code: string;
-  name: string;
-  areaId: number;
-  primaryEngineerId: number | null;
-  backupEngineerId: number | null;
-  retiredAt: Date | null;
-}
+export type ToolInfo = ToolFacts;
 
-export async function toolInfo(sequelize: Sequelize, toolId: number, transaction?: Transaction): Promise<ToolInfo> {
-  const [row] = await sequelize.query<ToolInfo>(
-    `SELECT id, code, name, area_id AS areaId, primary_engineer_id AS primaryEngineerId,
-            backup_engineer_id AS backupEngineerId, retired_at AS retiredAt
-       FROM tools WHERE id = :toolId`,
-    { type: QueryTypes.SELECT, replacements: { toolId }, transaction },
-  );
-  if (!row) throw notFound('That tool');
-  return row;
+export async function toolInfo(_sequelize: Sequelize, toolId: number, transaction?: Transaction): Promise<ToolInfo> {
+  const tool = await findTool(toolId, transaction);
+  if (!tool) throw notFound('That tool');
+  return tool;
 }
 
 /** The module belongs to the tool (or is null). */
-export async function moduleBelongs(sequelize: Sequelize, toolId: number, moduleId: number | null, transaction?: Transaction) {
-  if (moduleId === null) return true;
-  const rows = await sequelize.query(`SELECT id FROM modules WHERE id = :moduleId AND tool_id = :toolId AND retired_at IS NULL`, {
-    type: QueryTypes.SELECT,
-    replacements: { toolId, moduleId },
-    transaction,
-  });
-  return rows.length > 0;
+export async function moduleBelongs(_sequelize: Sequelize, toolId: number, moduleId: number | null, transaction?: Transaction) {
+  return moduleId === null || isActiveModuleOf(toolId, moduleId, transaction);
 }
 
 export interface Person {
@@ -42,35 +28,26 @@ export interface Person {
   name: string;
 }
 
+const asPeople = (people: { id: number; email: string; name: string }[]): Person[] =>
+  people.map((u) => ({ userId: u.id, email: u.email, name: u.name }));
+
 export async function followersOf(
-  sequelize: Sequelize,
+  _sequelize: Sequelize,
   toolId: number,
   exceptUserId: number | null,
   transaction: Transaction,
 ): Promise<Person[]> {
-  return sequelize.query<Person>(
-    `SELECT f.user_id AS userId, u.email, u.name FROM tool_follows f JOIN users u ON u.id = f.user_id
-      WHERE f.tool_id = :toolId AND u.active = 1 AND f.user_id <> :except`,
-    { type: QueryTypes.SELECT, replacements: { toolId, except: exceptUserId ?? 0 }, transaction },
-  );
+  const ids = (await toolFollowerIds(toolId, transaction)).filter((id) => id !== exceptUserId);
+  return asPeople(await activePeople(ids, { transaction }));
 }
 
 /** Active primary and backup engineers of the given tools. */
-export async function engineersOf(sequelize: Sequelize, toolIds: number[], transaction: Transaction): Promise<Person[]> {
-  if (toolIds.length === 0) return [];
-  return sequelize.query<Person>(
-    `SELECT DISTINCT u.id AS userId, u.email, u.name FROM tools t
-       JOIN users u ON u.id IN (t.primary_engineer_id, t.backup_engineer_id)
-      WHERE t.id IN (:toolIds) AND u.active = 1`,
-    { type: QueryTypes.SELECT, replacements: { toolIds }, transaction },
-  );
+export async function engineersOf(_sequelize: Sequelize, toolIds: number[], transaction: Transaction): Promise<Person[]> {
+  return asPeople(await activePeople(await engineerIdsOf(toolIds, transaction), { transaction }));
 }
 
 /** The tool's (or module's) open state, to know whether a work order holds it in downtime. */
-export async function openState(sequelize: Sequelize, toolId: number, moduleId: number | null, transaction?: Transaction) {
-  const [row] = await sequelize.query<{ state: string; reason: string }>(
-    `SELECT state, reason FROM state_intervals WHERE tool_id = :toolId AND module_key = :moduleKey AND open_flag = 1`,
-    { type: QueryTypes.SELECT, replacements: { toolId, moduleKey: moduleId ?? 0 }, transaction },
-  );
-  return row ?? null;
+export async function openState(_sequelize: Sequelize, toolId: number, moduleId: number | null, transaction?: Transaction) {
+  const open = await findOpenInterval(toolId, moduleId, transaction);
+  return open ? { state: open.state, reason: open.reason } : null;
 }

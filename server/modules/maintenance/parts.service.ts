@@ -6,6 +6,7 @@ import { queueMail } from '../../lib/mailer';
 import { AppError, badRequest, notFound } from '../../lib/errors';
 import type { AppDeps, AuthUser } from '../../lib/http';
 import type { PartUseInput } from '../../../shared/schemas/maintenance';
+import { likePattern } from '../../lib/like-pattern';
 
 // The spare-parts list. Using a part draws the count down in the same transaction as the
 // use; when the count first falls below the reorder level the engineers of the part's tools
@@ -101,7 +102,7 @@ export async function listParts(deps: AppDeps, query: { toolId?: number; q?: str
   const sql = `FROM parts p ${where.length ? `WHERE ${where.join(' AND ')}` : ''}`;
   const replacements = {
     toolId: query.toolId ?? 0,
-    q: `%${(query.q ?? '').replace(/[\\%_]/g, (c) => `\\${c}`)}%`,
+    q: likePattern(query.q ?? ''),
     limit: query.limit,
     offset: query.offset,
   };

@@ -13,6 +13,8 @@ export interface NewNotice {
   link?: string | null;
   /** Also as a phone notification to the browsers these people allowed (web push). */
   push?: boolean;
+  /** Sent with the 'notice.created' event, so open ticket pages know which ticket it is about. */
+  ticketId?: number;
 }
 
 /**
@@ -34,7 +36,14 @@ export async function createNotices(deps: AppDeps, userIds: number[], notice: Ne
     { transaction: transaction ?? undefined },
   );
   if (notice.push) await queuePush(ids, { title: notice.title, body: notice.body ?? '', link: notice.link ?? '/' }, transaction);
-  deps.events.publish({ type: 'notice.created', audience: { users: ids }, payload: { kind: notice.kind } }, transaction);
+  deps.events.publish(
+    {
+      type: 'notice.created',
+      audience: { users: ids },
+      payload: { kind: notice.kind, ...(notice.ticketId ? { ticketId: notice.ticketId } : {}) },
+    },
+    transaction,
+  );
 }
 
 function present(n: Notice): NoticeItem {

@@ -1,9 +1,10 @@
 import type { Transaction } from 'sequelize';
 import { Ticket, UNWORKED_TICKET_FIELDS } from './ticket.model';
-import { Tool } from '../facility/facility.model';
-import { User } from '../users/user.model';
+import { findTool, lockTool, type ToolFacts } from '../facility/tool-directory';
+import { findOpenInterval } from '../facility/state.service';
+import { activePeople, onCallPeople } from '../users/user-directory';
 import type { AppDeps } from '../../lib/http';
-import { appendEvent, changeStateForTicket, openInterval } from './ticket-effects';
+import { appendEvent, changeStateForTicket } from './ticket-effects';
 import { notifyUsers } from './ticket-notify';
 import { queueMail } from '../../lib/mailer';
 import { createNotices } from '../notices/notices.service';
@@ -32,20 +33,20 @@ export interface AlarmTicketInput {
   notify: boolean;
 }
 
-const where = (tool: Tool) => `${tool.name} (${tool.code})`;
+const where = (tool: ToolFacts) => `${tool.name} (${tool.code})`;
 
 /** Opens a ticket for an alarm; the timeline says it was reported by the tool. */
 export async function openAlarmTicket(deps: AppDeps, input: AlarmTicketInput, transaction: Transaction): Promise<{ ticketId: number }> {
-  const tool = await Tool.findByPk(input.toolId, { transaction, lock: transaction.LOCK.UPDATE });
+  const tool = await lockTool(input.toolId, transaction);
   if (!tool) throw new Error(`tool ${input.toolId} vanished`);
   const impact = input.takeDown ? 'tool_stopped' : 'still_usable';
   const priority = input.safety
     ? 'P1'
     : computePriority({ impact, hazards: [], wafersAtRisk: 0, wafersKnownSafe: false, criticality: tool.criticality }).priority;
-  const engineers = await User.findAll({
-    where: { id: [tool.primaryEngineerId, tool.backupEngineerId].filter((x): x is number => x !== null), active: true },
-    transaction,
-  });
+  const engineers = await activePeople(
+    [tool.primaryEngineerId, tool.backupEngineerId].filter((x): x is number => x !== null),
+    { transaction },
+  );
   const assignee =
     engineers.find((u) => u.id === tool.primaryEngineerId && isStaff(u.role)) ??
     engineers.find((u) => u.id === tool.backupEngineerId && isStaff(u.role)) ??
@@ -107,8 +108,8 @@ export async function openAlarmTicket(deps: AppDeps, input: AlarmTicketInput, tr
       transaction,
     );
   if (input.takeDown) {
-    const target = await openInterval(tool.id, input.moduleId, transaction);
-    const toolOpen = await openInterval(tool.id, null, transaction);
+    const target = await findOpenInterval(tool.id, input.moduleId, transaction);
+    const toolOpen = await findOpenInterval(tool.id, null, transaction);
     if (target?.state !== 'unscheduled_downtime' && toolOpen?.state !== 'unscheduled_downtime') {
       await changeStateForTicket(
         deps,
@@ -130,7 +131,7 @@ export async function openAlarmTicket(deps: AppDeps, input: AlarmTicketInput, tr
 
   let told: number[] = [];
   if (input.safety) {
-    const onCall = await User.findAll({ where: { onCall: true, active: true }, attributes: ['id'], transaction });
+    const onCall = await onCallPeople(transaction);
     told = await notifyUsers(
       deps,
       {
@@ -239,11 +240,11 @@ export async function tellToolEngineers(
   input: { toolId: number; kind: string; title: string; text: string; onCall?: boolean },
   transaction: Transaction,
 ) {
-  const tool = await Tool.findByPk(input.toolId, { transaction });
+  const tool = await findTool(input.toolId, transaction);
   if (!tool) return [];
   const ids = [tool.primaryEngineerId, tool.backupEngineerId].filter((x): x is number => x !== null);
-  const users = await User.findAll({ where: input.onCall ? { onCall: true, active: true } : { id: ids, active: true }, transaction });
-  const recipients = input.onCall ? [...users, ...(await User.findAll({ where: { id: ids, active: true }, transaction }))] : users;
+  const engineers = await activePeople(ids, { transaction });
+  const recipients = input.onCall ? [...(await onCallPeople(transaction)), ...engineers] : engineers;
   const unique = [...new Map(recipients.map((u) => [u.id, u])).values()];
   if (unique.length === 0) return [];
   const link = `/tools/${encodeURIComponent(tool.code)}`;

@@ -1,12 +1,13 @@
 import { QueryTypes, type Transaction } from 'sequelize';
 import { Ticket, Photo, UNWORKED_TICKET_FIELDS } from './ticket.model';
-import { Tool, ToolModule } from '../facility/facility.model';
-import { User } from '../users/user.model';
-import { AppError, badRequest, forbidden } from '../../lib/errors';
+import { findTool, isActiveModuleOf, lockTool } from '../facility/tool-directory';
+import { activePeople } from '../users/user-directory';
+import { AppError, badRequest } from '../../lib/errors';
 import { storePhotos, removePhotos, linkPhotos, type IncomingFile, type StoredPhoto } from '../../lib/uploads';
 import type { AppDeps, AuthUser } from '../../lib/http';
 import { appendEvent, applyLimitedReport, applyStoppedReport } from './ticket-effects';
 import { notifyOnCall, notifyUsers, ticketFollowers } from './ticket-notify';
+import { authorizeTicketAction } from './ticket.policy';
 import { findTicket } from './ticket-query.service';
 import { announceBoardTools } from '../facility/board.service';
 import { isStaff } from '../../../shared/roles';
@@ -35,11 +36,11 @@ export function titleFrom(description: string): string {
 export const worseImpact = (a: Impact, b: Impact | null): Impact => (b && IMPACTS.indexOf(b) < IMPACTS.indexOf(a) ? b : a);
 
 async function validateToolAndModule(toolId: number, moduleId: number | null) {
-  const tool = await Tool.findByPk(toolId);
+  const tool = await findTool(toolId);
   if (!tool || tool.retiredAt) throw badRequest('That tool cannot take reports.', { toolId: ['Unknown or retired tool.'] });
   if (moduleId !== null) {
-    const mod = await ToolModule.findOne({ where: { id: moduleId, toolId, retiredAt: null } });
-    if (!mod) throw badRequest('That module does not belong to this tool.', { moduleId: ['Unknown module for this tool.'] });
+    if (!(await isActiveModuleOf(toolId, moduleId)))
+      throw badRequest('That module does not belong to this tool.', { moduleId: ['Unknown module for this tool.'] });
   }
   return tool;
 }
@@ -162,7 +163,7 @@ export async function createReport(deps: AppDeps, user: AuthUser, input: ReportD
     deps.sequelize.transaction(async (transaction) => {
       // The tool row is locked first by every ticket write, so writers on one tool queue up
       // instead of deadlocking between the ticket insert and the state change.
-      const locked = await Tool.findByPk(tool.id, { transaction, lock: transaction.LOCK.UPDATE });
+      const locked = await lockTool(tool.id, transaction);
       if (!locked || locked.retiredAt) throw badRequest('That tool cannot take reports.', { toolId: ['Unknown or retired tool.'] });
       const earlier = await alreadySent(deps, user.id, input.clientKey, input.description, 'reported', transaction);
       if (earlier) throw new AlreadySent(earlier);
@@ -173,10 +174,10 @@ export async function createReport(deps: AppDeps, user: AuthUser, input: ReportD
         wafersKnownSafe: input.wafersRecoverable === 'yes',
         criticality: locked.criticality,
       });
-      const engineers = await User.findAll({
-        where: { id: [locked.primaryEngineerId, locked.backupEngineerId].filter((x): x is number => x !== null), active: true },
-        transaction,
-      });
+      const engineers = await activePeople(
+        [locked.primaryEngineerId, locked.backupEngineerId].filter((x): x is number => x !== null),
+        { transaction },
+      );
       const assignee =
         engineers.find((u) => u.id === locked.primaryEngineerId && isStaff(u.role)) ??
         engineers.find((u) => u.id === locked.backupEngineerId && isStaff(u.role)) ??
@@ -278,14 +279,11 @@ export async function createReport(deps: AppDeps, user: AuthUser, input: ReportD
 /** "I see it too": the report joins an open ticket with its own author, text and photos. */
 export async function addReport(deps: AppDeps, user: AuthUser, ticketId: number, input: AddReportData, files: readonly IncomingFile[]) {
   const existing = await findTicket(ticketId);
-  if (!isOpenStatus(existing.status)) {
-    if (existing.status === 'merged')
-      throw new AppError(409, 'ticket_merged', `This ticket was merged into #${existing.mergedIntoId}; add your report there.`);
-    throw new AppError(409, 'ticket_not_open', 'This ticket is no longer open. Report the problem as a new one, or reopen this ticket.');
-  }
+  // Adding a report never depends on the state log, so the policy needs no interval here.
+  authorizeTicketAction(user, { ...existing.get(), awaitingConfirmation: false }, 'add_report');
   return withStoredPhotos(deps, files, (stored) =>
     deps.sequelize.transaction(async (transaction) => {
-      const tool = await Tool.findByPk(existing.toolId, { transaction, lock: transaction.LOCK.UPDATE });
+      const tool = await lockTool(existing.toolId, transaction);
       const ticket = await Ticket.findByPk(ticketId, { transaction, lock: transaction.LOCK.UPDATE });
       const earlier = await alreadySent(deps, user.id, input.clientKey, input.description, 'added_report', transaction);
       if (earlier) throw new AlreadySent(earlier);
@@ -372,12 +370,10 @@ export async function addReport(deps: AppDeps, user: AuthUser, ticketId: number,
 }
 
 export async function addComment(deps: AppDeps, user: AuthUser, ticketId: number, input: { body: string; internal: boolean }) {
-  if (input.internal && !isStaff(user.role)) throw forbidden('Only staff can write internal notes.');
   return deps.sequelize.transaction(async (transaction) => {
     const ticket = await Ticket.findByPk(ticketId, { transaction });
     if (!ticket) throw new AppError(404, 'not_found', 'That ticket was not found.');
-    if (ticket.status === 'merged')
-      throw new AppError(409, 'ticket_merged', `This ticket was merged into #${ticket.mergedIntoId}; write there.`);
+    authorizeTicketAction(user, { ...ticket.get(), awaitingConfirmation: false }, input.internal ? 'note' : 'comment');
     const event = await appendEvent(
       ticket.id,
       user.id,

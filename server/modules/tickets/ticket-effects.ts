@@ -1,7 +1,7 @@
-import { Op, type Transaction } from 'sequelize';
+import type { Transaction } from 'sequelize';
 import { Ticket, TicketEvent } from './ticket.model';
-import { StateInterval, type Tool } from '../facility/facility.model';
-import { changeState } from '../facility/state.service';
+import { changeState, findOpenInterval, type StateChangeResult } from '../facility/state.service';
+import type { ToolFacts } from '../facility/tool-directory';
 import type { AppDeps } from '../../lib/http';
 import { E10_LABELS, boardStatusOf, type E10State, type StateReason } from '../../../shared/equipment-state';
 
@@ -25,10 +25,6 @@ export function appendEvent(
     },
     { transaction },
   );
-}
-
-export async function openInterval(toolId: number, moduleId: number | null, transaction: Transaction) {
-  return StateInterval.findOne({ where: { toolId, moduleId, endedAt: null }, transaction });
 }
 
 export interface StateStep {
@@ -55,7 +51,7 @@ export async function changeStateForTicket(
   step: StateStep,
   transaction: Transaction,
 ) {
-  const { previous, current } = await changeState(
+  const change = await changeState(
     deps,
     {
       toolId: step.toolId,
@@ -72,14 +68,26 @@ export async function changeStateForTicket(
     },
     transaction,
   );
+  await recordStateStep(ticket.id, actorId, change, step.note ?? null, transaction);
+  return change;
+}
+
+/** The ticket's timeline entry for a state change made on its behalf. */
+export async function recordStateStep(
+  ticketId: number,
+  actorId: number | null,
+  { previous, current }: StateChangeResult,
+  note: string | null,
+  transaction: Transaction,
+) {
   await appendEvent(
-    ticket.id,
+    ticketId,
     actorId,
     'tool_state',
     {
-      body: step.note ?? null,
+      body: note,
       data: {
-        moduleId: step.moduleId,
+        moduleId: current.moduleId,
         from: previous ? { state: previous.state, reason: previous.reason } : null,
         to: { state: current.state, reason: current.reason },
         source: current.source,
@@ -89,7 +97,6 @@ export async function changeStateForTicket(
     },
     transaction,
   );
-  return { previous, current };
 }
 
 /**
@@ -99,13 +106,13 @@ export async function changeStateForTicket(
 export async function applyStoppedReport(
   deps: AppDeps,
   ticket: Ticket,
-  tool: Tool,
+  tool: ToolFacts,
   moduleId: number | null,
   actorId: number,
   transaction: Transaction,
 ) {
-  const toolOpen = await openInterval(tool.id, null, transaction);
-  const targetOpen = moduleId === null ? toolOpen : await openInterval(tool.id, moduleId, transaction);
+  const toolOpen = await findOpenInterval(tool.id, null, transaction);
+  const targetOpen = moduleId === null ? toolOpen : await findOpenInterval(tool.id, moduleId, transaction);
   const alreadyDown = toolOpen?.state === 'unscheduled_downtime' || targetOpen?.state === 'unscheduled_downtime';
   if (alreadyDown) {
     const state = (toolOpen?.state === 'unscheduled_downtime' ? toolOpen : targetOpen)!;
@@ -148,13 +155,13 @@ export async function applyStoppedReport(
 export async function applyLimitedReport(
   deps: AppDeps,
   ticket: Ticket,
-  tool: Tool,
+  tool: ToolFacts,
   moduleId: number | null,
   actorId: number,
   transaction: Transaction,
 ) {
   if (moduleId !== null) return applyStoppedReport(deps, ticket, tool, moduleId, actorId, transaction);
-  const open = await openInterval(tool.id, null, transaction);
+  const open = await findOpenInterval(tool.id, null, transaction);
   if (!open || boardStatusOf(open.state) !== 'running' || open.restriction) {
     const body = open?.restriction
       ? 'Already limited; the state was left as it is.'
@@ -194,12 +201,4 @@ export async function applyLimitedReport(
     transaction,
   );
   return true;
-}
-
-/** Open intervals this ticket holds down or limited (tool and modules). */
-export async function intervalsHeldBy(ticketId: number, transaction: Transaction) {
-  return StateInterval.findAll({
-    where: { ticketId, endedAt: null, [Op.or]: [{ state: 'unscheduled_downtime' }, { restriction: { [Op.ne]: null } }] },
-    transaction,
-  });
 }

@@ -1,6 +1,6 @@
-import { Op, QueryTypes, type Transaction } from 'sequelize';
-import { User } from '../users/user.model';
-import { Notice } from '../notices/notice.model';
+import { QueryTypes, type Transaction } from 'sequelize';
+import { activePeople, onCallPeople } from '../users/user-directory';
+import { createNotices } from '../notices/notices.service';
 import { queueMail } from '../../lib/mailer';
 import { queuePush } from '../push/push.service';
 import type { AppDeps } from '../../lib/http';
@@ -29,7 +29,7 @@ export interface Notification {
 export async function notifyUsers(deps: AppDeps, n: Notification, transaction: Transaction) {
   const ids = [...new Set(n.userIds.filter((id): id is number => typeof id === 'number' && id !== n.exceptUserId))];
   if (ids.length === 0) return [];
-  const users = await User.findAll({ where: { id: ids, active: true }, transaction });
+  const users = await activePeople(ids, { transaction });
   if (users.length === 0) return [];
   const link = ticketLink(deps, n.ticketId);
   await queueMail(
@@ -45,27 +45,19 @@ export async function notifyUsers(deps: AppDeps, n: Notification, transaction: T
     })),
     transaction,
   );
-  await Notice.bulkCreate(
-    users.map((u) => ({
-      userId: u.id,
-      kind: n.kind,
-      title: n.title.slice(0, 200),
-      body: n.text,
-      link: `/tickets/${n.ticketId}`,
-      readAt: null,
-    })),
-    { transaction },
+  await createNotices(
+    deps,
+    users.map((u) => u.id),
+    { kind: n.kind, title: n.title, body: n.text, link: `/tickets/${n.ticketId}`, ticketId: n.ticketId },
+    transaction,
   );
+  // The phone notification carries only the first line of the text.
   if (n.push)
     await queuePush(
       users.map((u) => u.id),
       { title: n.title, body: n.text.split('\n')[0], link: `/tickets/${n.ticketId}` },
       transaction,
     );
-  deps.events.publish(
-    { type: 'notice.created', audience: { users: users.map((u) => u.id) }, payload: { kind: n.kind, ticketId: n.ticketId } },
-    transaction,
-  );
   return users.map((u) => u.id);
 }
 
@@ -82,7 +74,7 @@ export async function notifyOnCall(
   },
   transaction: Transaction,
 ) {
-  const onCall = await User.findAll({ where: { onCall: true, active: true }, attributes: ['id'], transaction });
+  const onCall = await onCallPeople(transaction);
   const hazards = input.hazards.map((h) => HAZARD_LABELS[h].toLowerCase()).join(', ');
   const cautions = cautionsFor(input.hazards, await getFacilitySettings(deps, transaction));
   return notifyUsers(
@@ -122,6 +114,5 @@ export async function ticketFollowers(deps: AppDeps, ticketId: number, transacti
 }
 
 export async function activeStaffIds(ids: readonly number[], transaction: Transaction) {
-  const users = await User.findAll({ where: { id: ids, active: true, role: { [Op.ne]: 'member' } }, attributes: ['id'], transaction });
-  return users.map((u) => u.id);
+  return (await activePeople(ids, { staffOnly: true, transaction })).map((u) => u.id);
 }

@@ -1,13 +1,14 @@
-import { Op, literal, where as where_, type Transaction, type Includeable } from 'sequelize';
+import type { Transaction, Includeable } from 'sequelize';
 import { Ticket, TicketEvent, Photo, ServiceTarget } from './ticket.model';
 import { loadTimeline, timelineTicketIds } from './ticket-timeline.service';
 import { assertMayReadTicket } from './ticket-visibility';
-import { Tool, ToolModule, Area, StateInterval } from '../facility/facility.model';
-import { User } from '../users/user.model';
+import { activeModules, toolChoices } from '../facility/tool-directory';
+import { openIntervalsOf } from '../facility/state.service';
+import { searchStaff } from '../users/user-directory';
 import { notFound } from '../../lib/errors';
 import type { AppDeps, AuthUser } from '../../lib/http';
 import { isStaff } from '../../../shared/roles';
-import { allowedActions, isOpenStatus } from '../../../shared/ticket-workflow';
+import { allowedTicketActions, awaitingConfirmation } from './ticket.policy';
 import {
   PRIORITIES,
   SERVICE_TARGET_DEFAULTS,
@@ -16,6 +17,7 @@ import {
   type Priority,
   type ServiceTarget as Target,
 } from '../../../shared/priority';
+import type { Criticality } from '../../../shared/priority';
 import type { TicketCategory } from '../../../shared/report-options';
 import type {
   TicketDetail,
@@ -25,28 +27,41 @@ import type {
   ServiceTargetView,
   ToolStateView,
 } from '../../../shared/schemas/tickets';
-import { searchKey, sqlSearchKey } from '../../../shared/search';
 
-const person = (u: User | null | undefined) => (u ? { id: u.id, name: u.name } : null);
+interface PersonRow {
+  id: number;
+  name: string;
+}
+
+const person = (u: PersonRow | null | undefined) => (u ? { id: u.id, name: u.name } : null);
 const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
 
+// Joined by association name (the associations are declared in server/db/models.ts), so this
+// module reads other modules' tables in its joins without touching their models.
 export const summaryIncludes = (): Includeable[] => [
   {
-    model: Tool,
-    as: 'tool',
+    association: 'tool',
     attributes: ['id', 'code', 'name', 'areaId', 'criticality', 'primaryEngineerId', 'backupEngineerId'],
-    include: [{ model: Area, as: 'area', attributes: ['id', 'name'] }],
+    include: [{ association: 'area', attributes: ['id', 'name'] }],
   },
-  { model: ToolModule, as: 'module', attributes: ['id', 'code', 'name'] },
-  { model: User, as: 'reporter', attributes: ['id', 'name'] },
-  { model: User, as: 'assignee', attributes: ['id', 'name'] },
+  { association: 'module', attributes: ['id', 'code', 'name'] },
+  { association: 'reporter', attributes: ['id', 'name'] },
+  { association: 'assignee', attributes: ['id', 'name'] },
 ];
 
 export type WithIncludes = Ticket & {
-  tool?: Tool & { area?: Area };
-  module?: ToolModule | null;
-  reporter?: User | null;
-  assignee?: User | null;
+  tool?: {
+    code: string;
+    name: string;
+    areaId: number;
+    criticality: Criticality;
+    primaryEngineerId: number | null;
+    backupEngineerId: number | null;
+    area?: { id: number; name: string } | null;
+  };
+  module?: { id: number; code: string; name: string } | null;
+  reporter?: PersonRow | null;
+  assignee?: PersonRow | null;
 };
 
 export type TargetTable = Record<Priority, Target>;
@@ -135,12 +150,7 @@ export async function findTicket(id: number, transaction?: Transaction): Promise
 }
 
 export async function openToolStates(toolId: number, transaction?: Transaction): Promise<ToolStateView[]> {
-  // open_flag (1 only on open intervals) is indexed with the tool; `ended_at IS NULL` is not.
-  const open = await StateInterval.findAll({
-    where: { toolId, [Op.and]: [literal('`StateInterval`.`open_flag` = 1')] },
-    order: [['moduleId', 'ASC']],
-    transaction,
-  });
+  const open = await openIntervalsOf(toolId, transaction);
   return open.map((s) => ({
     moduleId: s.moduleId,
     state: s.state,
@@ -172,28 +182,12 @@ export async function getTicketDetail(deps: AppDeps, user: AuthUser, id: number)
   const { merged, ticketIds } = await timelineTicketIds(t.id);
   const timeline = await loadTimeline(deps.sequelize, { ticketId: t.id, ticketIds, staff });
 
-  const modules = await ToolModule.findAll({
-    where: { toolId: t.toolId, retiredAt: null },
-    order: [
-      ['sortOrder', 'ASC'],
-      ['id', 'ASC'],
-    ],
-    attributes: ['id', 'code', 'name'],
-  });
+  const modules = (await activeModules([t.toolId])).get(t.toolId) ?? [];
   const toolStates = await openToolStates(t.toolId);
   const table = await loadServiceTargets();
   const isReporter = t.reporterId === user.id;
-  const ctx = { role: user.role, isReporter, now: new Date(), resolvedAt: t.resolvedAt };
-  const actions: TicketDetail['allowedActions'] = allowedActions(t.status, ctx);
-  if (t.status !== 'merged') actions.push('comment');
-  if (isOpenStatus(t.status)) actions.push('add_report');
-  if (staff) {
-    actions.push('note');
-    if (isOpenStatus(t.status)) actions.push('assign', 'set_priority');
-    if (t.status !== 'merged') actions.push('set_state');
-    if (toolStates.some((s) => s.ticketId === t.id && s.source === 'user_report' && !s.confirmed))
-      actions.push('confirm_down', 'revert_down');
-  }
+  // The same policy the workflow enforces (ticket.policy.ts): the buttons are what the server accepts.
+  const actions = allowedTicketActions(user, { ...t.get(), awaitingConfirmation: awaitingConfirmation(t.id, toolStates).length > 0 });
   const priority = computePriority({
     impact: t.impact,
     hazards: t.hazards ?? [],
@@ -243,60 +237,9 @@ export async function findVisiblePhoto(user: AuthUser, id: number) {
 
 /** Staff who can be assigned, for the assignee picker. */
 export async function listStaff(q: { search?: string; limit: number }) {
-  const users = await User.findAll({
-    where: {
-      active: true,
-      role: { [Op.ne]: 'member' },
-      ...(q.search ? { name: { [Op.like]: `%${q.search.replace(/[%_\\]/g, (c) => `\\${c}`)}%` } } : {}),
-    },
-    attributes: ['id', 'name', 'role'],
-    order: [['name', 'ASC']],
-    limit: q.limit,
-  });
-  return users.map((u) => ({ id: u.id, name: u.name, role: u.role }));
+  const { items } = await searchStaff({ search: q.search, limit: q.limit });
+  return items.map((u) => ({ id: u.id, name: u.name, role: u.role }));
 }
 
 /** Tools to pick on the report form (by search text, exact code from a QR label, or id). */
-export async function listToolChoices(query: { q?: string; code?: string; id?: number; limit: number }) {
-  // The shared search rule (shared/search.ts) in SQL: code, name and bay name, ignoring case and separators.
-  const needle = query.q ? searchKey(query.q) : '';
-  const pattern = `%${needle.replace(/[\\%]/g, (c) => `\\${c}`)}%`;
-  const where = {
-    retiredAt: null,
-    ...(query.id ? { id: query.id } : {}),
-    ...(query.code ? { code: query.code.toUpperCase() } : {}),
-    ...(needle
-      ? {
-          [Op.or]: ['`Tool`.`code`', '`Tool`.`name`', '`area`.`name`'].map((column) =>
-            where_(literal(sqlSearchKey(column)), Op.like, pattern),
-          ),
-        }
-      : {}),
-  };
-  const tools = await Tool.findAll({
-    where,
-    include: [{ model: Area, as: 'area', attributes: ['id', 'name'] }],
-    attributes: ['id', 'code', 'name', 'areaId'],
-    order: [['name', 'ASC']],
-    limit: query.limit,
-  });
-  const modules = tools.length
-    ? await ToolModule.findAll({
-        where: { toolId: tools.map((t) => t.id), retiredAt: null },
-        order: [
-          ['sortOrder', 'ASC'],
-          ['id', 'ASC'],
-        ],
-        attributes: ['id', 'toolId', 'code', 'name'],
-      })
-    : [];
-  return {
-    items: tools.map((t) => ({
-      id: t.id,
-      code: t.code,
-      name: t.name,
-      areaName: (t as Tool & { area?: Area }).area?.name ?? null,
-      modules: modules.filter((m) => m.toolId === t.id).map((m) => ({ id: m.id, code: m.code, name: m.name })),
-    })),
-  };
-}
+export const listToolChoices = toolChoices;

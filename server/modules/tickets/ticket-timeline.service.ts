@@ -1,6 +1,5 @@
 import { QueryTypes, type Sequelize } from 'sequelize';
 import { Photo, Ticket } from './ticket.model';
-import { User } from '../users/user.model';
 import { notFound } from '../../lib/errors';
 import type { AppDeps, AuthUser } from '../../lib/http';
 import { isStaff } from '../../../shared/roles';
@@ -9,7 +8,12 @@ import type { PhotoView, TicketEventPage, TicketEventView } from '../../../share
 /** A ticket page shows its newest events; older ones load on request, a page at a time. */
 export const TIMELINE_PAGE = 200;
 
-function photoView(p: Photo & { uploader?: User | null }): PhotoView {
+interface PersonRow {
+  id: number;
+  name: string;
+}
+
+function photoView(p: Photo & { uploader?: PersonRow | null }): PhotoView {
   const u = p.uploader;
   return {
     id: p.id,
@@ -64,14 +68,14 @@ export async function loadTimeline(
   const photos = rows.length
     ? await Photo.findAll({
         where: { ticketId: opts.ticketIds, eventId: rows.map((e) => Number(e.id)) },
-        include: [{ model: User, as: 'uploader', attributes: ['id', 'name'] }],
+        include: [{ association: 'uploader', attributes: ['id', 'name'] }],
         order: [['id', 'ASC']],
       })
     : [];
   const photosByEvent = new Map<number, PhotoView[]>();
   for (const p of photos) {
     const list = photosByEvent.get(Number(p.eventId)) ?? [];
-    list.push(photoView(p as Photo & { uploader?: User | null }));
+    list.push(photoView(p as Photo & { uploader?: PersonRow | null }));
     photosByEvent.set(Number(p.eventId), list);
   }
   const events: TicketEventView[] = rows.map((e) => ({

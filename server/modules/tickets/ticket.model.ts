@@ -2,8 +2,6 @@ import { DataTypes, Model, type CreationOptional, type InferAttributes, type Inf
 import { TICKET_STATUSES, type TicketStatus } from '../../../shared/ticket-workflow';
 import { PRIORITIES, type Priority } from '../../../shared/priority';
 import { IMPACTS, WAIT_REASONS, FIX_KINDS, type Impact, type Hazard, type WaitReason, type FixKind } from '../../../shared/report-options';
-import { Tool, ToolModule } from '../facility/facility.model';
-import { User } from '../users/user.model';
 
 export class Ticket extends Model<InferAttributes<Ticket>, InferCreationAttributes<Ticket>> {
   declare id: CreationOptional<number>;
@@ -190,13 +188,6 @@ export function initTicketModels(sequelize: Sequelize) {
     { sequelize, tableName: 'service_targets', modelName: 'ServiceTarget' },
   );
 
-  Ticket.belongsTo(Tool, { as: 'tool', foreignKey: 'toolId' });
-  Ticket.belongsTo(ToolModule, { as: 'module', foreignKey: 'moduleId' });
-  Ticket.belongsTo(User, { as: 'reporter', foreignKey: 'reporterId' });
-  Ticket.belongsTo(User, { as: 'assignee', foreignKey: 'assigneeId' });
   Ticket.hasMany(TicketEvent, { as: 'events', foreignKey: 'ticketId' });
   Ticket.hasMany(Photo, { as: 'photos', foreignKey: 'ticketId' });
-  TicketEvent.belongsTo(User, { as: 'actor', foreignKey: 'actorId' });
-  Photo.belongsTo(User, { as: 'uploader', foreignKey: 'uploaderId' });
-  Tool.hasMany(Ticket, { as: 'tickets', foreignKey: 'toolId' });
 }

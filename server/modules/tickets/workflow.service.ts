@@ -1,20 +1,22 @@
-import { Op, type Transaction } from 'sequelize';
+import type { Transaction } from 'sequelize';
 import { Ticket } from './ticket.model';
-import { Tool, StateInterval } from '../facility/facility.model';
-import { User } from '../users/user.model';
-import { AppError, forbidden, notFound, badRequest } from '../../lib/errors';
+import { lockTool } from '../facility/tool-directory';
+import { confirmIntervals, handOverHeldIntervals, intervalBefore, intervalsHeldBy, requestStateChange } from '../facility/state.service';
+import { activePeople, peopleByIds, type Person } from '../users/user-directory';
+import { AppError, notFound, badRequest } from '../../lib/errors';
 import type { AppDeps, AuthUser } from '../../lib/http';
-import { appendEvent, changeStateForTicket, intervalsHeldBy } from './ticket-effects';
+import { appendEvent, changeStateForTicket, recordStateStep } from './ticket-effects';
 import { notifyUsers, ticketFollowers } from './ticket-notify';
 import { worseImpact } from './report.service';
 import { announceBoardTools } from '../facility/board.service';
-import { hasRole, isStaff } from '../../../shared/roles';
-import { ACTIONS, STATUS_LABELS, canPerform, isOpenStatus, type TicketAction, type TicketStatus } from '../../../shared/ticket-workflow';
+import { isStaff } from '../../../shared/roles';
+import { ACTIONS, STATUS_LABELS, isOpenStatus, type TicketAction, type TicketStatus } from '../../../shared/ticket-workflow';
 import { computePriority } from '../../../shared/priority';
 import { E10_LABELS, REASONS_BY_STATE, type StateReason } from '../../../shared/equipment-state';
 import { FIX_KIND_LABELS, WAIT_REASON_LABELS, type WaitReason } from '../../../shared/report-options';
-import { STAFF_ONLY_ACTIONS, type TicketActionData } from '../../../shared/schemas/tickets';
+import type { TicketActionData } from '../../../shared/schemas/tickets';
 import { returnToServiceProof } from '../maintenance/requal.service';
+import { authorizeTicketAction, awaitingConfirmation } from './ticket.policy';
 
 /** The client saved on top of a version someone else already changed. */
 export class StaleTicketError extends AppError {
@@ -37,30 +39,6 @@ const WAIT_STATE_REASON: Record<WaitReason, StateReason> = {
   facilities: 'facilities_related',
   user: 'maintenance_delay_user',
 };
-
-function checkPermission(user: AuthUser, ticket: Ticket, action: TicketActionData['action']) {
-  if ((STAFF_ONLY_ACTIONS as readonly string[]).includes(action)) {
-    if (!isStaff(user.role)) throw forbidden('Only technicians, managers and admins can do this.');
-    if (ticket.status === 'merged') throw new AppError(409, 'ticket_merged', `This ticket was merged into #${ticket.mergedIntoId}.`);
-    if ((action === 'assign' || action === 'set_priority') && !isOpenStatus(ticket.status))
-      throw new AppError(409, 'ticket_not_open', 'This ticket is no longer open.');
-    return;
-  }
-  if (!isWorkflowAction(action)) throw badRequest('Unknown action.');
-  const rule = ACTIONS[action];
-  if (!hasRole(user.role, rule.minimumRole)) {
-    throw forbidden(`Only technicians, managers and admins can ${rule.label.toLowerCase()} a ticket.`);
-  }
-  const result = canPerform(action, ticket.status, {
-    role: user.role,
-    isReporter: ticket.reporterId === user.id,
-    now: new Date(),
-    resolvedAt: ticket.resolvedAt,
-  });
-  if (result.ok) return;
-  if (!rule.from.includes(ticket.status)) throw new AppError(409, 'invalid_transition', result.reason);
-  throw forbidden(result.reason);
-}
 
 /** Keeps the reason of a Down held by this ticket in step with the ticket (repair or which delay). */
 /**
@@ -127,11 +105,13 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
     const bare = await Ticket.findByPk(ticketId, { attributes: ['id', 'toolId'], transaction });
     if (!bare) throw notFound('That ticket');
     // Same lock order as reports: the tool first, then the ticket.
-    const tool = await Tool.findByPk(bare.toolId, { transaction, lock: transaction.LOCK.UPDATE });
+    const tool = await lockTool(bare.toolId, transaction);
     const ticket = await Ticket.findByPk(ticketId, { transaction, lock: transaction.LOCK.UPDATE });
     if (!tool || !ticket) throw notFound('That ticket');
 
-    checkPermission(user, ticket, input.action);
+    const held = await intervalsHeldBy(ticket.id, transaction);
+    const pending = awaitingConfirmation(ticket.id, held);
+    authorizeTicketAction(user, { ...ticket.get(), awaitingConfirmation: pending.length > 0 }, input.action, new Date());
     if (ticket.version !== input.version) throw new StaleTicketError(ticket.id);
 
     const now = new Date();
@@ -287,18 +267,18 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
           transaction,
         );
         // A Down the merged report caused is now the target's to resolve.
-        await StateInterval.update({ ticketId: target.id }, { where: { ticketId: ticket.id, endedAt: null }, transaction });
+        await handOverHeldIntervals(ticket.id, target.id, transaction);
         touched.add(target.id);
         break;
       }
       case 'assign': {
-        let to: User | null = null;
+        let to: Person | null = null;
         if (input.assigneeId !== null) {
-          to = await User.findOne({ where: { id: input.assigneeId, active: true, role: { [Op.ne]: 'member' } }, transaction });
+          [to = null] = await activePeople([input.assigneeId], { staffOnly: true, transaction });
           if (!to)
             throw badRequest('Assign to an active technician, manager or admin.', { assigneeId: ['Not someone who can be assigned.'] });
         }
-        const before = ticket.assigneeId ? await User.findByPk(ticket.assigneeId, { attributes: ['id', 'name'], transaction }) : null;
+        const before = ticket.assigneeId ? ((await peopleByIds([ticket.assigneeId], transaction)).get(ticket.assigneeId) ?? null) : null;
         ticket.assigneeId = to?.id ?? null;
         await appendEvent(
           ticket.id,
@@ -334,28 +314,12 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
         ticket.priorityOverridden = true;
         break;
       case 'set_state': {
-        const reason = input.reason ?? REASONS_BY_STATE[input.state][0];
-        await changeStateForTicket(
-          deps,
-          ticket,
-          user.id,
-          {
-            toolId: tool.id,
-            moduleId: input.moduleId,
-            state: input.state,
-            reason,
-            note: input.note,
-            expectedReturnAt: input.expectedReturnAt,
-          },
-          transaction,
-        );
+        const change = await requestStateChange(deps, tool.id, input, { actorId: user.id, ticketId: ticket.id }, transaction);
+        await recordStateStep(ticket.id, user.id, change, change.current.note, transaction);
         break;
       }
       case 'confirm_down': {
-        const pending = (await intervalsHeldBy(ticket.id, transaction)).filter((s) => s.source === 'user_report' && !s.confirmed);
-        if (pending.length === 0) throw new AppError(409, 'nothing_to_confirm', 'There is no reported Down waiting for confirmation.');
-        // Confirming is not a new state, only a mark on the open interval; the log keeps one stretch.
-        await StateInterval.update({ confirmed: true }, { where: { id: pending.map((s) => s.id) }, transaction });
+        await confirmIntervals(deps, pending, transaction);
         await appendEvent(
           ticket.id,
           user.id,
@@ -363,23 +327,11 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
           { data: { intervals: pending.map((s) => ({ moduleId: s.moduleId, state: s.state, since: s.startedAt.toISOString() })) } },
           transaction,
         );
-        announceBoardTools(
-          deps,
-          pending.map((s) => s.toolId),
-          transaction,
-          { stateChange: true },
-        );
         break;
       }
       case 'revert_down': {
-        const pending = (await intervalsHeldBy(ticket.id, transaction)).filter((s) => s.source === 'user_report' && !s.confirmed);
-        if (pending.length === 0) throw new AppError(409, 'nothing_to_revert', 'There is no reported Down waiting for confirmation.');
         for (const s of pending) {
-          const before = await StateInterval.findOne({
-            where: { toolId: s.toolId, moduleId: s.moduleId, endedAt: s.startedAt },
-            order: [['startedAt', 'DESC']],
-            transaction,
-          });
+          const before = await intervalBefore(s, transaction);
           const state = before && before.state !== 'unscheduled_downtime' ? before.state : 'standby';
           const reason = before && before.state === state ? before.reason : REASONS_BY_STATE[state][0];
           await changeStateForTicket(

@@ -10,7 +10,7 @@ export function usersRoutes(): RouteSpec[] {
       access: 'admin',
       summary: 'List people',
       query: userListQuery,
-      handle: ({ query }) => listUsers(query),
+      handle: ({ query, user }) => listUsers(user!, query),
     }),
     route({
       method: 'post',
@@ -28,7 +28,7 @@ export function usersRoutes(): RouteSpec[] {
       summary: 'Change role, on-call, or disable',
       params: idParams,
       body: updateUserSchema,
-      handle: ({ deps, params, body, user }) => updateUser(deps, params.id, body, user!.id),
+      handle: ({ deps, params, body, user }) => updateUser(deps, params.id, body, user!),
     }),
   ];
 }

@@ -1,15 +1,17 @@
 import { Op, type WhereOptions } from 'sequelize';
 import { User } from './user.model';
 import { createAccountLink, LINK_LIFETIME_MS } from '../auth/account-links.service';
-import { SessionRow } from '../auth/session.model';
+import { endAllSessions } from '../auth/sessions.service';
+import { likePattern } from '../../lib/like-pattern';
 import { queueMail } from '../../lib/mailer';
 import { disconnectUser } from '../../lib/realtime';
-import { AppError, notFound } from '../../lib/errors';
-import type { AppDeps } from '../../lib/http';
+import { notFound } from '../../lib/errors';
+import type { AppDeps, AuthUser } from '../../lib/http';
+import { allowedUserActions, authorizeUserUpdate } from './user.policy';
 import type { InviteUserInput, UpdateUserInput } from '../../../shared/schemas/users';
 import type { Role } from '../../../shared/roles';
 
-export function presentUser(u: User) {
+export function presentUser(u: User, viewer: AuthUser) {
   return {
     id: u.id,
     email: u.email,
@@ -20,19 +22,21 @@ export function presentUser(u: User) {
     invited: !u.passwordHash,
     lastSignInAt: u.lastSignInAt?.toISOString() ?? null,
     createdAt: u.createdAt.toISOString(),
+    allowedActions: allowedUserActions(viewer, u),
   };
 }
 
-export async function listUsers(query: { q?: string; role?: Role; limit: number; offset: number }) {
+export async function listUsers(viewer: AuthUser, query: { q?: string; role?: Role; limit: number; offset: number }) {
   const where: WhereOptions<User> = {};
   if (query.role) Object.assign(where, { role: query.role });
-  if (query.q) Object.assign(where, { [Op.or]: [{ name: { [Op.like]: `%${query.q}%` } }, { email: { [Op.like]: `%${query.q}%` } }] });
+  if (query.q)
+    Object.assign(where, { [Op.or]: [{ name: { [Op.like]: likePattern(query.q) } }, { email: { [Op.like]: likePattern(query.q) } }] });
   const { rows, count } = await User.findAndCountAll({ where, order: [['name', 'ASC']], limit: query.limit, offset: query.offset });
-  return { items: rows.map(presentUser), total: count };
+  return { items: rows.map((u) => presentUser(u, viewer)), total: count };
 }
 
 /** Creates the account without a password and e-mails a link to choose one (valid 7 days). */
-export async function inviteUser(deps: AppDeps, input: InviteUserInput, invitedBy: { name: string }) {
+export async function inviteUser(deps: AppDeps, input: InviteUserInput, invitedBy: AuthUser) {
   return deps.sequelize.transaction(async (transaction) => {
     const user = await User.create(
       {
@@ -54,21 +58,19 @@ export async function inviteUser(deps: AppDeps, input: InviteUserInput, invitedB
       },
       transaction,
     );
-    return presentUser(user);
+    return presentUser(user, invitedBy);
   });
 }
 
 /** Changes a user; disabling ends every session and socket of that user at once. */
-export async function updateUser(deps: AppDeps, id: number, input: UpdateUserInput, actorId: number) {
+export async function updateUser(deps: AppDeps, id: number, input: UpdateUserInput, actor: AuthUser) {
   const user = await User.findByPk(id);
   if (!user) throw notFound('User');
-  if (id === actorId && (input.active === false || (input.role && input.role !== 'admin'))) {
-    throw new AppError(409, 'cannot_demote_self', 'You cannot disable yourself or take away your own admin role.');
-  }
+  authorizeUserUpdate(actor, user, input);
   await deps.sequelize.transaction(async (transaction) => {
     await user.update(input, { transaction });
-    if (input.active === false || input.role) await SessionRow.destroy({ where: { userId: id }, transaction });
+    if (input.active === false || input.role) await endAllSessions(id, transaction);
   });
   if (input.active === false || input.role) disconnectUser(id);
-  return presentUser(user);
+  return presentUser(user, actor);
 }

@@ -6,59 +6,50 @@ interface AdminPage {
   to: string;
   title: string;
   text: string;
-  /** Whether the page exists; whoever builds one of the listed pages flips it to true. */
-  ready: boolean;
 }
 
-// One line per admin page. Cards for pages not built yet stay hidden until `ready` flips.
+// One line per admin page.
 const ADMIN_PAGES: readonly AdminPage[] = [
   {
     to: '/admin/settings',
     title: 'Facility settings',
     text: 'Name, time zone, emergency number and local procedure shown with hazard cautions, and who may read tickets.',
-    ready: true,
   },
-  { to: '/admin/users', title: 'Users', text: 'Invite people, set roles and on-call duty, disable accounts.', ready: true },
+  { to: '/admin/users', title: 'Users', text: 'Invite people, set roles and on-call duty, disable accounts.' },
   {
     to: '/admin/facility',
     title: 'Tools and areas',
     text: 'Bays and rooms, the tools in them, their modules and who looks after each tool.',
-    ready: true,
   },
   {
     to: '/admin/displays',
     title: 'Lobby displays',
     text: 'Links that show the live board full screen on a screen at the cleanroom entrance.',
-    ready: true,
   },
   {
     to: '/admin/service-targets',
     title: 'Service targets',
     text: 'How fast each priority should be acknowledged and restored.',
-    ready: true,
   },
   {
     to: '/labels',
     title: 'QR labels',
     text: 'A printable sheet of QR labels, one per tool, that open the tool’s page on a phone.',
-    ready: true,
   },
   {
     to: '/admin/mail',
     title: 'Mail',
     text: 'E-mail that has not gone out yet (send it again), and what the demo’s local mail catcher caught.',
-    ready: true,
   },
 ];
 
 export function AdminHomePage() {
-  const pages = ADMIN_PAGES.filter((page) => page.ready);
   return (
     <>
       <title>Admin · Faultline</title>
       <PageHeader title="Admin" description="Setting up the facility in Faultline: people, and the places and tools they report on." />
       <ul className="grid gap-4 sm:grid-cols-2 xl:grid-cols-3">
-        {pages.map((page) => (
+        {ADMIN_PAGES.map((page) => (
           <Card as="li" key={page.to} title={page.title} className="flex flex-col" data-testid="admin-card">
             <p className="text-sm leading-relaxed text-muted">{page.text}</p>
             <Link to={page.to} className="mt-3 inline-flex min-h-11 items-center font-semibold">

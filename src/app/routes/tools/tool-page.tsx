@@ -1,12 +1,12 @@
 import { Link, useParams } from 'react-router';
 import { hasRole } from '@shared/roles';
+import { useSession } from '@/features/auth/api/get-session';
 import { PageHeader } from '@/components/layout/page-header';
 import { Alert } from '@/components/ui/alert';
 import { Button, buttonClasses } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { PageSpinner } from '@/components/ui/spinner';
 import { isApiError } from '@/lib/api-client';
-import { useSession } from '@/features/auth/api/get-session';
 import { useTool } from '@/features/tools/api/get-tool';
 import { AvailabilityPanel } from '@/features/tools/components/availability-panel';
 import { ChangeStateForm } from '@/features/tools/components/change-state-form';
@@ -125,7 +125,7 @@ export function ToolPage() {
         </div>
 
         <div className="flex min-w-0 flex-col gap-6">
-          {staff && !retired && (
+          {t.allowedActions.includes('change_state') && (
             <Card as="section" title="Change the state">
               <ChangeStateForm toolId={t.id} modules={t.modules} />
             </Card>

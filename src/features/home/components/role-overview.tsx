@@ -1,7 +1,7 @@
 import { Link } from 'react-router';
 import { hasRole, type Role } from '@shared/roles';
 import { Card } from '@/components/ui/card';
-import { readyPath } from '@/components/layout/nav-items';
+import { openablePath } from '@/components/layout/nav-items';
 import { HOME_SECTIONS } from '@/features/home/components/home-cards';
 
 /** The things a person can do here, their own role's work first and everyone's last. */
@@ -16,7 +16,7 @@ export function RoleOverview({ role }: { role: Role }) {
           </h2>
           <ul className="grid gap-4 sm:grid-cols-2 xl:grid-cols-4">
             {section.cards.map((card) => {
-              const href = readyPath(card.to, role);
+              const href = openablePath(card.to, role);
               return (
                 <Card as="li" key={card.title} data-testid="home-card" title={card.title} headingLevel={3} className="flex flex-col">
                   <p className="text-sm leading-relaxed text-muted">{card.text}</p>

@@ -1,5 +1,6 @@
 import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import type { Role } from '@shared/roles';
+import type { UserAction } from '@shared/schemas/users';
 import { api } from '@/lib/api-client';
 import { userKeys, type UserListFilters } from '@/features/users/api/user-keys';
 
@@ -15,6 +16,8 @@ export interface AdminUser {
   invited: boolean;
   lastSignInAt: string | null;
   createdAt: string;
+  /** What the signed-in admin may do to this account (server/modules/users/user.policy.ts). */
+  allowedActions: UserAction[];
 }
 
 export interface UserList {

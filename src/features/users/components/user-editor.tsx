@@ -16,16 +16,18 @@ function describeFailure(error: unknown): string {
 }
 
 export interface UserEditorProps {
+  /** Carries allowedActions from the user policy (server/modules/users/user.policy.ts). */
   user: AdminUser;
-  /** The signed-in administrator's own row: their role and access stay as they are. */
-  isSelf: boolean;
   /** Called after a successful change, with a sentence to announce. */
   onSaved: (message: string) => void;
   onClose: () => void;
 }
 
 /** Role, on-call and access of one person, with a confirm step before access changes. */
-export function UserEditor({ user, isSelf, onSaved, onClose }: UserEditorProps) {
+export function UserEditor({ user, onSaved, onClose }: UserEditorProps) {
+  // What the server will accept, as its policy says: one's own role and access stay as they are.
+  const mayChangeRole = user.allowedActions.includes('change_role');
+  const mayChangeAccess = user.allowedActions.includes(user.active ? 'disable' : 'enable');
   const update = useUpdateUser();
   const [role, setRole] = useState<Role>(user.role);
   const [onCall, setOnCall] = useState(user.onCall);
@@ -74,9 +76,9 @@ export function UserEditor({ user, isSelf, onSaved, onClose }: UserEditorProps) 
           name="role"
           options={ROLE_OPTIONS}
           value={role}
-          disabled={isSelf || update.isPending}
+          disabled={!mayChangeRole || update.isPending}
           hint={
-            isSelf
+            !mayChangeRole
               ? 'You cannot take away your own administrator role; another administrator can.'
               : 'Changing the role signs the person out everywhere, so the new role applies at once.'
           }
@@ -112,7 +114,7 @@ export function UserEditor({ user, isSelf, onSaved, onClose }: UserEditorProps) 
 
       <div className="border-t border-line pt-4">
         <h4 className="text-sm font-semibold text-ink">Access</h4>
-        {isSelf ? (
+        {!mayChangeAccess ? (
           <p className="mt-1 text-sm text-muted">You cannot disable your own account; another administrator can.</p>
         ) : confirming ? (
           <Alert

@@ -109,7 +109,6 @@ export function UsersTable({ users, currentUserId, onSaved, caption }: UsersTabl
                   <td colSpan={6} className="px-4 pb-4">
                     <UserEditor
                       user={user}
-                      isSelf={isSelf}
                       onClose={() => setOpenId(null)}
                       onSaved={(message) => {
                         setOpenId(null);
