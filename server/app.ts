@@ -15,11 +15,19 @@ import { sessionLifetime, csrfProtection } from './modules/auth/session-middlewa
 import { anonymousRateLimit } from './lib/throttle';
 import { verifyDisplayKey } from './modules/facility/display-links.service';
 import type { MailCatcher } from './lib/mail-catcher';
+import type { SmsFake } from './lib/sms-fake';
+import { smsMode } from './lib/sms';
+import { smsWebhookRoutes } from './modules/oncall/oncall.routes';
+import { smsWebhookAuth, SMS_WEBHOOK_PATH } from './modules/oncall/sms-webhook';
 
 export interface AppOptions {
   session: RequestHandler;
   passport: PassportStatic;
   catcher: MailCatcher | null;
+  /** The local SMS fake, when it runs in this process (demo and tests). */
+  smsFake?: SmsFake | null;
+  /** The key inbound texts must be signed with (the provider's, or the fake's). */
+  smsWebhookKey?: string | null;
   /** Built client to serve (absent in API-only tests and in `npm run dev`). */
   distDir?: string;
 }
@@ -106,6 +114,9 @@ export function createApp(deps: AppDeps, opts: AppOptions) {
   // Tools post with their own key, before sessions and CSRF; 500 events fit in 1 MB.
   api.use('/ingest/v1', toolKeyAuth(log), express.json({ limit: '1mb' }));
   mountRoutes(api, '', ingestRoutes(config.DB_POOL_MAX), deps, registry);
+  // The SMS provider posts replies with its signature over the raw body, before sessions and CSRF.
+  api.use(SMS_WEBHOOK_PATH, ...smsWebhookAuth(opts.smsWebhookKey ?? null, log));
+  mountRoutes(api, '', smsWebhookRoutes(), deps, registry);
   api.use(express.json({ limit: '200kb' }));
   api.use(opts.session);
   api.use(opts.passport.initialize());
@@ -127,7 +138,13 @@ export function createApp(deps: AppDeps, opts: AppOptions) {
   // Signed-out visitors keep no session row; this bounds what one address can make us do.
   api.use(anonymousRateLimit({ limit: config.ANONYMOUS_REQUESTS_PER_MINUTE, log }));
   api.use(csrfProtection(config, log));
-  mountRoutes(api, '', apiRoutes({ log, catcher: opts.catcher, config }), deps, registry);
+  mountRoutes(
+    api,
+    '',
+    apiRoutes({ log, catcher: opts.catcher, config, smsFake: opts.smsFake ?? null, smsMode: () => smsMode(config, !!opts.smsFake) }),
+    deps,
+    registry,
+  );
   api.use((_req, _res, next) => next(new AppError(404, 'not_found', 'There is no such API route.')));
   app.use('/api', api);
 

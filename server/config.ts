@@ -75,6 +75,23 @@ const configSchema = z.object({
   /** How often the maintenance scheduler looks for plans coming due; 0 turns it off in this process. */
   MAINTENANCE_SCHEDULER_MS: z.coerce.number().int().min(0).default(60_000),
 
+  // Pages by SMS (decision 0008). With SMS_FAKE the local fake (server/lib/sms-fake.ts) runs in
+  // the process and takes the texts; with SMS_API_KEY texts go to the provider; with neither,
+  // pages go by e-mail and in-app notice only.
+  SMS_FAKE: bool.default(false),
+  SMS_FAKE_PORT: z.coerce.number().int().min(0).max(65535).default(2526),
+  SMS_API_KEY: z.string().min(1).optional(),
+  /** The provider's API address (its SDK's default when unset); the fake sets its own. */
+  SMS_BASE_URL: z.url().optional(),
+  /** The number (or sender id) texts come from. */
+  SMS_FROM: z.string().min(1).max(20).default('+15555550100'),
+  /** The provider's public key for inbound webhook signatures (Ed25519, base64); the fake supplies its own. */
+  SMS_WEBHOOK_PUBLIC_KEY: z.string().optional(),
+  /** How often the escalation pass looks for pages nobody acknowledged; 0 turns it off in this process. */
+  ONCALL_PASS_MS: z.coerce.number().int().min(0).default(15_000),
+  /** Minutes before the next step is paged, until an admin sets it per severity. */
+  ONCALL_STEP_MINUTES: z.coerce.number().int().min(1).max(240).default(10),
+
   /** Who runs this server, for push services (VAPID subject: a mailto: or https: address). */
   PUSH_SUBJECT: z
     .string()

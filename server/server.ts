@@ -21,12 +21,18 @@ import { photoSweeper } from './modules/tickets/photo-sweep';
 import { warnAdminsOfLateMail } from './modules/mail/mail.service';
 import { AlarmSweeper } from './modules/alarms/sweep';
 import { startScheduler } from './modules/maintenance/scheduler';
+import { SmsFake } from './lib/sms-fake';
+import { createSmsClient, SmsWorker } from './lib/sms';
+import { startEscalationClock } from './modules/oncall/escalation.service';
+import { SMS_WEBHOOK_PATH } from './modules/oncall/sms-webhook';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
 export interface StartOptions {
   /** Start the in-process SMTP catcher on SMTP_PORT (demo and development). */
   catcher?: MailCatcher | null;
+  /** The local SMS fake (default: one on SMS_FAKE_PORT when SMS_FAKE is set; tests pass their own). */
+  smsFake?: SmsFake | null;
   /** Run the outbox worker in this process (default true). */
   outboxWorker?: boolean;
   /** Answer "mail me a link" requests in the background (default true; tests may run passes by hand). */
@@ -47,6 +53,10 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
 
   const catcher = opts.catcher ?? null;
   if (catcher) await catcher.start();
+  const smsFake = opts.smsFake !== undefined ? opts.smsFake : config.SMS_FAKE ? new SmsFake(config.SMS_FAKE_PORT, '127.0.0.1') : null;
+  if (smsFake && !smsFake.running) await smsFake.start();
+  // With the fake, its test key signs replies; otherwise the provider's public key from the settings.
+  const smsWebhookKey = smsFake ? smsFake.publicKey : (config.SMS_WEBHOOK_PUBLIC_KEY ?? null);
 
   const { middleware: session } = createSessionMiddleware(config, sequelize);
   const passport = configurePassport();
@@ -54,6 +64,8 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     session,
     passport,
     catcher,
+    smsFake,
+    smsWebhookKey,
     distDir: opts.serveClient === false ? undefined : (opts.distDir ?? path.join(root, 'dist')),
   });
   const accountMail = new AccountMailQueue(deps);
@@ -83,10 +95,23 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     afterPass: () => warnAdminsOfLateMail(deps),
   });
   const pushWorker = new PushWorker(deps, config, log);
+  // Texts go through their own outbox with the same machinery; with neither fake nor provider
+  // credentials no texts are queued (pages go by mail and in-app notice).
+  const smsWorker =
+    smsFake || config.SMS_API_KEY
+      ? new SmsWorker(createSmsClient(config, smsFake ? { baseUrl: smsFake.baseUrl, apiKey: smsFake.apiKey } : null), config, log, {
+          pollMs: config.OUTBOX_POLL_MS,
+          baseBackoffMs: config.OUTBOX_BASE_BACKOFF_MS,
+          leaseMs: config.OUTBOX_LEASE_MS,
+        })
+      : null;
   if (opts.outboxWorker !== false) {
     worker.start();
     pushWorker.start();
+    smsWorker?.start();
   }
+  const escalationClock =
+    config.ONCALL_PASS_MS > 0 && opts.outboxWorker !== false ? startEscalationClock(deps, config.ONCALL_PASS_MS) : null;
   const alarmSweeper = new AlarmSweeper(deps);
   if (opts.outboxWorker !== false) alarmSweeper.start();
   const maintenanceScheduler = config.MAINTENANCE_SCHEDULER_MS > 0 ? startScheduler(deps, config.MAINTENANCE_SCHEDULER_MS) : null;
@@ -104,6 +129,8 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     await alarmSweeper.stop();
     await maintenanceScheduler?.stop();
     await pushWorker.stop();
+    await smsWorker?.stop();
+    await escalationClock?.stop();
     stopPruning();
   }
 
@@ -121,11 +148,13 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     await new Promise<void>((resolve) => io.close(() => resolve()));
     await redis?.close();
     if (catcher) await catcher.stop();
+    if (smsFake && opts.smsFake === undefined) await smsFake.stop();
     await releaseSequelize(sequelize);
     throw error;
   }
   const address = server.address();
   const port = typeof address === 'object' && address ? address.port : config.PORT;
+  if (smsFake) smsFake.webhookUrl = `http://127.0.0.1:${port}/api${SMS_WEBHOOK_PATH}`;
 
   let closed = false;
   async function close() {
@@ -140,8 +169,24 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     server.closeAllConnections?.();
     await new Promise<void>((resolve) => server.close(() => resolve()));
     if (catcher) await catcher.stop();
+    if (smsFake && opts.smsFake === undefined) await smsFake.stop();
     await releaseSequelize(sequelize);
   }
 
-  return { app, server, io, deps, worker, pushWorker, accountMail, sweeper, catcher, port, url: `http://${config.HOST}:${port}`, close };
+  return {
+    app,
+    server,
+    io,
+    deps,
+    worker,
+    pushWorker,
+    smsWorker,
+    smsFake,
+    accountMail,
+    sweeper,
+    catcher,
+    port,
+    url: `http://${config.HOST}:${port}`,
+    close,
+  };
 }

@@ -9,6 +9,7 @@ import { initAlarmModels } from '../modules/alarms/alarms.model';
 import { initMaintenanceModels } from '../modules/maintenance/maintenance.model';
 import { initSettingsModel } from '../modules/settings/settings.model';
 import { initPushModels } from '../modules/push/push.model';
+import { initOncallModels } from '../modules/oncall/oncall.model';
 
 /** Binds every model to the one Sequelize instance of this process. Order matters for associations. */
 export function initModels(sequelize: Sequelize) {
@@ -22,4 +23,5 @@ export function initModels(sequelize: Sequelize) {
   initMaintenanceModels(sequelize);
   initSettingsModel(sequelize);
   initPushModels(sequelize);
+  initOncallModels(sequelize);
 }

@@ -21,8 +21,9 @@ export interface AppDeps {
  * - a role: signed in with at least that role (member < technician < manager < admin)
  * - 'display': a signed-in member OR a lobby display key (read-only board data)
  * - 'tool': a tool's API key (Authorization: Bearer); only the ingest API uses it
+ * - 'webhook': a provider's webhook whose signature checked out (the SMS provider's inbound texts)
  */
-export type Access = 'public' | 'display' | 'tool' | Role;
+export type Access = 'public' | 'display' | 'tool' | 'webhook' | Role;
 
 export interface AuthUser {
   id: number;
@@ -41,6 +42,8 @@ declare global {
       displayLinkId?: number;
       /** Set by the tool-key middleware on the ingest API. */
       toolKey?: { id: number; toolId: number };
+      /** Set when a provider's webhook signature checked out (server/modules/oncall/sms-webhook.ts). */
+      signedWebhook?: boolean;
     }
   }
 }
@@ -103,6 +106,10 @@ export function requireAccess(access: Access, log: Logger): RequestHandler {
       if (req.toolKey) return next();
       securityLog(log, req, 'unauthenticated');
       return next(unauthorized('Send the tool’s key: Authorization: Bearer <key>.'));
+    }
+    if (access === 'webhook') {
+      if (req.signedWebhook) return next();
+      return next(unauthorized('The webhook signature is missing or does not match.'));
     }
     if (access === 'display' && (req.user || req.displayLinkId)) return next();
     if (!req.user) {

@@ -29,7 +29,8 @@ export type SecurityEvent =
   | 'session_expired'
   | 'account_mail_requested'
   | 'account_link_refused'
-  | 'password_changed';
+  | 'password_changed'
+  | 'webhook_signature_refused';
 
 // Path segments that look like a link token (32 random bytes in base64url, or longer keys).
 const TOKEN_SEGMENT = /\/[A-Za-z0-9_-]{32,}(?=\/|$)/g;

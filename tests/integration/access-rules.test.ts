@@ -37,7 +37,7 @@ describe('access rules', () => {
     expect(routes.length).toBeGreaterThan(5);
     // Only the client's catch-all (absent in API-only tests) may exist outside the registry.
     expect(countExpressRoutes(server.app)).toBe(routes.length);
-    for (const r of routes) expect(['public', 'display', 'tool', ...ROLES]).toContain(r.access);
+    for (const r of routes) expect(['public', 'display', 'tool', 'webhook', ...ROLES]).toContain(r.access);
   });
 
   it('when nobody is signed in, then every route that is not public answers 401', async () => {
@@ -55,7 +55,8 @@ describe('access rules', () => {
   it('when a member calls a route that needs a higher role, then 403', async () => {
     const { client } = await signedInClient(server.url, 'member');
     const staffOnly = routes.filter(
-      (r) => r.access !== 'public' && r.access !== 'display' && r.access !== 'tool' && !hasRole('member', r.access),
+      (r) =>
+        r.access !== 'public' && r.access !== 'display' && r.access !== 'tool' && r.access !== 'webhook' && !hasRole('member', r.access),
     );
     expect(staffOnly.length).toBeGreaterThan(0);
     for (const r of staffOnly) {

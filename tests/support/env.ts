@@ -23,6 +23,8 @@ export function testConfig(overrides: Record<string, string> = {}): Config {
       OUTBOX_POLL_MS: '200',
       // Tests run maintenance scheduler passes themselves, when they need one.
       MAINTENANCE_SCHEDULER_MS: '0',
+      // …and escalation passes (runEscalationPass with a clock), instead of waiting minutes.
+      ONCALL_PASS_MS: '0',
       // Mail goes out at once in tests; folding gets its own test.
       MAIL_FOLD_MS: '0',
       // Every test signs in from 127.0.0.1; the per-address limit gets its own test.

@@ -17,6 +17,8 @@ export async function startTestServer(
     outboxWorker?: boolean;
     accountMailQueue?: boolean;
     logDestination?: import('pino').DestinationStream;
+    /** A local SMS fake for pages (none by default). */
+    smsFake?: import('../../server/lib/sms-fake').SmsFake;
   } = {},
 ) {
   // A browser's Origin must be the public address (the CSRF check accepts no other), so a
@@ -35,6 +37,7 @@ export async function startTestServer(
     outboxWorker: opts.outboxWorker,
     accountMailQueue: opts.accountMailQueue,
     logDestination: opts.logDestination,
+    smsFake: opts.smsFake ?? null,
   });
   return { ...running, config, catcher, url: `http://127.0.0.1:${running.port}` };
 }

@@ -5,6 +5,8 @@ import { User } from '../users/user.model';
 import type { AppDeps } from '../../lib/http';
 import { appendEvent, changeStateForTicket, openInterval } from './ticket-effects';
 import { notifyUsers } from './ticket-notify';
+import { startEscalation } from '../oncall/escalation.service';
+import { onCallRecipients } from '../oncall/rota.service';
 import { queueMail } from '../../lib/mailer';
 import { createNotices } from '../notices/notices.service';
 import { isStaff } from '../../../shared/roles';
@@ -130,11 +132,25 @@ export async function openAlarmTicket(deps: AppDeps, input: AlarmTicketInput, tr
 
   let told: number[] = [];
   if (input.safety) {
-    const onCall = await User.findAll({ where: { onCall: true, active: true }, attributes: ['id'], transaction });
+    const details = [
+      `${where(tool)} reported a ${categoryLabel?.toLowerCase() ?? 'safety'} alarm (${input.alarmId}): ${input.alarmText}.`,
+      '',
+      'Faultline records and passes on what the tool reports; it does not replace the facility’s alarm systems or emergency response.',
+      'The usual cautions:',
+      ...HAZARD_CAUTIONS.map((c) => `- ${c}`),
+    ].join('\n');
+    // Safety alarms page like hazard reports; the mail below is for when nobody could be paged.
+    told = await startEscalation(
+      deps,
+      { ticketId: ticket.id, toolId: tool.id, severity: 'hazard', headline: `Safety alarm at ${where(tool)}: ${input.alarmText}`, details },
+      transaction,
+    );
+  }
+  if (input.safety && told.length === 0) {
     told = await notifyUsers(
       deps,
       {
-        userIds: onCall.map((u) => u.id),
+        userIds: await onCallRecipients(new Date(), transaction),
         kind: 'ticket.hazard',
         title: `Safety alarm at ${where(tool)}: ${input.alarmText} — #${ticket.id}`.slice(0, 255),
         text: [
@@ -242,7 +258,11 @@ export async function tellToolEngineers(
   const tool = await Tool.findByPk(input.toolId, { transaction });
   if (!tool) return [];
   const ids = [tool.primaryEngineerId, tool.backupEngineerId].filter((x): x is number => x !== null);
-  const users = await User.findAll({ where: input.onCall ? { onCall: true, active: true } : { id: ids, active: true }, transaction });
+  // The on-call part of the list is the rota's concern (whoever is on call now; the on-call flag fills a gap).
+  const users = await User.findAll({
+    where: input.onCall ? { id: await onCallRecipients(new Date(), transaction), active: true } : { id: ids, active: true },
+    transaction,
+  });
   const recipients = input.onCall ? [...users, ...(await User.findAll({ where: { id: ids, active: true }, transaction }))] : users;
   const unique = [...new Map(recipients.map((u) => [u.id, u])).values()];
   if (unique.length === 0) return [];

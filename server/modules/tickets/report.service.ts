@@ -237,6 +237,7 @@ export async function createReport(deps: AppDeps, user: AuthUser, input: ReportD
           deps,
           {
             ticketId: ticket.id,
+            toolId: locked.id,
             toolName: locked.name,
             toolCode: locked.code,
             hazards: input.hazards,
@@ -340,6 +341,7 @@ export async function addReport(deps: AppDeps, user: AuthUser, ticketId: number,
           deps,
           {
             ticketId: ticket.id,
+            toolId: tool.id,
             toolName: tool.name,
             toolCode: tool.code,
             hazards: newHazards,

@@ -7,6 +7,8 @@ import type { AppDeps } from '../../lib/http';
 import { HAZARD_LABELS, type Hazard } from '../../../shared/report-options';
 import { cautionLines, cautionsFor } from '../../../shared/hazard-cautions';
 import { getFacilitySettings } from '../settings/settings.service';
+import { pagesAtThisHour, startEscalation } from '../oncall/escalation.service';
+import { onCallRecipients } from '../oncall/rota.service';
 
 export const ticketLink = (deps: AppDeps, ticketId: number) => `${deps.config.publicUrl}/tickets/${ticketId}`;
 
@@ -69,11 +71,18 @@ export async function notifyUsers(deps: AppDeps, n: Notification, transaction: T
   return users.map((u) => u.id);
 }
 
-/** A hazard goes to everyone on call at once, with the cautions for what was named in the message. */
+/**
+ * A hazard pages the person on call at once (text and mail with a single-use acknowledge link,
+ * then the backup and the manager while nobody answers; server/modules/oncall). When nobody
+ * could be paged (a gap in the rota, or the ticket is already being escalated), the on-call
+ * mail goes out as before, to whoever the rota (or, in a gap, the on-call flag) names.
+ * Returns who was told, so they get no second mail about the same report.
+ */
 export async function notifyOnCall(
   deps: AppDeps,
   input: {
     ticketId: number;
+    toolId: number;
     toolName: string;
     toolCode: string;
     hazards: readonly Hazard[];
@@ -82,28 +91,51 @@ export async function notifyOnCall(
   },
   transaction: Transaction,
 ) {
-  const onCall = await User.findAll({ where: { onCall: true, active: true }, attributes: ['id'], transaction });
   const hazards = input.hazards.map((h) => HAZARD_LABELS[h].toLowerCase()).join(', ');
   const cautions = cautionsFor(input.hazards, await getFacilitySettings(deps, transaction));
+  const title = `Safety report: ${hazards} at ${input.toolName} (${input.toolCode}) — #${input.ticketId}`;
+  const text = [
+    `A report on ${input.toolName} (${input.toolCode}) names a hazard: ${hazards}.`,
+    '',
+    input.description,
+    '',
+    'Cautions:',
+    ...cautionLines(cautions),
+  ].join('\n');
+  const paged = await startEscalation(
+    deps,
+    {
+      ticketId: input.ticketId,
+      toolId: input.toolId,
+      severity: 'hazard',
+      headline: `Safety report: ${hazards} at ${input.toolName} (${input.toolCode})`,
+      details: text,
+    },
+    transaction,
+  );
+  if (paged.length) return paged;
   return notifyUsers(
     deps,
     {
-      userIds: onCall.map((u) => u.id),
+      userIds: await onCallRecipients(new Date(), transaction),
       exceptUserId: input.exceptUserId,
       kind: 'ticket.hazard',
-      title: `Safety report: ${hazards} at ${input.toolName} (${input.toolCode}) — #${input.ticketId}`,
-      text: [
-        `A report on ${input.toolName} (${input.toolCode}) names a hazard: ${hazards}.`,
-        '',
-        input.description,
-        '',
-        'Cautions:',
-        ...cautionLines(cautions),
-      ].join('\n'),
+      title,
+      text,
       ticketId: input.ticketId,
     },
     transaction,
   );
+}
+
+/** A P1 ticket without a hazard pages only inside the night window (facility time); returns who was paged. */
+export async function pageP1AtNight(
+  deps: AppDeps,
+  input: { ticketId: number; toolId: number; headline: string; details: string },
+  transaction: Transaction,
+) {
+  if (!(await pagesAtThisHour(deps, new Date(), transaction))) return [];
+  return startEscalation(deps, { ...input, severity: 'p1' }, transaction);
 }
 
 /**

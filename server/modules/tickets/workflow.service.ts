@@ -5,7 +5,7 @@ import { User } from '../users/user.model';
 import { AppError, forbidden, notFound, badRequest } from '../../lib/errors';
 import type { AppDeps, AuthUser } from '../../lib/http';
 import { appendEvent, changeStateForTicket, intervalsHeldBy } from './ticket-effects';
-import { notifyUsers, ticketFollowers } from './ticket-notify';
+import { notifyUsers, pageP1AtNight, ticketFollowers } from './ticket-notify';
 import { worseImpact } from './report.service';
 import { announceBoardTools } from '../facility/board.service';
 import { hasRole, isStaff } from '../../../shared/roles';
@@ -330,6 +330,18 @@ export async function performAction(deps: AppDeps, user: AuthUser, ticketId: num
           { body: input.reason, data: { from: ticket.priority, to: input.priority } },
           transaction,
         );
+        // Raised to P1 without a hazard (hazards page already): the on-call person is paged at night only.
+        if (input.priority === 'P1' && ticket.priority !== 'P1' && ticket.hazards.length === 0)
+          await pageP1AtNight(
+            deps,
+            {
+              ticketId: ticket.id,
+              toolId: tool.id,
+              headline: `P1 on ${tool.name} (${tool.code}): ${ticket.title}`,
+              details: `${user.name} raised ticket #${ticket.id} on ${tool.name} (${tool.code}) to P1: ${ticket.title}${input.reason ? `\n\n${input.reason}` : ''}`,
+            },
+            transaction,
+          );
         ticket.priority = input.priority;
         ticket.priorityOverridden = true;
         break;
