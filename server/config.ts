@@ -82,7 +82,24 @@ const configSchema = z.object({
     .default('mailto:faultline@facility.invalid'),
   /** A PEM file of extra certificate authorities to trust for push services (a local fake's). */
   PUSH_CA_FILE: z.string().optional(),
+  /** Local folder for part files while they arrive, and for the photos themselves when PHOTO_STORAGE=local. */
   UPLOAD_DIR: z.string().default('uploads'),
+  /** Where photos are kept: 'local' (UPLOAD_DIR) or 's3' (an S3-compatible bucket every process reaches). */
+  PHOTO_STORAGE: z.enum(['local', 's3']).default('local'),
+  /** An S3-compatible endpoint (unset: the provider's own endpoint for S3_REGION). */
+  S3_ENDPOINT: z.url().optional(),
+  S3_BUCKET: z.string().min(3).max(63).optional(),
+  S3_REGION: z.string().min(1).default('us-east-1'),
+  /** Unset: the SDK's own credential chain (environment, shared files, instance role). */
+  S3_ACCESS_KEY_ID: z.string().min(1).optional(),
+  S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
+  /** bucket in the path (endpoint/bucket/key) rather than in the host name; most self-hosted stores want it. */
+  S3_FORCE_PATH_STYLE: bool.default(false),
+  /** Photos' keys start with this (several installations can share one bucket). */
+  S3_PREFIX: z
+    .string()
+    .regex(/^([A-Za-z0-9_.-]+\/)*$/, 'S3_PREFIX is empty or folder names each ending in /, e.g. photos/')
+    .default('photos/'),
   /** Uploads with photos one account may send at once, and that one process receives at once. */
   UPLOADS_PER_ACCOUNT: z.coerce.number().int().positive().default(2),
   UPLOADS_AT_ONCE: z.coerce.number().int().positive().default(8),
@@ -92,10 +109,21 @@ const configSchema = z.object({
   REDIS_URL: z.url().optional(),
 });
 
+const checkedSchema = configSchema.superRefine((c, ctx) => {
+  if (c.PHOTO_STORAGE === 's3' && !c.S3_BUCKET)
+    ctx.addIssue({ code: 'custom', path: ['S3_BUCKET'], message: 'PHOTO_STORAGE=s3 needs S3_BUCKET (the bucket that holds the photos)' });
+  if (!c.S3_ACCESS_KEY_ID !== !c.S3_SECRET_ACCESS_KEY)
+    ctx.addIssue({
+      code: 'custom',
+      path: [c.S3_ACCESS_KEY_ID ? 'S3_SECRET_ACCESS_KEY' : 'S3_ACCESS_KEY_ID'],
+      message: 'S3_ACCESS_KEY_ID and S3_SECRET_ACCESS_KEY are set together (or both left unset for the SDK’s own credentials)',
+    });
+});
+
 export type Config = z.infer<typeof configSchema> & { publicUrl: string; cookieSecure: boolean };
 
 export function loadConfig(env: NodeJS.ProcessEnv = process.env, overrides: Partial<Record<string, string>> = {}): Config {
-  const parsed = configSchema.safeParse({ ...env, ...overrides });
+  const parsed = checkedSchema.safeParse({ ...env, ...overrides });
   if (!parsed.success) {
     const lines = parsed.error.issues.map((i) => `  - ${i.path.join('.')}: ${i.message}`);
     throw new Error(`Faultline cannot start: the configuration is invalid.\n${lines.join('\n')}`);

@@ -18,6 +18,7 @@ import { PushWorker } from './modules/push/push.service';
 import { schedulePruning } from './modules/auth/sign-in-throttle';
 import type { AppDeps } from './lib/http';
 import { photoSweeper } from './modules/tickets/photo-sweep';
+import { createPhotoStore } from './lib/storage/photo-store';
 import { warnAdminsOfLateMail } from './modules/mail/mail.service';
 import { AlarmSweeper } from './modules/alarms/sweep';
 import { startScheduler } from './modules/maintenance/scheduler';
@@ -43,7 +44,8 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
   const log = createLogger(config.LOG_LEVEL, opts.logDestination);
   const sequelize = acquireSequelize(config);
   const events = new DomainEvents();
-  const deps: AppDeps = { config, sequelize, log, events };
+  const photos = createPhotoStore(config);
+  const deps: AppDeps = { config, sequelize, log, events, photos };
 
   const catcher = opts.catcher ?? null;
   if (catcher) await catcher.start();
@@ -122,6 +124,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     await redis?.close();
     if (catcher) await catcher.stop();
     await releaseSequelize(sequelize);
+    photos.close();
     throw error;
   }
   const address = server.address();
@@ -141,6 +144,7 @@ export async function startServer(config: Config, opts: StartOptions = {}) {
     await new Promise<void>((resolve) => server.close(() => resolve()));
     if (catcher) await catcher.stop();
     await releaseSequelize(sequelize);
+    photos.close();
   }
 
   return { app, server, io, deps, worker, pushWorker, accountMail, sweeper, catcher, port, url: `http://${config.HOST}:${port}`, close };

@@ -52,7 +52,11 @@ export function errorMiddleware(log: Logger): ErrorRequestHandler {
     const known = toAppError(error);
     if (res.headersSent) return;
     if (known) {
-      if (known.status >= 500) log.warn({ code: known.code, route: `${req.method} ${req.originalUrl}` }, known.message);
+      if (known.status >= 500)
+        log.warn(
+          { code: known.code, route: `${req.method} ${req.originalUrl}`, ...(known.cause ? { cause: String(known.cause) } : {}) },
+          known.message,
+        );
       res
         .status(known.status)
         .json({ error: { code: known.code, message: known.message, ...(known.fields ? { fields: known.fields } : {}) } });

@@ -6,6 +6,7 @@ import { AppError, unauthorized, forbidden, badRequest, zodFields } from './erro
 import { securityLog, type Logger } from './logger';
 import type { Config } from '../config';
 import type { DomainEvents } from './events';
+import type { PhotoStore } from './storage/photo-store';
 
 /** What every handler and service may need; built once in createServer. */
 export interface AppDeps {
@@ -13,6 +14,8 @@ export interface AppDeps {
   sequelize: Sequelize;
   log: Logger;
   events: DomainEvents;
+  /** Where photos are kept (local folder or bucket). */
+  photos: PhotoStore;
 }
 
 /**

@@ -7,15 +7,17 @@ import type { RequestHandler } from 'express';
 import { AppError } from './errors';
 import type { Logger } from './logger';
 import type { Config } from '../config';
+import type { PhotoStore } from './storage/photo-store';
+import { PHOTO_NAME } from './storage/local-store';
 import { MAX_PHOTOS, MAX_PHOTO_BYTES, PHOTO_FIELD } from '../../shared/schemas/tickets';
 
 /**
  * Photo uploads. multer streams each part to a file in UPLOAD_DIR/incoming (never into memory),
  * with hard limits (its own defaults are Infinity); the content is checked and re-encoded from
- * there into UPLOAD_DIR/pending, and the ticket's transaction moves the results into
- * UPLOAD_DIR itself. No static route serves any of these folders; every name is random.
- * Whatever a crash leaves in incoming/ or pending/, or in UPLOAD_DIR without a photo row, is
- * removed by the sweep (sweepUploads) once it is an hour old.
+ * there and saved in the photo store (the local folder or a bucket: server/lib/storage), and
+ * the ticket's transaction links the results. Nothing is served but through the photo route;
+ * every name is random. Whatever a crash leaves in incoming/, or in the store without a photo
+ * row, is removed by the sweep (sweepUploads) once it is an hour old.
  */
 export const PHOTO_LIMITS = {
   fileSize: MAX_PHOTO_BYTES,
@@ -45,10 +47,8 @@ const JPEG_OPTIONS = { quality: 82, mozjpeg: false } as const;
 export function uploadDir(config: Pick<Config, 'UPLOAD_DIR'>): string {
   return path.resolve(config.UPLOAD_DIR);
 }
-/** Parts as they arrive (multer writes here). */
+/** Parts as they arrive (multer writes here, whichever photo store is in use). */
 export const incomingDir = (config: Pick<Config, 'UPLOAD_DIR'>) => path.join(uploadDir(config), 'incoming');
-/** Re-encoded photos not yet linked to a row. */
-export const pendingDir = (config: Pick<Config, 'UPLOAD_DIR'>) => path.join(uploadDir(config), 'pending');
 
 /** Busboy's own refusals of a body it cannot parse; anything else (a disk error) is ours. */
 function isClientMultipartError(error: unknown): boolean {
@@ -282,13 +282,12 @@ async function withDecoder<T>(work: () => Promise<T>): Promise<T> {
 const randomName = (suffix: string) => `${crypto.randomBytes(18).toString('base64url')}${suffix}.jpg`;
 
 /**
- * Checks and re-encodes the photos (up to PHOTO_DECODERS at once) and writes the results to
- * the pending folder under their final names. Either every photo is written, or none is left
- * behind. They become visible only through linkPhotos, inside the ticket's transaction.
+ * Checks and re-encodes the photos (up to PHOTO_DECODERS at once) and saves the results in the
+ * photo store under their final names. Either every photo is saved, or none is left behind.
+ * They are served only once linkPhotos has run inside the ticket's transaction.
  */
-export async function storePhotos(config: Pick<Config, 'UPLOAD_DIR'>, files: readonly IncomingFile[]): Promise<StoredPhoto[]> {
+export async function storePhotos(store: PhotoStore, files: readonly IncomingFile[]): Promise<StoredPhoto[]> {
   if (files.length === 0) return [];
-  const pending = pendingDir(config);
   const stored: StoredPhoto[] = [];
   try {
     // Decode everything first: a bad photo fails the request before the disk is touched.
@@ -296,51 +295,42 @@ export async function storePhotos(config: Pick<Config, 'UPLOAD_DIR'>, files: rea
     const failed = settled.find((r): r is PromiseRejectedResult => r.status === 'rejected');
     if (failed) throw failed.reason;
     const encoded = settled.map((r) => (r as PromiseFulfilledResult<Awaited<ReturnType<typeof reencode>>>).value);
-    await fs.mkdir(pending, { recursive: true });
     for (const photo of encoded) {
       const storedName = randomName('');
       const thumbName = randomName('-t');
       // Registered before writing, so a failure half-way still cleans up both names.
       stored.push({ storedName, thumbName, mime: 'image/jpeg', width: photo.width, height: photo.height, bytes: photo.full.length });
-      await fs.writeFile(path.join(pending, storedName), photo.full, { flag: 'wx', mode: 0o640 });
-      await fs.writeFile(path.join(pending, thumbName), photo.thumb, { flag: 'wx', mode: 0o640 });
+      await store.save(storedName, photo.full);
+      await store.save(thumbName, photo.thumb);
     }
     return stored;
   } catch (error) {
-    await removePhotos(config, stored);
+    // A store that is down may refuse the clean-up too; the sweep takes what is left.
+    await removePhotos(store, stored).catch(() => undefined);
     throw error;
   }
 }
 
 /**
- * Moves pending photos to their served place. Call it inside the transaction that inserts
- * their rows, after the insert: a crash before the commit leaves files the sweep removes, and
- * a rolled-back transaction is followed by removePhotos.
+ * Makes saved photos servable. Call it inside the transaction that inserts their rows, after
+ * the insert: a crash before the commit leaves files the sweep removes, and a rolled-back
+ * transaction is followed by removePhotos.
  */
-export async function linkPhotos(config: Pick<Config, 'UPLOAD_DIR'>, photos: readonly Pick<StoredPhoto, 'storedName' | 'thumbName'>[]) {
-  const dir = uploadDir(config);
-  const pending = pendingDir(config);
-  for (const name of photos.flatMap((p) => [p.storedName, p.thumbName])) await fs.rename(path.join(pending, name), path.join(dir, name));
+export async function linkPhotos(store: PhotoStore, photos: readonly Pick<StoredPhoto, 'storedName' | 'thumbName'>[]) {
+  await store.link(photos.flatMap((p) => [p.storedName, p.thumbName]));
 }
 
-/** Removes photos wherever they are (pending or linked). */
-export async function removePhotos(config: Pick<Config, 'UPLOAD_DIR'>, photos: readonly Pick<StoredPhoto, 'storedName' | 'thumbName'>[]) {
-  const names = photos.flatMap((p) => [p.storedName, p.thumbName]);
-  await Promise.all(
-    names.flatMap((name) => [uploadDir(config), pendingDir(config)].map((d) => fs.rm(path.join(d, name), { force: true }))),
-  );
+/** Removes photos wherever they are (saved or linked). */
+export async function removePhotos(store: PhotoStore, photos: readonly Pick<StoredPhoto, 'storedName' | 'thumbName'>[]) {
+  await store.remove(photos.flatMap((p) => [p.storedName, p.thumbName]));
 }
 
-const SAFE_NAME = /^[A-Za-z0-9_-]{20,60}(-t)?\.jpg$/;
-
-/** Reads a stored photo by its generated name (never a path from the request). */
-export async function readPhoto(config: Pick<Config, 'UPLOAD_DIR'>, name: string): Promise<Buffer> {
-  if (!SAFE_NAME.test(name)) throw new AppError(404, 'not_found', 'That photo was not found.');
-  try {
-    return await fs.readFile(path.join(uploadDir(config), name));
-  } catch {
-    throw new AppError(404, 'not_found', 'That photo file is missing.');
-  }
+/** Opens a stored photo by its generated name (never a path from the request). */
+export async function openPhoto(store: PhotoStore, name: string) {
+  if (!PHOTO_NAME.test(name)) throw new AppError(404, 'not_found', 'That photo was not found.');
+  const opened = await store.open(name);
+  if (!opened) throw new AppError(404, 'not_found', 'That photo file is missing.');
+  return opened;
 }
 
 /** Files younger than this are left alone by the sweep: their upload may still be under way. */
@@ -348,51 +338,34 @@ export const SWEEP_MIN_AGE_MS = 60 * 60_000;
 
 /**
  * Removes what a crash (or kill -9) left behind, once it is SWEEP_MIN_AGE_MS old: part files
- * in incoming/, re-encoded photos in pending/, and photo files in UPLOAD_DIR that no photo
- * row names. `isLinked` answers, for a list of names, those that a row names.
+ * in incoming/ (always local), and in the photo store photos saved but never linked or linked
+ * by no row. `isLinked` answers, for a list of names, those that a row names.
  */
 export async function sweepUploads(
   config: Pick<Config, 'UPLOAD_DIR'>,
+  store: PhotoStore,
   isLinked: (names: string[]) => Promise<Set<string>>,
   now = Date.now(),
 ): Promise<{ removed: string[] }> {
   const removed: string[] = [];
-  const old = async (file: string) => {
-    try {
-      return now - (await fs.stat(file)).mtimeMs >= SWEEP_MIN_AGE_MS;
-    } catch {
-      return false;
-    }
-  };
-  const list = async (dir: string) => {
-    try {
-      return await fs.readdir(dir, { withFileTypes: true });
-    } catch {
-      return [];
-    }
-  };
-  for (const dir of [incomingDir(config), pendingDir(config)]) {
-    for (const entry of await list(dir)) {
-      const file = path.join(dir, entry.name);
-      if (entry.isFile() && (await old(file))) {
-        await fs.rm(file, { force: true });
-        removed.push(file);
-      }
-    }
+  const dir = incomingDir(config);
+  let entries: import('node:fs').Dirent[] = [];
+  try {
+    entries = await fs.readdir(dir, { withFileTypes: true });
+  } catch {
+    entries = [];
   }
-  const dir = uploadDir(config);
-  const candidates: string[] = [];
-  for (const entry of await list(dir)) {
-    if (entry.isFile() && SAFE_NAME.test(entry.name) && (await old(path.join(dir, entry.name)))) candidates.push(entry.name);
+  for (const entry of entries) {
+    const file = path.join(dir, entry.name);
+    if (!entry.isFile()) continue;
+    const mtime = await fs.stat(file).then(
+      (s) => s.mtimeMs,
+      () => now,
+    );
+    if (now - mtime < SWEEP_MIN_AGE_MS) continue;
+    await fs.rm(file, { force: true });
+    removed.push(file);
   }
-  for (let i = 0; i < candidates.length; i += 500) {
-    const batch = candidates.slice(i, i + 500);
-    const linked = await isLinked(batch);
-    for (const name of batch) {
-      if (linked.has(name)) continue;
-      await fs.rm(path.join(dir, name), { force: true });
-      removed.push(path.join(dir, name));
-    }
-  }
+  removed.push(...(await store.sweep(isLinked, now, SWEEP_MIN_AGE_MS)));
   return { removed };
 }

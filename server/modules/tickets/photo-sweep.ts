@@ -18,11 +18,11 @@ async function linkedNames(names: string[]): Promise<Set<string>> {
  * Removes upload leftovers of a crash (see sweepUploads): once when the server starts, then
  * every PHOTO_SWEEP_INTERVAL_MS. A failed pass is logged and tried again next time.
  */
-export function photoSweeper(deps: Pick<AppDeps, 'config' | 'log'>) {
+export function photoSweeper(deps: Pick<AppDeps, 'config' | 'log' | 'photos'>) {
   let timer: NodeJS.Timeout | null = null;
-  async function runOnce() {
+  async function runOnce(now = Date.now()) {
     try {
-      const { removed } = await sweepUploads(deps.config, linkedNames);
+      const { removed } = await sweepUploads(deps.config, deps.photos, linkedNames, now);
       if (removed.length) deps.log.info({ removed: removed.length }, 'removed photo files left by an interrupted upload');
       return removed;
     } catch (error) {

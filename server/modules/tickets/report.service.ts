@@ -52,7 +52,7 @@ class AlreadySent extends Error {
 }
 
 /**
- * Photos are checked and written (to the pending folder) before the transaction, and linked
+ * Photos are checked and saved (in the photo store, not yet linked) before the transaction, and linked
  * into place by savePhotos inside it; if the transaction then fails, the files go again. So a
  * failed report leaves neither rows nor files, and a crash leaves only files the sweep removes.
  */
@@ -61,11 +61,12 @@ async function withStoredPhotos<T>(
   files: readonly IncomingFile[],
   work: (stored: StoredPhoto[]) => Promise<T>,
 ): Promise<T | { id: number; duplicate: true }> {
-  const stored = await storePhotos(deps.config, files);
+  const stored = await storePhotos(deps.photos, files);
   try {
     return await work(stored);
   } catch (error) {
-    await removePhotos(deps.config, stored);
+    // A store that is down may refuse the clean-up too; the sweep takes what is left.
+    await removePhotos(deps.photos, stored).catch(() => undefined);
     if (error instanceof AlreadySent) return { id: error.ticketId, duplicate: true };
     throw error;
   }
@@ -95,7 +96,7 @@ async function savePhotos(
     { transaction },
   );
   // The rows exist (uncommitted); the files take their served names in the same step.
-  await linkPhotos(deps.config, stored);
+  await linkPhotos(deps.photos, stored);
 }
 
 function reportFacts(

@@ -2,7 +2,8 @@ import { z } from 'zod';
 import { plainText } from '../../../shared/schemas/text';
 import { route, idParams, type RouteSpec } from '../../lib/http';
 import { rateLimit } from '../../lib/throttle';
-import { photoUploadMiddleware, readPhoto, UploadSlots, type IncomingFile } from '../../lib/uploads';
+import { pipeline } from 'node:stream/promises';
+import { photoUploadMiddleware, openPhoto, UploadSlots, type IncomingFile } from '../../lib/uploads';
 import type { Config } from '../../config';
 import type { Logger } from '../../lib/logger';
 import { addComment, addReport, createReport } from './report.service';
@@ -152,7 +153,7 @@ export function ticketRoutes(log: Logger, config: Config): RouteSpec[] {
       handle: async ({ deps, user, params, res }) => {
         const photo = await findVisiblePhoto(user!, params.id);
         await assertMayReadTicket(deps, user!, photo.ticketId);
-        sendPhoto(res, await readPhoto(deps.config, photo.storedName), photo.id);
+        await sendPhoto(res, await openPhoto(deps.photos, photo.storedName), photo.id);
         return undefined;
       },
     }),
@@ -165,7 +166,7 @@ export function ticketRoutes(log: Logger, config: Config): RouteSpec[] {
       handle: async ({ deps, user, params, res }) => {
         const photo = await findVisiblePhoto(user!, params.id);
         await assertMayReadTicket(deps, user!, photo.ticketId);
-        sendPhoto(res, await readPhoto(deps.config, photo.thumbName), photo.id);
+        await sendPhoto(res, await openPhoto(deps.photos, photo.thumbName), photo.id);
         return undefined;
       },
     }),
@@ -204,13 +205,20 @@ export function ticketRoutes(log: Logger, config: Config): RouteSpec[] {
   ];
 }
 
-function sendPhoto(res: import('express').Response, data: Buffer, id: number) {
+/**
+ * Streams a photo from the store through this route, after the caller's access check: the
+ * browser never learns where photos are kept (docs/decisions/0009-photo-storage.md).
+ */
+async function sendPhoto(res: import('express').Response, photo: { body: import('node:stream').Readable; size: number }, id: number) {
   res.status(200);
+  res.setHeader('Content-Length', String(photo.size));
   res.setHeader('Content-Type', 'image/jpeg');
   res.setHeader('X-Content-Type-Options', 'nosniff');
   res.setHeader('Content-Disposition', `inline; filename="photo-${id}.jpg"`);
   // Even if someone opens it directly, the response can run nothing.
   res.setHeader('Content-Security-Policy', "default-src 'none'; img-src 'self'; sandbox");
   res.setHeader('Cache-Control', 'private, no-store');
-  res.end(data);
+  // A client that goes away, or a store that breaks off, ends both streams; the headers are
+  // sent by then, so the error middleware leaves the response alone.
+  await pipeline(photo.body, res).catch(() => undefined);
 }
