@@ -1,9 +1,7 @@
-import fs from 'node:fs';
-import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startTestServer, type TestServer } from '../support/server';
 import { signedInClient, unique } from '../support/factories';
-import { projectRoot } from '../support/env';
+import { PHOTO_BACKENDS, photoBackend, type PhotoBackend } from '../support/photo-storage';
 import { startScratchDatabase, type ScratchDatabase } from '../support/database';
 import { Ticket, TicketEvent } from '../../server/modules/tickets/ticket.model';
 import { createTool, jpegBytes, multipartReport, reportBody } from './tickets-fixtures';
@@ -11,11 +9,17 @@ import { createTool, jpegBytes, multipartReport, reportBody } from './tickets-fi
 // A report sent while MariaDB is away must fail clearly (503), keep nothing half-written and
 // leave no photo behind, so the client can keep its draft and send it again later.
 
-// The outage happens on a throw-away MariaDB of this file's own (tests/support/database.ts).
+// The outage happens on a throw-away MariaDB of this file's own (tests/support/database.ts),
+// shared by both photo stores' runs.
 let db: ScratchDatabase;
-let server: TestServer;
-let dir: string;
 const TRIGGER = 'test_slow_ticket_event';
+
+beforeAll(async () => {
+  db = await startScratchDatabase();
+});
+afterAll(() => {
+  db?.destroy();
+});
 
 async function poll(check: () => Promise<boolean>, timeoutMs = 20_000) {
   const end = Date.now() + timeoutMs;
@@ -26,23 +30,22 @@ async function poll(check: () => Promise<boolean>, timeoutMs = 20_000) {
   return false;
 }
 
-const dbBack = () => poll(async () => (await fetch(`${server.url}/api/health`)).status === 200);
-/** Photo files anywhere under the upload folder: linked ones and those pending their transaction. */
-const filesInDir = () =>
-  fs.existsSync(dir) ? (fs.readdirSync(dir, { recursive: true }) as string[]).filter((f) => f.endsWith('.jpg')) : [];
+describe.each(PHOTO_BACKENDS)('reporting while the database is down (%s storage)', (kind) => {
+  let server: TestServer;
+  let backend: PhotoBackend;
+  const dbBack = () => poll(async () => (await fetch(`${server.url}/api/health`)).status === 200);
+  /** Photos in the store: linked ones and those saved for a transaction that has not committed. */
+  const filesInDir = () => backend.photos();
 
-beforeAll(async () => {
-  dir = path.join(projectRoot, 'test-results', unique('uploads-db-down'));
-  db = await startScratchDatabase();
-  server = await startTestServer({ ...db.overrides, UPLOAD_DIR: dir });
-});
-afterAll(async () => {
-  await server?.close();
-  db?.destroy();
-  fs.rmSync(dir, { recursive: true, force: true });
-});
+  beforeAll(async () => {
+    backend = await photoBackend(kind, 'uploads-db-down');
+    server = await startTestServer({ ...db.overrides, ...backend.overrides });
+  });
+  afterAll(async () => {
+    await server?.close();
+    await backend?.close();
+  });
 
-describe('reporting while the database is down', () => {
   it('when MariaDB is stopped, then a report with photos gets 503 db_unavailable, no file is kept, and after the restart no ticket exists; sending again works', async () => {
     const { tool } = await createTool(server.deps.sequelize);
     const { client } = await signedInClient(server.url, 'member');
@@ -57,7 +60,7 @@ describe('reporting while the database is down', () => {
     expect(r.status).toBe(503);
     expect(r.body.error.code).toBe('db_unavailable');
     expect(r.body.error.message).toMatch(/Nothing was saved/);
-    expect(filesInDir()).toEqual([]);
+    expect(await filesInDir()).toEqual([]);
 
     await db.start();
     expect(await dbBack()).toBe(true);
@@ -68,7 +71,7 @@ describe('reporting while the database is down', () => {
     expect(await poll(async () => (await client.get('/api/tickets?limit=1')).status === 200)).toBe(true);
     const again = await client.post('/api/tickets', multipartReport(reportBody(tool.id, { description }), photos));
     expect(again.status).toBe(201);
-    expect(filesInDir()).toHaveLength(4); // two photos, two thumbnails
+    expect(await filesInDir()).toHaveLength(4); // two photos, two thumbnails
   });
 
   it('when MariaDB goes away in the middle of the report transaction, after the photos were written, then 503, the photos are removed, and after the restart nothing of the report exists', async () => {
@@ -80,18 +83,18 @@ describe('reporting while the database is down', () => {
     await server.deps.sequelize.query(
       `CREATE TRIGGER ${TRIGGER} BEFORE INSERT ON ticket_events FOR EACH ROW BEGIN IF NEW.body = '${description}' THEN SET @slept = SLEEP(8); END IF; END`,
     );
-    const before = filesInDir();
+    const before = await filesInDir();
 
     const pending = client.post(
       '/api/tickets',
       multipartReport(reportBody(tool.id, { description }), [{ bytes: await jpegBytes(), name: 'a.jpg' }]),
     );
     // The photo and its thumbnail are on disk while the transaction waits.
-    expect(await poll(async () => filesInDir().length === before.length + 2, 10_000)).toBe(true);
+    expect(await poll(async () => (await filesInDir()).length === before.length + 2, 10_000)).toBe(true);
     db.stop();
     const r = await pending;
     expect(r.status).toBe(503);
-    expect(filesInDir().sort()).toEqual([...before].sort());
+    expect((await filesInDir()).sort()).toEqual([...before].sort());
 
     await db.start();
     expect(await dbBack()).toBe(true);

@@ -131,10 +131,13 @@ export async function photoBackend(kind: PhotoBackendKind, label: string, fake?:
       if (!s3) return fs.existsSync(path.join(dir, name));
       return (await s3.keys(`${prefix}${name}`)).includes(`${prefix}${name}`);
     },
-    /** Puts a photo as a crash would leave it: written to the store, no row naming it. */
-    async plant(name: string, when: Date | null) {
+    /**
+     * Puts a file or object as a crash would leave it, with no row naming it: locally in
+     * pending/ (saved, never linked) or in the folder itself (linked, then rolled back).
+     */
+    async plant(name: string, when: Date | null, where: 'pending' | 'linked' = 'pending') {
       if (!s3) {
-        const file = path.join(dir, 'pending', name);
+        const file = path.join(dir, where === 'pending' ? 'pending' : '', name);
         fs.mkdirSync(path.dirname(file), { recursive: true });
         fs.writeFileSync(file, 'left by a killed upload');
         if (when) fs.utimesSync(file, when, when);
@@ -143,10 +146,15 @@ export async function photoBackend(kind: PhotoBackendKind, label: string, fake?:
       await s3.put(`${prefix}${name}`, 'left by a killed upload');
       if (when) s3.age(`${prefix}${name}`, when);
     },
-    /** Makes stored photos look written at `when` (the sweep's age rule). */
-    async age(when: Date) {
-      for (const f of localFiles()) fs.utimesSync(path.join(dir, f), when, when);
-      if (s3) for (const key of await s3.keys(prefix)) s3.age(key, when);
+    /** Whether anything of this name is stored (linked or not). */
+    async holds(name: string): Promise<boolean> {
+      return (await this.everything()).some((f) => f === name || f.endsWith(`/${name}`));
+    },
+    /** Makes stored photos (all, or those named) look written at `when` (the sweep's age rule). */
+    async age(when: Date, names?: string[]) {
+      const wanted = (f: string) => !names || names.some((n) => f === n || f.endsWith(`/${n}`));
+      for (const f of localFiles()) if (wanted(f)) fs.utimesSync(path.join(dir, f), when, when);
+      if (s3) for (const key of await s3.keys(prefix)) if (wanted(key)) s3.age(key, when);
     },
     async close() {
       fs.rmSync(dir, { recursive: true, force: true });
