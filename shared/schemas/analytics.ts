@@ -169,18 +169,28 @@ export interface ResponseRow {
   ackP90Minutes: number | null;
   /** null for the 'all' row: each priority has its own target. */
   ackTargetMinutes: number | null;
-  /** Acknowledged within target ÷ (acknowledged + still unacknowledged past target). */
+  /**
+   * Acknowledged within target ÷ (acknowledged + still unacknowledged past target). A ticket
+   * still open past its target counts as missed even when it was reported before the period,
+   * so "100 %" never shows while one is open.
+   */
   ackMetShare: number | null;
+  /** Tickets (reported in the period or before) still unacknowledged past their target at the period's end. */
+  ackOverdue: number;
   restored: number;
   restoreMeanMinutes: number | null;
   restoreP90Minutes: number | null;
   restoreTargetMinutes: number | null;
   restoreMetShare: number | null;
+  /** Tickets still not restored past their target at the period's end. */
+  restoreOverdue: number;
 }
 
 export interface AnalyticsScope {
   kind: AnalyticsScopeKind;
   id: number | null;
+  /** The tool's or area's code (null for the facility): CSV file names carry it. */
+  code: string | null;
   name: string;
 }
 

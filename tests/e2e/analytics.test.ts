@@ -187,7 +187,7 @@ describe('the analytics page in the browser', () => {
     const links = page.locator('[data-testid="tool-ranking"] a');
     expect(await links.count()).toBe(toolCodes.length);
     expect((await links.first().getAttribute('href'))?.startsWith('/tools/')).toBe(true);
-    await page.getByRole('button', { name: 'Rising failure rate' }).click();
+    await page.getByRole('button', { name: 'Getting worse first' }).click();
     expect(await page.locator('[data-testid="tool-ranking"] [data-trend]').count()).toBe(toolCodes.length);
 
     await screenshot(page, 'analytics-desktop');

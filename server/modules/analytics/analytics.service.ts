@@ -301,21 +301,21 @@ async function toolsInScope(sequelize: Sequelize, scope: Scope): Promise<ToolInf
 
 /** The scope's display name; 404 when the area or tool does not exist. */
 async function describeScope(sequelize: Sequelize, scope: Scope): Promise<AnalyticsScope> {
-  if (scope.kind === 'facility') return { kind: 'facility', id: null, name: 'Whole facility' };
+  if (scope.kind === 'facility') return { kind: 'facility', id: null, code: null, name: 'Whole facility' };
   if (scope.kind === 'area') {
-    const [row] = await sequelize.query<{ name: string }>('SELECT name FROM areas WHERE id = :id', {
+    const [row] = await sequelize.query<{ name: string; code: string }>('SELECT name, code FROM areas WHERE id = :id', {
       type: QueryTypes.SELECT,
       replacements: { id: scope.areaId },
     });
     if (!row) throw notFound('That area');
-    return { kind: 'area', id: scope.areaId, name: row.name };
+    return { kind: 'area', id: scope.areaId, code: row.code, name: row.name };
   }
   const [row] = await sequelize.query<{ name: string; code: string }>('SELECT name, code FROM tools WHERE id = :id', {
     type: QueryTypes.SELECT,
     replacements: { id: scope.toolId },
   });
   if (!row) throw notFound('That tool');
-  return { kind: 'tool', id: scope.toolId, name: `${row.code} · ${row.name}` };
+  return { kind: 'tool', id: scope.toolId, code: row.code, name: `${row.code} · ${row.name}` };
 }
 
 type ParetoTally = Map<string, { kind: ParetoKind; key: string | null; hours: number; tickets: number }>;

@@ -96,6 +96,8 @@ export function monthsCsv(report: AnalyticsReport): string {
 
 /** A file name that says what and when: faultline-tools-area-3-2025-01-01-2025-12-31.csv. */
 export function csvFileName(kind: 'tools' | 'months', report: AnalyticsReport): string {
-  const scope = report.scope.kind === 'facility' ? 'facility' : `${report.scope.kind}-${report.scope.id}`;
+  // The tool's (or area's) code, as people know it, made safe for a file name.
+  const code = (report.scope.code ?? String(report.scope.id)).replace(/[^A-Za-z0-9._-]+/g, '_');
+  const scope = report.scope.kind === 'facility' ? 'facility' : `${report.scope.kind}-${code}`;
   return `faultline-${kind}-${scope}-${report.period.from.slice(0, 10)}-${report.period.to.slice(0, 10)}.csv`;
 }

@@ -36,11 +36,9 @@ interface ResponseSqlRow {
   acknowledged: number;
   ackMeanS: number | string | null;
   ackMet: number | string | null;
-  ackOverdue: number | string | null;
   restored: number;
   restoreMeanS: number | string | null;
   restoreMet: number | string | null;
-  restoreOverdue: number | string | null;
 }
 
 interface PercentileRow {
@@ -85,11 +83,9 @@ export async function responseFigures(
               COUNT(tk.acknowledged_at) AS acknowledged,
               AVG(${ack}) AS ackMeanS,
               SUM(tk.acknowledged_at IS NOT NULL AND ${ack} <= ${targetCase('ack')}) AS ackMet,
-              SUM(tk.acknowledged_at IS NULL AND TIMESTAMPDIFF(SECOND, tk.created_at, :now) > ${targetCase('ack')}) AS ackOverdue,
               COUNT(${restoredAt}) AS restored,
               AVG(${restore}) AS restoreMeanS,
-              SUM(${restoredAt} IS NOT NULL AND ${restore} <= ${targetCase('restore')}) AS restoreMet,
-              SUM(${restoredAt} IS NULL AND TIMESTAMPDIFF(SECOND, tk.created_at, :now) > ${targetCase('restore')}) AS restoreOverdue
+              SUM(${restoredAt} IS NOT NULL AND ${restore} <= ${targetCase('restore')}) AS restoreMet
          ${base}
         GROUP BY tk.priority ORDER BY NULL`,
       { type: QueryTypes.SELECT, replacements },
@@ -105,6 +101,20 @@ export async function responseFigures(
     ),
   ]);
 
+  // Still open past the target at the period's end counts as missed, whenever the ticket was
+  // reported: a ticket from before the period that nobody has acknowledged is missing its target
+  // now, and the share must not read "100 %" beside it.
+  const overdue = await sequelize.query<{ priority: string; ackOverdue: number | string | null; restoreOverdue: number | string | null }>(
+    `SELECT tk.priority,
+            SUM(tk.acknowledged_at IS NULL AND TIMESTAMPDIFF(SECOND, tk.created_at, :to) > ${targetCase('ack')}) AS ackOverdue,
+            SUM(${restoredAt} IS NULL AND TIMESTAMPDIFF(SECOND, tk.created_at, :to) > ${targetCase('restore')}) AS restoreOverdue
+       FROM tickets tk
+      WHERE tk.created_at < :to AND tk.status NOT IN ('merged', 'closed', 'no_fault_found')
+        AND (tk.acknowledged_at IS NULL OR ${restoredAt} IS NULL)${scopeSql(scope)}
+      GROUP BY tk.priority ORDER BY NULL`,
+    { type: QueryTypes.SELECT, replacements },
+  );
+  const byOverdue = new Map(overdue.map((r) => [r.priority, r]));
   const bySum = new Map(sums.map((r) => [r.priority, r]));
   const byPct = new Map(percentiles.map((r) => [r.priority, r]));
   const totals = {
@@ -117,6 +127,8 @@ export async function responseFigures(
     restoreSeconds: 0,
     restoreMet: 0,
     restoreDecided: 0,
+    ackOverdue: 0,
+    restoreOverdue: 0,
   };
 
   const byPriority: ResponseRow[] = PRIORITIES.map((priority) => {
@@ -126,8 +138,12 @@ export async function responseFigures(
     const restored = num(s?.restored);
     const ackMet = num(s?.ackMet);
     const restoreMet = num(s?.restoreMet);
-    const ackDecided = acknowledged + num(s?.ackOverdue);
-    const restoreDecided = restored + num(s?.restoreOverdue);
+    const ackOverdue = num(byOverdue.get(priority)?.ackOverdue);
+    const restoreOverdue = num(byOverdue.get(priority)?.restoreOverdue);
+    const ackDecided = acknowledged + ackOverdue;
+    const restoreDecided = restored + restoreOverdue;
+    totals.ackOverdue += ackOverdue;
+    totals.restoreOverdue += restoreOverdue;
     totals.tickets += num(s?.tickets);
     totals.acknowledged += acknowledged;
     totals.ackSeconds += num(s?.ackMeanS) * acknowledged;
@@ -145,11 +161,13 @@ export async function responseFigures(
       ackP90Minutes: minutes(p?.ackP90),
       ackTargetMinutes: targets[priority].acknowledgeMinutes,
       ackMetShare: share(ackMet, ackDecided),
+      ackOverdue,
       restored,
       restoreMeanMinutes: restored > 0 ? minutes(s?.restoreMeanS) : null,
       restoreP90Minutes: minutes(p?.restoreP90),
       restoreTargetMinutes: targets[priority].restoreMinutes,
       restoreMetShare: share(restoreMet, restoreDecided),
+      restoreOverdue,
     };
   });
 
@@ -162,11 +180,13 @@ export async function responseFigures(
     ackP90Minutes: minutes(anyPct?.ackP90All),
     ackTargetMinutes: null,
     ackMetShare: share(totals.ackMet, totals.ackDecided),
+    ackOverdue: totals.ackOverdue,
     restored: totals.restored,
     restoreMeanMinutes: totals.restored > 0 ? totals.restoreSeconds / totals.restored / 60 : null,
     restoreP90Minutes: minutes(anyPct?.restoreP90All),
     restoreTargetMinutes: null,
     restoreMetShare: share(totals.restoreMet, totals.restoreDecided),
+    restoreOverdue: totals.restoreOverdue,
   };
   return { byPriority, overall };
 }

@@ -128,6 +128,8 @@ function Section({
 
 function Report({ report }: { report: AnalyticsReport }) {
   const scopeWord = report.scope.kind === 'facility' ? 'the facility' : report.scope.name;
+  // One tool reads as one tool: "LPCVD-3 · LPCVD tube 3", never "every tool in".
+  const oneTool = report.scope.kind === 'tool';
   // On paper the report is one A4 page: the sections that matter most, in a two-column grid
   // (print:contents lifts the screen's row wrappers out of the way, print:order places them).
   return (
@@ -139,7 +141,7 @@ function Report({ report }: { report: AnalyticsReport }) {
       <div className="grid grid-cols-1 gap-6 xl:grid-cols-2 print:contents">
         <Section
           title="Hours in each state per month"
-          description={`Time of every tool in ${scopeWord}, by SEMI E10 state.`}
+          description={oneTool ? `Time of ${scopeWord}, by SEMI E10 state.` : `Time of every tool in ${scopeWord}, by SEMI E10 state.`}
           testId="section-state-hours"
           className="print:order-2"
         >
@@ -179,13 +181,17 @@ function Report({ report }: { report: AnalyticsReport }) {
       </div>
 
       <Section
-        title="Tools"
-        description="Ranked by availability, downtime or a rising failure rate. Open a tool for its history and tickets."
+        title={oneTool ? 'This tool' : 'Tools'}
+        description={
+          oneTool
+            ? 'Its figures and whether it is getting worse. Open it for its history and tickets.'
+            : 'Ranked by availability, downtime or whether they are getting worse. Open a tool for its history and tickets.'
+        }
         flush
         testId="section-tools"
         className="print:order-6 print:col-span-2"
       >
-        <ToolRanking tools={report.tools} />
+        <ToolRanking tools={report.tools} single={oneTool} />
       </Section>
 
       <Section

@@ -18,7 +18,9 @@ export function formatPercent(percent: number | null | undefined): string {
 
 export function formatShare(share: number | null | undefined): string {
   if (share === null || share === undefined) return '—';
-  return `${whole.format(share * 100)} %`;
+  // Anything short of all is never rounded up to "100 %": one miss in 300 reads "99 %".
+  const pct = share < 1 ? Math.min(99, Math.round(share * 100)) : 100;
+  return `${whole.format(pct)} %`;
 }
 
 export function formatCount(count: number): string {

@@ -67,8 +67,17 @@ export function HeadlineFigures({ report }: { report: AnalyticsReport }) {
         waiting: {formatHours(t.meanDownHoursPerFailure)}.
       </Figure>
       <Figure id="acknowledge" label="Time to acknowledge" value={formatMinutes(ack.ackMeanMinutes)} raw={ack.ackMeanMinutes}>
-        Mean over {formatCount(ack.acknowledged)} tickets reported in the period; 90 % within {formatMinutes(ack.ackP90Minutes)}.{' '}
-        {formatShare(ack.ackMetShare)} acknowledged within their target.
+        Mean over the <span data-testid="ack-count">{formatCount(ack.acknowledged)}</span> acknowledged of the{' '}
+        <span data-testid="ticket-count">{formatCount(ack.tickets)}</span> tickets reported in the period; 90 % within{' '}
+        {formatMinutes(ack.ackP90Minutes)}.{' '}
+        <span data-testid="ack-met">{formatShare(ack.ackMetShare)} acknowledged within their target</span>
+        {ack.ackOverdue > 0 && (
+          <>
+            {' '}
+            · <strong data-testid="ack-overdue">{formatCount(ack.ackOverdue)} open past the target</strong>
+          </>
+        )}
+        .
       </Figure>
     </dl>
   );

@@ -47,6 +47,7 @@ export function ResponseTable({ rows, overall }: { rows: ResponseRow[]; overall:
               <td className="px-4 py-2 text-right tabular-nums whitespace-nowrap">
                 {r.ackTargetMinutes === null ? '' : `${formatMinutes(r.ackTargetMinutes)} · `}
                 {formatShare(r.ackMetShare)}
+                {r.ackOverdue > 0 && <span className="block text-xs font-semibold">{formatCount(r.ackOverdue)} open late</span>}
               </td>
               <td className="px-4 py-2 text-right tabular-nums whitespace-nowrap">
                 {formatMinutes(r.restoreMeanMinutes)} / {formatMinutes(r.restoreP90Minutes)}
@@ -54,6 +55,7 @@ export function ResponseTable({ rows, overall }: { rows: ResponseRow[]; overall:
               <td className="px-4 py-2 text-right tabular-nums whitespace-nowrap">
                 {r.restoreTargetMinutes === null ? '' : `${formatMinutes(r.restoreTargetMinutes)} · `}
                 {formatShare(r.restoreMetShare)}
+                {r.restoreOverdue > 0 && <span className="block text-xs font-semibold">{formatCount(r.restoreOverdue)} open late</span>}
               </td>
             </tr>
           ))}
@@ -61,7 +63,8 @@ export function ResponseTable({ rows, overall }: { rows: ResponseRow[]; overall:
       </table>
       <p className="px-5 pt-3 text-xs text-muted">
         Tickets reported in the period, merged duplicates left out. Time to restore runs to the moment the ticket was marked fixed (or found
-        to have no fault). “Met” counts a ticket still waiting past its target as missed.
+        to have no fault). “Met” counts a ticket still open past its target as missed, also one reported before the period, so a share never
+        reads 100 % while such a ticket is open.
       </p>
     </div>
   );

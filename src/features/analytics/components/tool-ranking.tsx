@@ -10,7 +10,7 @@ export type ToolSort = 'availability' | 'downtime' | 'trend';
 const SORTS: { key: ToolSort; label: string }[] = [
   { key: 'availability', label: 'Lowest availability' },
   { key: 'downtime', label: 'Most downtime' },
-  { key: 'trend', label: 'Rising failure rate' },
+  { key: 'trend', label: 'Getting worse first' },
 ];
 
 /** Rows printed on the one-page report; the CSV has them all. */
@@ -33,11 +33,12 @@ export function sortTools(tools: AnalyticsToolRow[], sort: ToolSort): AnalyticsT
   return rows;
 }
 
+// The answer to "Getting worse?" in plain words; the statistics sit under it, explained below.
 const TREND_WORDS: Record<ReliabilityTrend, string> = {
-  worsening: 'Rising',
-  improving: 'Falling',
-  none: 'No trend',
-  insufficient: 'Too few failures',
+  worsening: 'Yes: failing more often',
+  improving: 'No: failing less often',
+  none: 'No clear change',
+  insufficient: 'Too few failures to tell',
 };
 
 /** The trend told by a shape and a word as well as a colour. */
@@ -64,13 +65,18 @@ function TrendBadge({ trend }: { trend: ReliabilityTrend }) {
   );
 }
 
-export function ToolRanking({ tools }: { tools: AnalyticsToolRow[] }) {
+export function ToolRanking({ tools, single = false }: { tools: AnalyticsToolRow[]; single?: boolean }) {
   const [sort, setSort] = useState<ToolSort>('availability');
   const rows = sortTools(tools, sort);
   if (tools.length === 0) return <p className="p-5 text-sm text-muted">No tool has any logged time in this period.</p>;
   return (
     <div className="flex flex-col">
-      <div className="flex flex-wrap items-center gap-2 px-5 pb-3 print:hidden" role="group" aria-label="Rank the tools by">
+      {/* One tool has nothing to rank. */}
+      <div
+        className={cx('flex flex-wrap items-center gap-2 px-5 pb-3 print:hidden', single && 'hidden')}
+        role="group"
+        aria-label="Rank the tools by"
+      >
         <span className="text-sm font-semibold text-muted">Rank by</span>
         {SORTS.map((s) => (
           <button
@@ -113,7 +119,7 @@ export function ToolRanking({ tools }: { tools: AnalyticsToolRow[] }) {
                 MTTR (E10)
               </th>
               <th scope="col" className="px-4 py-2">
-                Failure rate
+                Getting worse?
               </th>
             </tr>
           </thead>
@@ -142,7 +148,11 @@ export function ToolRanking({ tools }: { tools: AnalyticsToolRow[] }) {
                 <td className="px-4 py-2 text-right tabular-nums">{formatHours(t.figures.mttrHours)}</td>
                 <td className="px-4 py-2">
                   <TrendBadge trend={t.trend} />
-                  {t.crowBeta !== null && <span className="mt-1 block text-xs text-muted tabular-nums">β {t.crowBeta.toFixed(2)}</span>}
+                  {t.crowBeta !== null && (
+                    <span className="mt-1 block text-xs text-muted tabular-nums" title="Crow-AMSAA shape β: above 1, failures come faster">
+                      β {t.crowBeta.toFixed(2)}
+                    </span>
+                  )}
                 </td>
               </tr>
             ))}
@@ -150,9 +160,9 @@ export function ToolRanking({ tools }: { tools: AnalyticsToolRow[] }) {
         </table>
       </div>
       <p className="px-5 pt-3 text-xs text-muted print:pt-1">
-        Failure rate: the reverse-arrangement test (95 %, one-sided) on the gaps between failure starts; “Rising” means the gaps are
-        shrinking. β is the Crow-AMSAA shape over the period: above 1, failures come faster. At least four failures are needed for a
-        verdict.
+        Getting worse? “Yes” when the gaps between failures are shrinking beyond chance (the reverse-arrangement test, 95 %, one-sided); “No
+        clear change” when they are not. β, the Crow-AMSAA shape over the period, says how fast: 1 is a steady rate, above 1 failures come
+        faster, below 1 slower. At least four failures are needed for an answer.
         {tools.length > PRINTED_TOOLS && (
           <span className="hidden print:inline">
             {' '}
